@@ -1,0 +1,32 @@
+//! Criterion benchmarks of the synchronizer model: one evaluation, and a 1e6-point sweep.
+#![allow(missing_docs, clippy::unwrap_used)]
+
+use criterion::{criterion_group, criterion_main, Criterion};
+use latchwise::params::RawInputs;
+use latchwise::sweep::sweep_tau;
+use latchwise::synchronizer::{evaluate, SyncCase};
+use std::hint::black_box;
+
+const DEMO: &str = "tau=20p&tw=40p&fclk=1G&fdata=100M&stages=2&tsu=30p&tcq=50p&target-years=1e6";
+
+fn bench(c: &mut Criterion) {
+    let case = SyncCase::from_inputs(&RawInputs::from_query(DEMO)).unwrap();
+    c.bench_function("sync/log10_rate", |b| {
+        b.iter(|| black_box(&case.sync).log10_rate())
+    });
+    c.bench_function("sync/evaluate_with_solvers", |b| {
+        b.iter(|| evaluate(black_box(&case)))
+    });
+    c.bench_function("sync/parse_and_validate", |b| {
+        b.iter(|| SyncCase::from_inputs(&RawInputs::from_query(black_box(DEMO))).unwrap())
+    });
+    let mut g = c.benchmark_group("sweep");
+    g.sample_size(10);
+    g.bench_function("tau_1e6_points", |b| {
+        b.iter(|| sweep_tau(black_box(&case.sync), 1e-12, 1e-9, 1_000_000))
+    });
+    g.finish();
+}
+
+criterion_group!(benches, bench);
+criterion_main!(benches);

@@ -1,0 +1,100 @@
+//! Turns `--name value` options (and `--from-url`) into the core's named raw inputs.
+
+use latchwise::params::{FieldSpec, RawInputs};
+
+/// Options common to every calculator command, besides its fields.
+#[derive(Debug, Default)]
+pub struct Parsed {
+    /// The field values: URL pairs first, explicit options after (so they win).
+    pub raw: RawInputs,
+    /// `--json` was given.
+    pub json: bool,
+    /// `--help` was given.
+    pub help: bool,
+    /// Keys of `--from-url` that no field knows.
+    pub ignored: Vec<String>,
+}
+
+/// Parses `args` against `fields`.
+///
+/// # Errors
+/// A message for an unknown option, a missing value or a repeated `--from-url`.
+pub fn parse(args: &[String], fields: &[FieldSpec]) -> Result<Parsed, String> {
+    let mut out = Parsed::default();
+    let mut url: Option<RawInputs> = None;
+    let mut explicit: Vec<(String, String)> = Vec::new();
+    let mut i = 0;
+    while i < args.len() {
+        let a = &args[i];
+        i += 1;
+        let Some(body) = a.strip_prefix("--") else {
+            return Err(format!("unexpected argument '{a}' (options start with --)"));
+        };
+        let (name, inline) = match body.split_once('=') {
+            Some((n, v)) => (n, Some(v.to_string())),
+            None => (body, None),
+        };
+        match name {
+            "json" | "help" if inline.is_some() => {
+                return Err(format!("--{name} takes no value"));
+            }
+            "json" => out.json = true,
+            "help" => out.help = true,
+            _ => {
+                let value = match inline {
+                    Some(v) => v,
+                    None => match args.get(i) {
+                        Some(v) => {
+                            i += 1;
+                            v.clone()
+                        }
+                        None => return Err(format!("--{name} needs a value")),
+                    },
+                };
+                if name == "from-url" {
+                    if url.is_some() {
+                        return Err("--from-url given twice".into());
+                    }
+                    url = Some(RawInputs::from_query(&value));
+                } else if fields.iter().any(|f| f.name == name) {
+                    explicit.push((name.to_string(), value));
+                } else {
+                    return Err(format!(
+                        "unknown option --{name} (known: {})",
+                        fields
+                            .iter()
+                            .map(|f| format!("--{}", f.name))
+                            .collect::<Vec<_>>()
+                            .join(", ")
+                    ));
+                }
+            }
+        }
+    }
+    let mut pairs: Vec<(String, String)> = Vec::new();
+    if let Some(u) = url {
+        out.ignored = u.unknown_keys(fields);
+        pairs.extend(
+            u.pairs()
+                .iter()
+                .filter(|(k, _)| fields.iter().any(|f| f.name == k))
+                .cloned(),
+        );
+    }
+    pairs.extend(explicit);
+    out.raw = RawInputs::from_pairs(pairs);
+    Ok(out)
+}
+
+/// The options table of a command's help, from its field list.
+pub fn options_help(fields: &[FieldSpec]) -> String {
+    let mut s = String::new();
+    for f in fields {
+        let unit = match f.dim.symbol() {
+            "" => String::new(),
+            u => format!(" [{u}]"),
+        };
+        s.push_str(&format!("  --{:<15} {}{unit}\n", f.name, f.help));
+    }
+    s
+}

@@ -1,0 +1,169 @@
+//! Typed input errors: every one names the field it belongs to and what is wrong.
+
+use std::fmt;
+
+use crate::quantity::Dim;
+
+/// What is wrong with one input field.
+#[derive(Debug, Clone, PartialEq)]
+#[non_exhaustive]
+pub enum ParamErrorKind {
+    /// The field is required and was left empty.
+    Missing,
+    /// The text is not a number in engineering notation.
+    NotANumber(String),
+    /// The text names infinity or NaN.
+    NotFinite(String),
+    /// The number is too large to represent.
+    Overflow(String),
+    /// The number is non-zero but too small to represent.
+    Underflow(String),
+    /// A unit suffix that no field knows.
+    UnknownUnit(String),
+    /// A unit that belongs to another kind of quantity.
+    WrongUnit {
+        /// The text as typed.
+        text: String,
+        /// The kind the unit denotes.
+        found: Dim,
+        /// The kind the field expects.
+        expected: Dim,
+    },
+    /// A negative value where only positive ones make sense.
+    Negative(Dim),
+    /// Zero where only positive values make sense.
+    Zero(Dim),
+    /// A count that is not a whole number.
+    NotInteger(String),
+    /// A value outside the range the field accepts.
+    OutOfRange {
+        /// The value as parsed.
+        value: f64,
+        /// A description of the accepted range, e.g. "1 to 1000".
+        range: &'static str,
+    },
+    /// Two fields that exclude each other were both given.
+    Conflict(&'static str),
+    /// The sampling period leaves no time to resolve between stages.
+    PeriodTooShort {
+        /// The clock period in seconds.
+        period: f64,
+        /// The time the next stage needs (setup plus clock-to-output) in seconds.
+        needed: f64,
+    },
+    /// The latch transconductance does not exceed the node conductance.
+    NotRegenerative {
+        /// Transconductance in siemens.
+        gm: f64,
+        /// Node conductance in siemens.
+        g0: f64,
+    },
+    /// A choice field got a value it does not know.
+    UnknownChoice {
+        /// The text as typed.
+        text: String,
+        /// The accepted values, comma separated.
+        choices: &'static str,
+    },
+}
+
+/// An input error tied to a named field (the parameter name of the domain notes).
+#[derive(Debug, Clone, PartialEq)]
+pub struct ParamError {
+    /// The parameter name, e.g. `tau`.
+    pub field: &'static str,
+    /// What is wrong.
+    pub kind: ParamErrorKind,
+}
+
+impl ParamError {
+    /// Creates an error for `field`.
+    pub fn new(field: &'static str, kind: ParamErrorKind) -> Self {
+        ParamError { field, kind }
+    }
+}
+
+impl fmt::Display for ParamError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        use crate::quantity::format_si;
+        use ParamErrorKind::*;
+        write!(f, "{}: ", self.field)?;
+        match &self.kind {
+            Missing => write!(f, "a value is required"),
+            NotANumber(t) => write!(
+                f,
+                "'{t}' is not a number (write e.g. 20p, 20 ps, 2e-11 or 1.5GHz)"
+            ),
+            NotFinite(t) => write!(f, "'{t}' is not a finite number"),
+            Overflow(t) => write!(f, "'{t}' is too large to represent"),
+            Underflow(t) => write!(f, "'{t}' is too small to represent (it would round to 0)"),
+            UnknownUnit(u) => write!(f, "unknown unit or prefix '{u}'"),
+            WrongUnit {
+                text,
+                found,
+                expected,
+            } => write!(
+                f,
+                "'{text}' is {} {}, expected {} {}",
+                found.article(),
+                found.noun(),
+                expected.article(),
+                expected.noun()
+            ),
+            Negative(d) => write!(f, "negative {}", d.noun()),
+            Zero(d) => write!(f, "must be a positive {}, not zero", d.noun()),
+            NotInteger(t) => write!(f, "'{t}' is not a whole number"),
+            OutOfRange { value, range } => {
+                write!(
+                    f,
+                    "{} is out of range (allowed: {range})",
+                    fmt_plain(*value)
+                )
+            }
+            Conflict(other) => write!(f, "give either {} or {other}, not both", self.field),
+            PeriodTooShort { period, needed } => write!(
+                f,
+                "clock period {} is not longer than tsu + tcq = {}: no time is left to resolve",
+                format_si(*period, "s"),
+                format_si(*needed, "s")
+            ),
+            NotRegenerative { gm, g0 } => write!(
+                f,
+                "gm = {} does not exceed g0 = {}: the latch would not regenerate",
+                format_si(*gm, "S"),
+                format_si(*g0, "S")
+            ),
+            UnknownChoice { text, choices } => {
+                write!(f, "'{text}' is not one of: {choices}")
+            }
+        }
+    }
+}
+
+fn fmt_plain(v: f64) -> String {
+    if v == v.trunc() && v.abs() < 1e15 {
+        format!("{v:.0}")
+    } else {
+        format!("{v}")
+    }
+}
+
+impl std::error::Error for ParamError {}
+
+/// All the field errors found in one set of inputs, in field order.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct ParamErrors(pub Vec<ParamError>);
+
+impl fmt::Display for ParamErrors {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        for (i, e) in self.0.iter().enumerate() {
+            if i > 0 {
+                writeln!(f)?;
+            }
+            write!(f, "{e}")?;
+        }
+        Ok(())
+    }
+}
+
+impl std::error::Error for ParamErrors {}

@@ -1,0 +1,297 @@
+//! Raw named inputs (from a URL query or command-line options) and the field table.
+//!
+//! One vocabulary serves the URL query, the command line and the JSON output: a
+//! calculator declares its fields as [`FieldSpec`]s and reads typed values from
+//! [`RawInputs`], which remembers every error so that all of them can be shown at once.
+
+use serde::Serialize;
+
+use crate::error::{ParamError, ParamErrorKind, ParamErrors};
+use crate::quantity::{self, Dim};
+
+/// One input field of a calculator.
+#[derive(Debug, Clone, Copy)]
+pub struct FieldSpec {
+    /// Parameter name: URL key, CLI option (`--name`) and JSON key.
+    pub name: &'static str,
+    /// The kind of value, which decides the accepted units.
+    pub dim: Dim,
+    /// One line of help.
+    pub help: &'static str,
+}
+
+/// Name/value pairs as given, in order, before any parsing.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct RawInputs {
+    pairs: Vec<(String, String)>,
+}
+
+impl RawInputs {
+    /// Wraps pairs taken from any source; a later pair overrides an earlier one.
+    pub fn from_pairs<K: Into<String>, V: Into<String>>(
+        pairs: impl IntoIterator<Item = (K, V)>,
+    ) -> Self {
+        RawInputs {
+            pairs: pairs
+                .into_iter()
+                .map(|(k, v)| (k.into(), v.into()))
+                .collect(),
+        }
+    }
+
+    /// Reads the query of a URL (`https://host/page?tau=20p&...`), a bare `?query` or a
+    /// bare `query`. The fragment is dropped; `+` is a space; `%XX` escapes are decoded.
+    ///
+    /// # Examples
+    /// ```
+    /// use latchwise::params::RawInputs;
+    /// let r = RawInputs::from_query("file:///x/index.html?tau=20%20ps&fclk=1GHz#plots");
+    /// assert_eq!(r.get("tau"), Some("20 ps"));
+    /// assert_eq!(r.get("fclk"), Some("1GHz"));
+    /// ```
+    pub fn from_query(url: &str) -> Self {
+        let without_fragment = url.split('#').next().unwrap_or("");
+        let query = match without_fragment.split_once('?') {
+            Some((_, q)) => q,
+            None if without_fragment.contains('=') => without_fragment,
+            None => "",
+        };
+        RawInputs::from_pairs(query.split('&').filter(|p| !p.is_empty()).map(|p| {
+            match p.split_once('=') {
+                Some((k, v)) => (percent_decode(k), percent_decode(v)),
+                None => (percent_decode(p), String::new()),
+            }
+        }))
+    }
+
+    /// The text given for `name` (the last one wins), if any.
+    pub fn get(&self, name: &str) -> Option<&str> {
+        self.pairs
+            .iter()
+            .rev()
+            .find(|(k, _)| k == name)
+            .map(|(_, v)| v.as_str())
+    }
+
+    /// The text given for `name`, `None` when absent or blank.
+    pub fn get_nonblank(&self, name: &str) -> Option<&str> {
+        self.get(name).filter(|v| !v.trim().is_empty())
+    }
+
+    /// All pairs in order.
+    pub fn pairs(&self) -> &[(String, String)] {
+        &self.pairs
+    }
+
+    /// Keys that no field in `fields` knows, each once, in order of appearance.
+    pub fn unknown_keys(&self, fields: &[FieldSpec]) -> Vec<String> {
+        let mut out: Vec<String> = Vec::new();
+        for (k, _) in &self.pairs {
+            if !fields.iter().any(|f| f.name == k) && !out.contains(k) {
+                out.push(k.clone());
+            }
+        }
+        out
+    }
+}
+
+/// Decodes `%XX` escapes and `+`; invalid escapes and invalid UTF-8 are kept visibly.
+fn percent_decode(s: &str) -> String {
+    let b = s.as_bytes();
+    let mut out = Vec::with_capacity(b.len());
+    let mut i = 0;
+    while i < b.len() {
+        match b[i] {
+            b'+' => out.push(b' '),
+            b'%' if i + 2 < b.len() => match (hex(b[i + 1]), hex(b[i + 2])) {
+                (Some(h), Some(l)) => {
+                    out.push(h * 16 + l);
+                    i += 2;
+                }
+                _ => out.push(b'%'),
+            },
+            c => out.push(c),
+        }
+        i += 1;
+    }
+    String::from_utf8_lossy(&out).into_owned()
+}
+
+fn hex(c: u8) -> Option<u8> {
+    (c as char).to_digit(16).map(|d| d as u8)
+}
+
+/// Reads typed fields from [`RawInputs`], collecting every error instead of stopping at
+/// the first, so that a page can flag each bad field beside itself.
+pub struct FieldReader<'a> {
+    raw: &'a RawInputs,
+    errors: Vec<ParamError>,
+}
+
+impl<'a> FieldReader<'a> {
+    /// Starts reading `raw`.
+    pub fn new(raw: &'a RawInputs) -> Self {
+        FieldReader {
+            raw,
+            errors: Vec::new(),
+        }
+    }
+
+    /// Whether a non-blank value was given for `name`.
+    pub fn has(&self, name: &str) -> bool {
+        self.raw.get_nonblank(name).is_some()
+    }
+
+    /// Records an error found by the caller.
+    pub fn push(&mut self, e: ParamError) {
+        if !self.errors.iter().any(|x| x.field == e.field) {
+            self.errors.push(e);
+        }
+    }
+
+    /// Parses `spec` if given; `None` (no error) when absent or blank.
+    pub fn optional<T>(
+        &mut self,
+        spec: &FieldSpec,
+        make: fn(&'static str, f64) -> Result<T, ParamError>,
+    ) -> Option<T> {
+        let text = self.raw.get_nonblank(spec.name)?;
+        match quantity::parse(spec.name, text, spec.dim).and_then(|v| make(spec.name, v)) {
+            Ok(v) => Some(v),
+            Err(e) => {
+                self.push(e);
+                None
+            }
+        }
+    }
+
+    /// Parses `spec`, recording `Missing` when it is absent or blank.
+    pub fn required<T>(
+        &mut self,
+        spec: &FieldSpec,
+        make: fn(&'static str, f64) -> Result<T, ParamError>,
+    ) -> Option<T> {
+        if !self.has(spec.name) {
+            self.push(ParamError::new(spec.name, ParamErrorKind::Missing));
+            return None;
+        }
+        self.optional(spec, make)
+    }
+
+    /// Finishes: every error recorded, in the order found.
+    pub fn into_errors(self) -> ParamErrors {
+        ParamErrors(self.errors)
+    }
+
+    /// Whether any error has been recorded.
+    pub fn has_errors(&self) -> bool {
+        !self.errors.is_empty()
+    }
+}
+
+/// A whole number in `lo..=hi`, as a constructor for [`FieldReader`].
+///
+/// # Errors
+/// `NotInteger` or `OutOfRange`, naming `field`.
+pub fn whole(
+    field: &'static str,
+    v: f64,
+    lo: u64,
+    hi: u64,
+    range: &'static str,
+) -> Result<u64, ParamError> {
+    if v.fract() != 0.0 {
+        return Err(ParamError::new(
+            field,
+            ParamErrorKind::NotInteger(format!("{v}")),
+        ));
+    }
+    if v < lo as f64 || v > hi as f64 {
+        return Err(ParamError::new(
+            field,
+            ParamErrorKind::OutOfRange { value: v, range },
+        ));
+    }
+    Ok(v as u64)
+}
+
+/// A finite positive plain number, as a constructor for [`FieldReader`].
+///
+/// # Errors
+/// `Negative` or `Zero`, naming `field`.
+pub fn positive_number(field: &'static str, v: f64) -> Result<f64, ParamError> {
+    if v < 0.0 {
+        Err(ParamError::new(field, ParamErrorKind::Negative(Dim::Ratio)))
+    } else if v == 0.0 {
+        Err(ParamError::new(field, ParamErrorKind::Zero(Dim::Ratio)))
+    } else {
+        Ok(v)
+    }
+}
+
+/// One field as the page shows it: the text typed and, if it parses, its normalised echo.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct FieldEcho {
+    /// Parameter name.
+    pub name: &'static str,
+    /// The text as given ("" when absent).
+    pub text: String,
+    /// The value re-written with an SI prefix, when the text parses on its own.
+    pub normalized: Option<String>,
+}
+
+/// Echoes every field of `fields`: what was typed and how it was understood.
+pub fn echo_fields(raw: &RawInputs, fields: &[FieldSpec]) -> Vec<FieldEcho> {
+    fields
+        .iter()
+        .map(|f| {
+            let text = raw.get(f.name).unwrap_or("").to_string();
+            let normalized = quantity::parse(f.name, &text, f.dim)
+                .ok()
+                .map(|v| match f.dim {
+                    Dim::Count if v.fract() == 0.0 && v.abs() < 1e15 => format!("{v:.0}"),
+                    Dim::Count | Dim::Ratio => quantity::format_number(v),
+                    d => quantity::format_si(v, d.symbol()),
+                });
+            FieldEcho {
+                name: f.name,
+                text,
+                normalized,
+            }
+        })
+        .collect()
+}
+
+/// Serialises name/value pairs as one object, keeping their order.
+///
+/// # Errors
+/// Whatever the serializer reports.
+pub fn serialize_pairs<S: serde::Serializer>(
+    pairs: &[(&'static str, String)],
+    ser: S,
+) -> Result<S::Ok, S::Error> {
+    use serde::ser::SerializeMap;
+    let mut m = ser.serialize_map(Some(pairs.len()))?;
+    for (k, v) in pairs {
+        m.serialize_entry(k, v)?;
+    }
+    m.end()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn query_decoding() {
+        let r = RawInputs::from_query("?tau=20+ps&tw=%3Cimg%3E&x&bad=%zz&tau=30p");
+        assert_eq!(r.get("tau"), Some("30p"));
+        assert_eq!(r.get("tw"), Some("<img>"));
+        assert_eq!(r.get("x"), Some(""));
+        assert_eq!(r.get("bad"), Some("%zz"));
+        assert_eq!(RawInputs::from_query("a=1%").get("a"), Some("1%"));
+        assert_eq!(RawInputs::from_query("a=%4").get("a"), Some("%4"));
+        assert_eq!(RawInputs::from_query("a=%C2%B5s").get("a"), Some("µs"));
+        assert_eq!(RawInputs::from_query("index.html").pairs().len(), 0);
+    }
+}

@@ -1,0 +1,570 @@
+//! Physical quantities: engineering-notation parsing with a unit check, and formatting.
+//!
+//! Values are written as engineers and circuit simulators write them: `20p`, `20ps`,
+//! `20 ps`, `2e-11`, `0.02ns`, `1.5GHz`, `250M`, `1meg`. SI prefixes are case-sensitive
+//! (`m` milli, `M` mega); `meg` in any case is mega; `u`, `µ` and `μ` are micro.
+
+use serde::Serialize;
+
+use crate::error::{ParamError, ParamErrorKind};
+
+/// The kind of a quantity, which decides the units a field accepts.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Dim {
+    /// Seconds.
+    Time,
+    /// Hertz (also events per second).
+    Frequency,
+    /// Volts.
+    Voltage,
+    /// Farads.
+    Capacitance,
+    /// Siemens.
+    Conductance,
+    /// A dimensionless ratio such as V/V.
+    Ratio,
+    /// A whole number of things.
+    Count,
+}
+
+impl Dim {
+    /// The unit symbol used when formatting.
+    pub fn symbol(self) -> &'static str {
+        match self {
+            Dim::Time => "s",
+            Dim::Frequency => "Hz",
+            Dim::Voltage => "V",
+            Dim::Capacitance => "F",
+            Dim::Conductance => "S",
+            Dim::Ratio | Dim::Count => "",
+        }
+    }
+
+    /// The noun used in messages.
+    pub fn noun(self) -> &'static str {
+        match self {
+            Dim::Time => "time",
+            Dim::Frequency => "frequency",
+            Dim::Voltage => "voltage",
+            Dim::Capacitance => "capacitance",
+            Dim::Conductance => "conductance",
+            Dim::Ratio => "ratio",
+            Dim::Count => "count",
+        }
+    }
+
+    pub(crate) fn article(self) -> &'static str {
+        "a"
+    }
+
+    /// Unit spellings accepted for this kind (case-sensitive).
+    fn units(self) -> &'static [&'static str] {
+        match self {
+            Dim::Time => &["s", "sec"],
+            Dim::Frequency => &["Hz", "hz", "HZ", "/s"],
+            Dim::Voltage => &["V"],
+            Dim::Capacitance => &["F"],
+            Dim::Conductance => &["S", "A/V"],
+            Dim::Ratio => &["V/V", "x"],
+            Dim::Count => &[],
+        }
+    }
+}
+
+const ALL_DIMS: [Dim; 6] = [
+    Dim::Time,
+    Dim::Frequency,
+    Dim::Voltage,
+    Dim::Capacitance,
+    Dim::Conductance,
+    Dim::Ratio,
+];
+
+/// Returns the power of ten of an SI prefix, or `None` when `p` is not one.
+fn prefix_exponent(p: &str) -> Option<i32> {
+    if p.eq_ignore_ascii_case("meg") {
+        return Some(6);
+    }
+    Some(match p {
+        "a" => -18,
+        "f" => -15,
+        "p" => -12,
+        "n" => -9,
+        "u" | "µ" | "μ" => -6,
+        "m" => -3,
+        "k" => 3,
+        "M" => 6,
+        "G" => 9,
+        "T" => 12,
+        _ => return None,
+    })
+}
+
+/// Splits `suffix` into a power of ten and the kind its unit denotes (`None` for no unit).
+fn split_suffix(suffix: &str) -> Option<(i32, Option<Dim>)> {
+    if suffix.is_empty() {
+        return Some((0, None));
+    }
+    // A bare unit wins over a prefix ("1F" is one farad, "1f" one femto).
+    for d in ALL_DIMS {
+        if d.units().contains(&suffix) {
+            return Some((0, Some(d)));
+        }
+    }
+    for d in ALL_DIMS {
+        for u in d.units() {
+            if let Some(p) = suffix.strip_suffix(u) {
+                if let Some(e) = prefix_exponent(p) {
+                    return Some((e, Some(d)));
+                }
+            }
+        }
+    }
+    prefix_exponent(suffix).map(|e| (e, None))
+}
+
+/// Length in bytes of the leading decimal number (sign, digits, point, exponent) of `s`.
+fn number_prefix_len(s: &str) -> usize {
+    let b = s.as_bytes();
+    let mut i = 0;
+    if i < b.len() && (b[i] == b'+' || b[i] == b'-') {
+        i += 1;
+    }
+    let mut digits = 0;
+    while i < b.len() && b[i].is_ascii_digit() {
+        i += 1;
+        digits += 1;
+    }
+    if i < b.len() && b[i] == b'.' {
+        i += 1;
+        while i < b.len() && b[i].is_ascii_digit() {
+            i += 1;
+            digits += 1;
+        }
+    }
+    if digits == 0 {
+        return 0;
+    }
+    // An exponent needs a digit after `e`, so `1e` stays "1" with suffix "e" (an error),
+    // and "1exa" is not mistaken for an exponent.
+    if i < b.len() && (b[i] == b'e' || b[i] == b'E') {
+        let mut j = i + 1;
+        if j < b.len() && (b[j] == b'+' || b[j] == b'-') {
+            j += 1;
+        }
+        let start = j;
+        while j < b.len() && b[j].is_ascii_digit() {
+            j += 1;
+        }
+        if j > start {
+            i = j;
+        }
+    }
+    i
+}
+
+/// Parses one value in engineering notation for a field of kind `dim`.
+///
+/// # Errors
+/// [`ParamErrorKind::Missing`] for empty text, `NotANumber`, `NotFinite`, `Overflow`,
+/// `Underflow`, `UnknownUnit`, and `WrongUnit` when the unit belongs to another kind.
+///
+/// # Examples
+/// ```
+/// use latchwise::quantity::{parse, Dim};
+/// assert_eq!(parse("tau", "20ps", Dim::Time).unwrap(), 20e-12);
+/// assert_eq!(parse("fclk", "1.5 GHz", Dim::Frequency).unwrap(), 1.5e9);
+/// assert_eq!(parse("fdata", "1meg", Dim::Frequency).unwrap(), 1e6);
+/// let e = parse("fclk", "5ns", Dim::Frequency).unwrap_err();
+/// assert_eq!(e.to_string(), "fclk: '5ns' is a time, expected a frequency");
+/// ```
+pub fn parse(field: &'static str, text: &str, dim: Dim) -> Result<f64, ParamError> {
+    let err = |kind| ParamError::new(field, kind);
+    let t = text.trim();
+    if t.is_empty() {
+        return Err(err(ParamErrorKind::Missing));
+    }
+    let lower = t.trim_start_matches(['+', '-']).to_ascii_lowercase();
+    if ["inf", "infinity", "nan"].contains(&lower.as_str()) {
+        return Err(err(ParamErrorKind::NotFinite(t.to_string())));
+    }
+    let n = number_prefix_len(t);
+    if n == 0 {
+        return Err(err(ParamErrorKind::NotANumber(t.to_string())));
+    }
+    let (num, rest) = t.split_at(n);
+    let suffix = rest.trim_start();
+    let Some((exp, unit)) = split_suffix(suffix) else {
+        return Err(err(if suffix.starts_with(|c: char| c.is_ascii_digit()) {
+            ParamErrorKind::NotANumber(t.to_string())
+        } else {
+            ParamErrorKind::UnknownUnit(suffix.to_string())
+        }));
+    };
+    if let Some(found) = unit {
+        if found != dim {
+            return Err(err(ParamErrorKind::WrongUnit {
+                text: t.to_string(),
+                found,
+                expected: dim,
+            }));
+        }
+    }
+    if dim == Dim::Count && exp != 0 && unit.is_none() && exp < 0 {
+        return Err(err(ParamErrorKind::NotInteger(t.to_string())));
+    }
+    // Scaling through the decimal exponent text keeps 20p exactly equal to 20e-12.
+    let (mantissa, e10) = match num.find(['e', 'E']) {
+        Some(k) => (&num[..k], num[k + 1..].parse::<i64>().unwrap_or(0)),
+        None => (num, 0),
+    };
+    let total = e10.saturating_add(i64::from(exp));
+    let value: f64 = format!("{mantissa}e{total}")
+        .parse()
+        .map_err(|_| err(ParamErrorKind::NotANumber(t.to_string())))?;
+    if !value.is_finite() {
+        return Err(err(ParamErrorKind::Overflow(t.to_string())));
+    }
+    let mantissa_nonzero = mantissa.bytes().any(|c| (b'1'..=b'9').contains(&c));
+    if value == 0.0 && mantissa_nonzero {
+        return Err(err(ParamErrorKind::Underflow(t.to_string())));
+    }
+    Ok(value)
+}
+
+const PREFIXES: [(i32, &str); 11] = [
+    (-18, "a"),
+    (-15, "f"),
+    (-12, "p"),
+    (-9, "n"),
+    (-6, "µ"),
+    (-3, "m"),
+    (0, ""),
+    (3, "k"),
+    (6, "M"),
+    (9, "G"),
+    (12, "T"),
+];
+
+/// Formats `v` with an SI prefix and four significant digits, trailing zeros removed.
+///
+/// # Examples
+/// ```
+/// use latchwise::quantity::format_si;
+/// assert_eq!(format_si(20e-12, "s"), "20 ps");
+/// assert_eq!(format_si(1.5e9, "Hz"), "1.5 GHz");
+/// assert_eq!(format_si(0.0, "s"), "0 s");
+/// ```
+pub fn format_si(v: f64, unit: &str) -> String {
+    if v == 0.0 || !v.is_finite() {
+        return join_unit(&format!("{v}"), unit);
+    }
+    let e3 = ((v.abs().log10() + 1e-9).floor() as i32).div_euclid(3) * 3;
+    let Some(&(pe, p)) = PREFIXES.iter().find(|(pe, _)| *pe == e3) else {
+        return join_unit(&format_sig(v, 4), unit);
+    };
+    let scaled = v / 10f64.powi(pe);
+    let mut s = trim_zeros(&format!("{:.*}", decimals_for(scaled), scaled));
+    // Rounding can carry to 1000 (999.99 ps -> "1000 ps"); step up a prefix then.
+    if s.trim_start_matches('-') == "1000" {
+        if let Some(&(_, p2)) = PREFIXES.iter().find(|(q, _)| *q == pe + 3) {
+            s = if v < 0.0 { "-1".into() } else { "1".into() };
+            return join_unit(&s, &format!("{p2}{unit}"));
+        }
+    }
+    join_unit(&s, &format!("{p}{unit}"))
+}
+
+fn decimals_for(scaled: f64) -> usize {
+    let a = scaled.abs();
+    if a >= 100.0 {
+        1
+    } else if a >= 10.0 {
+        2
+    } else {
+        3
+    }
+}
+
+fn trim_zeros(s: &str) -> String {
+    if s.contains('.') {
+        s.trim_end_matches('0').trim_end_matches('.').to_string()
+    } else {
+        s.to_string()
+    }
+}
+
+fn join_unit(num: &str, unit: &str) -> String {
+    if unit.is_empty() {
+        num.to_string()
+    } else {
+        format!("{num} {unit}")
+    }
+}
+
+/// Formats `v` in scientific notation with `sig` significant digits (`3.2e-20`).
+pub fn format_sig(v: f64, sig: usize) -> String {
+    let s = format!("{:.*e}", sig.saturating_sub(1), v);
+    match s.split_once('e') {
+        Some((m, e)) => format!("{}e{}", trim_zeros(m), e),
+        None => s,
+    }
+}
+
+/// Formats a positive number given by its base-10 logarithm, at any magnitude.
+///
+/// Between 1e-3 and 1e6 the number is written plainly; outside, as `3.2e412`.
+///
+/// # Examples
+/// ```
+/// use latchwise::quantity::format_log10;
+/// assert_eq!(format_log10(412.0 + 2f64.log10(), 2), "2e412");
+/// assert_eq!(format_log10(1.0, 3), "10");
+/// assert_eq!(format_log10(-5.0, 3), "1e-5");
+/// ```
+pub fn format_log10(l: f64, sig: usize) -> String {
+    if !l.is_finite() {
+        return if l.is_nan() {
+            "undefined".into()
+        } else if l > 0.0 {
+            "unbounded".into()
+        } else {
+            "0".into()
+        };
+    }
+    let sig = sig.max(1);
+    let mut e = l.floor();
+    let mut m = 10f64.powf(l - e);
+    // Round the mantissa first so that 9.999 becomes 10 and carries into the exponent.
+    let scale = 10f64.powi(sig as i32 - 1);
+    m = (m * scale).round() / scale;
+    if m >= 10.0 {
+        m /= 10.0;
+        e += 1.0;
+    }
+    if (-3.0..6.0).contains(&e) {
+        let v = m * 10f64.powf(e);
+        let decimals = (sig as i32 - 1 - e as i32).max(0) as usize;
+        return trim_zeros(&format!("{v:.decimals$}"));
+    }
+    format!("{}e{}", trim_zeros(&format!("{m:.*}", sig - 1)), e as i64)
+}
+
+/// Formats a plain number with four significant digits: `4`, `0.25`, `1e9`, `-3.5e-7`.
+pub fn format_number(v: f64) -> String {
+    if v == 0.0 || !v.is_finite() {
+        return format!("{v}");
+    }
+    let body = format_log10(v.abs().log10(), 4);
+    if v < 0.0 {
+        format!("-{body}")
+    } else {
+        body
+    }
+}
+
+/// Formats a duration given by its log10 in seconds in a readable unit (s, h, days, years).
+pub fn format_duration_log10(log10_s: f64, log10_year_s: f64) -> String {
+    const LOG10_HOUR: f64 = 3.556_302_500_767_287; // log10(3600)
+    const LOG10_DAY: f64 = 4.936_513_742_478_893; // log10(86400)
+    if log10_s < 0.0 {
+        format_si(10f64.powf(log10_s), "s")
+    } else if log10_s < LOG10_HOUR {
+        format!("{} s", format_log10(log10_s, 3))
+    } else if log10_s < LOG10_DAY + 2f64.log10() {
+        format!("{} h", format_log10(log10_s - LOG10_HOUR, 3))
+    } else if log10_s < log10_year_s {
+        format!("{} days", format_log10(log10_s - LOG10_DAY, 3))
+    } else {
+        format!("{} years", format_log10(log10_s - log10_year_s, 3))
+    }
+}
+
+macro_rules! quantity {
+    ($(#[$doc:meta])* $name:ident, $dim:expr) => {
+        $(#[$doc])*
+        #[derive(Debug, Clone, Copy, PartialEq, PartialOrd, Serialize)]
+        pub struct $name(f64);
+
+        impl $name {
+            /// The kind of this quantity.
+            pub const DIM: Dim = $dim;
+            /// Zero.
+            pub const ZERO: Self = $name(0.0);
+
+            /// A strictly positive finite value.
+            ///
+            /// # Errors
+            /// `NotFinite`, `Negative` or `Zero`, naming `field`.
+            pub fn positive(field: &'static str, v: f64) -> Result<Self, ParamError> {
+                check_finite(field, v)?;
+                if v < 0.0 {
+                    return Err(ParamError::new(field, ParamErrorKind::Negative(Self::DIM)));
+                }
+                if v == 0.0 {
+                    return Err(ParamError::new(field, ParamErrorKind::Zero(Self::DIM)));
+                }
+                Ok($name(v))
+            }
+
+            /// A finite value that is zero or positive.
+            ///
+            /// # Errors
+            /// `NotFinite` or `Negative`, naming `field`.
+            pub fn non_negative(field: &'static str, v: f64) -> Result<Self, ParamError> {
+                check_finite(field, v)?;
+                if v < 0.0 {
+                    return Err(ParamError::new(field, ParamErrorKind::Negative(Self::DIM)));
+                }
+                Ok($name(v.abs()))
+            }
+
+            /// The value in base units.
+            pub fn get(self) -> f64 {
+                self.0
+            }
+
+            /// The value formatted with an SI prefix.
+            pub fn display(self) -> String {
+                format_si(self.0, Self::DIM.symbol())
+            }
+        }
+    };
+}
+
+fn check_finite(field: &'static str, v: f64) -> Result<(), ParamError> {
+    if v.is_finite() {
+        Ok(())
+    } else {
+        Err(ParamError::new(
+            field,
+            ParamErrorKind::NotFinite(format!("{v}")),
+        ))
+    }
+}
+
+quantity!(
+    /// A time in seconds.
+    Time,
+    Dim::Time
+);
+quantity!(
+    /// A frequency or event rate in hertz.
+    Frequency,
+    Dim::Frequency
+);
+quantity!(
+    /// A voltage in volts.
+    Voltage,
+    Dim::Voltage
+);
+quantity!(
+    /// A capacitance in farads.
+    Capacitance,
+    Dim::Capacitance
+);
+quantity!(
+    /// A conductance in siemens.
+    Conductance,
+    Dim::Conductance
+);
+quantity!(
+    /// A dimensionless ratio (V/V).
+    Ratio,
+    Dim::Ratio
+);
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn ok(text: &str, dim: Dim, want: f64) {
+        let got = parse("x", text, dim).unwrap_or_else(|e| panic!("{text}: {e}"));
+        assert!(
+            (got - want).abs() <= want.abs() * 1e-15,
+            "{text}: got {got}, want {want}"
+        );
+    }
+
+    fn bad(text: &str, dim: Dim, msg: &str) {
+        let e = parse("x", text, dim).expect_err(text);
+        assert!(e.to_string().contains(msg), "{text}: {e}");
+    }
+
+    #[test]
+    fn notation_from_the_domain_notes() {
+        ok("20p", Dim::Time, 20e-12);
+        ok("20ps", Dim::Time, 20e-12);
+        ok("20 ps", Dim::Time, 20e-12);
+        ok("2e-11", Dim::Time, 2e-11);
+        ok("0.02ns", Dim::Time, 20e-12);
+        ok("1.5GHz", Dim::Frequency, 1.5e9);
+        ok("250M", Dim::Frequency, 250e6);
+        ok("1meg", Dim::Frequency, 1e6);
+        ok("1MEG", Dim::Frequency, 1e6);
+        ok("1megHz", Dim::Frequency, 1e6);
+        ok("3u", Dim::Time, 3e-6);
+        ok("3µs", Dim::Time, 3e-6);
+        ok("3μs", Dim::Time, 3e-6);
+        ok("1m", Dim::Time, 1e-3);
+        ok("1ms", Dim::Time, 1e-3);
+        ok("10fF", Dim::Capacitance, 10e-15);
+        ok("10f", Dim::Capacitance, 10e-15);
+        ok("1F", Dim::Capacitance, 1.0);
+        ok("2mS", Dim::Conductance, 2e-3);
+        ok("4", Dim::Ratio, 4.0);
+        ok("4V/V", Dim::Ratio, 4.0);
+        ok("+5", Dim::Count, 5.0);
+        ok("-1.5e3mV", Dim::Voltage, -1.5);
+        ok(".5", Dim::Voltage, 0.5);
+        ok("5.", Dim::Voltage, 5.0);
+    }
+
+    #[test]
+    fn case_matters_for_prefixes() {
+        ok("1M", Dim::Frequency, 1e6);
+        ok("1m", Dim::Frequency, 1e-3);
+    }
+
+    #[test]
+    fn rejects_with_named_reasons() {
+        bad("", Dim::Time, "a value is required");
+        bad("   ", Dim::Time, "a value is required");
+        bad("abc", Dim::Time, "is not a number");
+        bad("NaN", Dim::Time, "not a finite number");
+        bad("inf", Dim::Time, "not a finite number");
+        bad("-Infinity", Dim::Time, "not a finite number");
+        bad(
+            "5ns",
+            Dim::Frequency,
+            "'5ns' is a time, expected a frequency",
+        );
+        bad("1GHz", Dim::Time, "is a frequency, expected a time");
+        bad("1e999", Dim::Time, "too large");
+        bad("1e-999", Dim::Time, "too small");
+        bad("1e300T", Dim::Frequency, "too large");
+        bad("5 parsecs", Dim::Time, "unknown unit");
+        bad("1e", Dim::Time, "unknown unit");
+        bad("1.2.3", Dim::Time, "unknown unit");
+        bad("1 2", Dim::Time, "not a number");
+        bad("1s", Dim::Conductance, "is a time, expected a conductance");
+        bad("1u", Dim::Count, "not a whole number");
+    }
+
+    #[test]
+    fn formats_like_an_engineer() {
+        assert_eq!(format_si(20e-12, "s"), "20 ps");
+        assert_eq!(format_si(1.5e9, "Hz"), "1.5 GHz");
+        assert_eq!(format_si(999.9999e-12, "s"), "1 ns");
+        assert_eq!(format_si(33.333333e-9, "s"), "33.33 ns");
+        assert_eq!(format_si(-2e-3, "V"), "-2 mV");
+        assert_eq!(format_si(3e-21, "s"), "3e-21 s");
+        assert_eq!(format_si(4.0, ""), "4");
+        assert_eq!(format_log10(412.0 + 3.2f64.log10(), 2), "3.2e412");
+        assert_eq!(format_log10(-300.5, 3), "3.16e-301");
+        assert_eq!(format_log10(2.0 - 1e-12, 3), "100");
+        assert_eq!(format_log10(5.0 + 0.99999999, 3), "1e6");
+        assert_eq!(format_log10(f64::NAN, 3), "undefined");
+    }
+}

@@ -1,0 +1,37 @@
+//! Named result values as a page or a script reads them: key, label, text and number.
+
+use serde::Serialize;
+
+/// One displayed result. `name` is the JSON key of the command line's output.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Readout {
+    /// The JSON key (and the page's `<output name>`).
+    pub name: &'static str,
+    /// A short human label.
+    pub label: &'static str,
+    /// The value formatted for reading.
+    pub text: String,
+    /// The full-precision number (log10 for log quantities); `None` when there is none.
+    pub value: Option<f64>,
+    /// A state for styling: `good`, `bad` or "" for neutral.
+    pub state: &'static str,
+}
+
+impl Readout {
+    /// A neutral readout.
+    pub fn new(name: &'static str, label: &'static str, text: String, value: Option<f64>) -> Self {
+        Readout {
+            name,
+            label,
+            text,
+            value,
+            state: "",
+        }
+    }
+
+    /// The same readout marked good (`true`) or bad (`false`).
+    pub fn judged(mut self, good: bool) -> Self {
+        self.state = if good { "good" } else { "bad" };
+        self
+    }
+}

@@ -1,0 +1,204 @@
+//! The command line: exit statuses, JSON keys, bad input and --from-url.
+
+use std::process::Command;
+
+const DEMO: &[&str] = &[
+    "--tau", "20ps", "--tw", "40ps", "--fclk", "1GHz", "--fdata", "100MHz", "--stages", "2",
+    "--tsu", "30ps", "--tcq", "50ps",
+];
+
+struct Run {
+    code: i32,
+    stdout: String,
+    stderr: String,
+}
+
+fn run(args: &[&str]) -> Run {
+    let out = Command::new(env!("CARGO_BIN_EXE_latchwise"))
+        .args(args)
+        .output()
+        .unwrap();
+    Run {
+        code: out.status.code().unwrap_or(-1),
+        stdout: String::from_utf8_lossy(&out.stdout).into_owned(),
+        stderr: String::from_utf8_lossy(&out.stderr).into_owned(),
+    }
+}
+
+fn sync(extra: &[&str]) -> Run {
+    let mut a = vec!["sync"];
+    a.extend_from_slice(DEMO);
+    a.extend_from_slice(extra);
+    run(&a)
+}
+
+fn json(extra: &[&str]) -> serde_json::Value {
+    let mut a = vec!["--json"];
+    a.extend_from_slice(extra);
+    let r = sync(&a);
+    assert!(r.code == 0 || r.code == 1, "{}", r.stderr);
+    serde_json::from_str(&r.stdout).unwrap()
+}
+
+/// Runs `latchwise sync` with the demo case and one option replaced, expecting exit 2 and
+/// `msg` on stderr, nothing on stdout.
+fn check_bad(option: &str, value: &str, msg: &str) {
+    let mut a: Vec<&str> = vec!["sync"];
+    let mut i = 0;
+    while i < DEMO.len() {
+        if DEMO[i] != option {
+            a.extend_from_slice(&DEMO[i..i + 2]);
+        }
+        i += 2;
+    }
+    a.extend_from_slice(&[option, value]);
+    let r = run(&a);
+    assert_eq!(r.code, 2, "{option} {value}: {}", r.stderr);
+    assert!(
+        r.stderr.contains(msg),
+        "{option} {value}: stderr was {}",
+        r.stderr
+    );
+    assert!(
+        r.stdout.is_empty(),
+        "{option} {value}: stdout was {}",
+        r.stdout
+    );
+}
+
+#[test]
+fn bad_inputs_exit_2_naming_the_field() {
+    check_bad("--tau", "", "tau: a value is required");
+    check_bad("--tau", "NaN", "tau: 'NaN' is not a finite number");
+    check_bad("--tau", "inf", "tau: 'inf' is not a finite number");
+    check_bad("--tau", "-20p", "tau: negative time");
+    check_bad("--tau", "0", "tau: must be a positive time, not zero");
+    check_bad(
+        "--fclk",
+        "5ns",
+        "fclk: '5ns' is a time, expected a frequency",
+    );
+    check_bad("--tw", "1GHz", "tw: '1GHz' is a frequency, expected a time");
+    check_bad("--fdata", "lots", "fdata: 'lots' is not a number");
+    check_bad("--tau", "1e99999", "tau: '1e99999' is too large");
+    check_bad("--tau", "1e-99999", "tau: '1e-99999' is too small");
+    check_bad(
+        "--tau",
+        "20 parsecs",
+        "tau: unknown unit or prefix 'parsecs'",
+    );
+    check_bad("--stages", "2.5", "stages: '2.5' is not a whole number");
+    check_bad("--stages", "0", "stages: 0 is out of range");
+    check_bad(
+        "--fclk",
+        "20GHz",
+        "fclk: clock period 50 ps is not longer than tsu + tcq = 80 ps",
+    );
+    check_bad("--t0", "1n", "tw: give either tw or t0, not both");
+}
+
+#[test]
+fn missing_and_unknown_options() {
+    let r = run(&["sync", "--tau", "20p"]);
+    assert_eq!(r.code, 2);
+    for f in ["tw", "fclk", "fdata", "stages", "tsu", "tcq"] {
+        assert!(
+            r.stderr.contains(&format!("{f}: a value is required")),
+            "{f}: {}",
+            r.stderr
+        );
+    }
+    let r = sync(&["--colour", "blue"]);
+    assert_eq!(r.code, 2);
+    assert!(r.stderr.contains("unknown option --colour"), "{}", r.stderr);
+    assert_eq!(sync(&["--tau"]).code, 2);
+    assert_eq!(run(&["frobnicate"]).code, 2);
+    assert_eq!(run(&[]).code, 2);
+}
+
+#[test]
+fn exit_status_follows_the_target() {
+    // The demo case has MTBF about 7.5e5 years (see the mpmath table, row demo-2ff).
+    assert_eq!(sync(&[]).code, 0);
+    assert_eq!(sync(&["--target-years", "1e5"]).code, 0);
+    assert_eq!(sync(&["--target-years", "1e6"]).code, 1);
+    assert_eq!(sync(&["--target-fit", "1"]).code, 0);
+    assert_eq!(sync(&["--target-fit", "0.1"]).code, 1);
+    let r = sync(&["--target-years", "1e6"]);
+    assert!(r.stdout.contains("MISSED"), "{}", r.stdout);
+}
+
+#[test]
+fn json_has_the_documented_keys() {
+    let v = json(&["--target-years", "1e6"]);
+    for k in [
+        "resolution_time_s",
+        "log10_mtbf_s",
+        "log10_fit",
+        "meets_target",
+        "min_stages",
+    ] {
+        assert!(v.get(k).is_some(), "missing {k} in {v}");
+    }
+    assert_eq!(v["meets_target"], serde_json::json!(false));
+    assert_eq!(v["min_stages"], serde_json::json!(3));
+    assert_eq!(v["convention"], "tw");
+    assert_eq!(v["inputs"]["tau"], "20 ps");
+    assert!((v["resolution_time_s"].as_f64().unwrap() - 920e-12).abs() < 1e-24);
+    let plain = json(&[]);
+    assert!(plain.get("meets_target").is_none());
+}
+
+#[test]
+fn extreme_cases_stay_finite_in_json() {
+    // tr/tau = 920 and 919080: exp(tr/tau) overflows an f64, the logarithm does not.
+    for tau in ["1ps", "1fs"] {
+        let v = json(&["--tau", tau, "--stages", "1000", "--target-years", "1e300"]);
+        let l = v["log10_mtbf_s"].as_f64().unwrap();
+        assert!(l.is_finite() && l > 300.0, "{tau}: {v}");
+        assert!(v["log10_fit"].as_f64().unwrap().is_finite());
+        assert_eq!(v["meets_target"], serde_json::json!(true));
+    }
+    let r = sync(&["--tau", "1ps", "--stages", "1000"]);
+    assert!(r.stdout.contains("e399"), "{}", r.stdout);
+    assert!(
+        !r.stdout.contains("inf") && !r.stdout.contains("NaN"),
+        "{}",
+        r.stdout
+    );
+}
+
+#[test]
+fn from_url_reads_a_bookmark_and_options_override_it() {
+    let url = "file:///tmp/dist/index.html?tau=20ps&tw=40ps&fclk=1GHz&fdata=100MHz&stages=2&tsu=30ps&tcq=50ps&colour=red#x";
+    let r = run(&["sync", "--from-url", url, "--json"]);
+    assert_eq!(r.code, 0, "{}", r.stderr);
+    assert!(
+        r.stderr.contains("ignored unknown parameter 'colour'"),
+        "{}",
+        r.stderr
+    );
+    let a: serde_json::Value = serde_json::from_str(&r.stdout).unwrap();
+    assert_eq!(a["log10_mtbf_s"], json(&[])["log10_mtbf_s"]);
+    let r = run(&["sync", "--from-url", url, "--stages", "3", "--json"]);
+    let b: serde_json::Value = serde_json::from_str(&r.stdout).unwrap();
+    assert_eq!(b["inputs"]["stages"], "3");
+    let r = run(&["sync", "--from-url", "?tau=%3Cb%3E", "--json"]);
+    assert_eq!(r.code, 2);
+    assert!(
+        r.stderr.contains("tau: '<b>' is not a number"),
+        "{}",
+        r.stderr
+    );
+}
+
+#[test]
+fn help_names_every_option_and_the_caution() {
+    let r = run(&["sync", "--help"]);
+    assert_eq!(r.code, 0);
+    for f in latchwise::synchronizer::FIELDS {
+        assert!(r.stdout.contains(&format!("--{}", f.name)), "{}", f.name);
+    }
+    assert!(r.stdout.contains("first-order estimates"));
+    assert!(run(&["help"]).stdout.contains("Caution:"));
+}

@@ -1,0 +1,8 @@
+//! Integration tests: one binary with a module per area.
+#![allow(clippy::unwrap_used, clippy::print_stdout)]
+
+mod cli;
+mod plot;
+mod properties;
+mod reference;
+mod tolerance;

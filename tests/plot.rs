@@ -1,0 +1,110 @@
+//! Charts render natively to SVG; the structure (axes, labels, series, markers) is checked.
+
+use latchwise::chart::{draw, ChartSpec};
+use latchwise::params::RawInputs;
+use latchwise::sweep::{mtbf_vs_fclk, mtbf_vs_stages, mtbf_vs_tau, mtbf_vs_tr, Series};
+use latchwise::synchronizer::{SyncCase, Synchronizer};
+use plotters::prelude::*;
+
+fn sync(q: &str) -> Synchronizer {
+    SyncCase::from_inputs(&RawInputs::from_query(q))
+        .unwrap()
+        .sync
+}
+
+const DEMO: &str = "tau=20p&tw=40p&fclk=1G&fdata=100M&stages=2&tsu=30p&tcq=50p";
+
+fn svg(series: &Series, target: Option<f64>) -> (String, latchwise::chart::Drawn) {
+    let mut out = String::new();
+    let drawn = {
+        let root = SVGBackend::with_string(&mut out, (640, 360)).into_drawing_area();
+        draw(
+            &root,
+            &ChartSpec::from_series(series, "MTBF vs stages", target, 1.0),
+        )
+        .unwrap()
+    };
+    (out, drawn)
+}
+
+/// The text labels of an SVG, trimmed.
+fn texts(svg: &str) -> Vec<String> {
+    svg.split("<text")
+        .skip(1)
+        .filter_map(|t| {
+            t.split_once('>')
+                .and_then(|(_, rest)| rest.split_once("</text>"))
+        })
+        .map(|(body, _)| body.trim().to_string())
+        .collect()
+}
+
+#[test]
+fn stage_chart_has_axes_decade_labels_series_target_and_marker() {
+    let s = mtbf_vs_stages(&sync(DEMO), 8);
+    let (out, drawn) = svg(&s, Some(6.0));
+    let labels = texts(&out);
+    let has = |t: &str| labels.iter().any(|l| l == t);
+    assert!(has("MTBF (years)"), "y axis title in {labels:?}");
+    assert!(has("stages"), "x axis title");
+    assert!(has("this case") && has("target"), "legend");
+    assert!(
+        (1..=8).all(|n| has(&n.to_string())),
+        "stage ticks in {labels:?}"
+    );
+    assert!(out.contains("<polyline"), "series line");
+    assert!(out.matches("<circle").count() >= 9, "stage dots and marker");
+    assert_eq!(drawn.points, 8);
+    // Eight stages of the demo case reach about 1e126 years: decade labels, no overflow.
+    assert!(
+        drawn.y_range.1 > 126.0 && drawn.y_range.1 < 140.0,
+        "{:?}",
+        drawn.y_range
+    );
+    for t in &drawn.y_ticks {
+        assert!(has(&latchwise::chart::decade_label(*t)), "tick {t}");
+    }
+}
+
+#[test]
+fn axis_stays_readable_beyond_f64_range() {
+    let s = mtbf_vs_stages(
+        &sync("tau=1p&tw=40p&fclk=1G&fdata=100M&stages=2&tsu=30p&tcq=50p"),
+        10,
+    );
+    let (out, drawn) = svg(&s, None);
+    assert!(drawn.y_range.1 > 3000.0);
+    assert!(drawn.y_ticks.len() <= 9);
+    let labels = texts(&out);
+    let top = latchwise::chart::decade_label(*drawn.y_ticks.last().unwrap());
+    assert!(top.starts_with("1e") && top.len() >= 6, "{top}");
+    assert!(labels.contains(&top), "{labels:?}");
+}
+
+#[test]
+fn every_sweep_draws_finite_points() {
+    let s = sync(DEMO);
+    for series in [
+        mtbf_vs_fclk(&s, 120),
+        mtbf_vs_tau(&s, 120),
+        mtbf_vs_tr(&s, 120),
+    ] {
+        let (out, drawn) = svg(&series, Some(6.0));
+        assert_eq!(drawn.points, 120, "{}", series.id);
+        assert!(out.contains("<polyline"), "{}", series.id);
+        assert!(series
+            .points
+            .iter()
+            .all(|p| p.0.is_finite() && p.1.is_finite()));
+        let csv = series.to_csv();
+        assert_eq!(csv.lines().count(), 121, "{}", series.id);
+    }
+}
+
+#[test]
+fn fclk_sweep_stops_before_the_period_runs_out() {
+    let s = sync(DEMO);
+    let series = mtbf_vs_fclk(&s, 50);
+    let last = series.points.last().unwrap().0;
+    assert!(1.0 / last > 80e-12, "{last}");
+}

@@ -1,0 +1,169 @@
+//! Property tests: monotonic in every parameter, and finite for every valid input.
+
+use latchwise::params::RawInputs;
+use latchwise::synchronizer::{evaluate, SyncCase, SyncReport, Target};
+use proptest::prelude::*;
+
+#[derive(Debug, Clone)]
+struct Case {
+    tau: f64,
+    tw: f64,
+    fclk: f64,
+    fdata: f64,
+    stages: u32,
+    tsu: f64,
+    tcq: f64,
+}
+
+fn log_uniform(lo: f64, hi: f64) -> impl Strategy<Value = f64> {
+    (lo.log10()..hi.log10()).prop_map(|e| 10f64.powf(e))
+}
+
+fn cases() -> impl Strategy<Value = Case> {
+    (
+        log_uniform(1e-15, 1e-8),
+        log_uniform(1e-15, 1e-9),
+        log_uniform(1e3, 1e10),
+        log_uniform(1.0, 1e10),
+        1u32..=1000,
+        0.0..0.45f64,
+        0.0..0.45f64,
+    )
+        .prop_map(|(tau, tw, fclk, fdata, stages, a, b)| Case {
+            tau,
+            tw,
+            fclk,
+            fdata,
+            stages,
+            tsu: a / fclk,
+            tcq: b / fclk,
+        })
+}
+
+fn eval(c: &Case) -> SyncReport {
+    let pairs = [
+        ("tau", format!("{:e}", c.tau)),
+        ("tw", format!("{:e}", c.tw)),
+        ("fclk", format!("{:e}", c.fclk)),
+        ("fdata", format!("{:e}", c.fdata)),
+        ("stages", c.stages.to_string()),
+        ("tsu", format!("{:e}", c.tsu)),
+        ("tcq", format!("{:e}", c.tcq)),
+        ("target-years", "1e9".to_string()),
+    ];
+    let case = SyncCase::from_inputs(&RawInputs::from_pairs(pairs)).unwrap();
+    evaluate(&case)
+}
+
+fn finite(r: &SyncReport) -> bool {
+    [
+        r.resolution_time_s,
+        r.log10_p_fail,
+        r.log10_rate_per_s,
+        r.log10_mtbf_s,
+        r.log10_mtbf_years,
+        r.log10_fit,
+    ]
+    .iter()
+    .all(|v| v.is_finite())
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(400))]
+
+    #[test]
+    fn always_finite(c in cases()) {
+        let r = eval(&c);
+        prop_assert!(finite(&r), "{r:?}");
+        prop_assert!(r.margin_decades.unwrap().is_finite());
+        prop_assert!(matches!(r.min_stages, Some(Some(n)) if n >= 1));
+    }
+
+    #[test]
+    fn more_stages_never_hurt(c in cases()) {
+        let mut d = c.clone();
+        d.stages = c.stages.saturating_add(1).min(1000);
+        prop_assert!(eval(&d).log10_mtbf_s >= eval(&c).log10_mtbf_s);
+    }
+
+    #[test]
+    fn faster_clock_data_wider_window_or_slower_latch_hurt(c in cases(), k in 1.001f64..10.0) {
+        let base = eval(&c).log10_mtbf_s;
+        let mut d = c.clone();
+        d.fclk *= k;
+        // Keep tsu and tcq absolute; skip when the faster clock leaves no time to resolve.
+        if c.stages == 1 || 1.0 / d.fclk > d.tsu + d.tcq {
+            prop_assert!(eval(&d).log10_mtbf_s < base);
+        }
+        let mut d = c.clone();
+        d.fdata *= k;
+        prop_assert!(eval(&d).log10_mtbf_s < base);
+        let mut d = c.clone();
+        d.tw *= k;
+        prop_assert!(eval(&d).log10_mtbf_s < base);
+        let mut d = c.clone();
+        d.tau *= k;
+        let slower = eval(&d).log10_mtbf_s;
+        if c.stages > 1 { prop_assert!(slower < base) } else { prop_assert!(slower == base) }
+    }
+
+    #[test]
+    fn longer_resolution_time_helps(tr in 0.0..1e-6f64, extra in 1e-12..1e-6f64, tau in log_uniform(1e-14, 1e-9)) {
+        let at = |t: f64| {
+            let raw = RawInputs::from_pairs([("tau", format!("{tau:e}")), ("tw", "20p".into()), ("fclk", "1G".into()), ("fdata", "1G".into()), ("tr", format!("{t:e}"))]);
+            evaluate(&SyncCase::from_inputs(&raw).unwrap()).log10_mtbf_s
+        };
+        let (a, b) = (at(tr), at(tr + extra));
+        prop_assert!(b > a && a.is_finite() && b.is_finite());
+    }
+
+    #[test]
+    fn min_stages_meets_and_one_fewer_misses(c in cases(), years in log_uniform(1e-6, 1e300)) {
+        let case = SyncCase::from_inputs(&RawInputs::from_pairs([
+            ("tau", format!("{:e}", c.tau)), ("tw", format!("{:e}", c.tw)),
+            ("fclk", format!("{:e}", c.fclk)), ("fdata", format!("{:e}", c.fdata)),
+            ("stages", "1".into()), ("tsu", format!("{:e}", c.tsu)), ("tcq", format!("{:e}", c.tcq)),
+        ])).unwrap();
+        let m = Target::MtbfYears(years).log10_max_rate();
+        if let latchwise::synchronizer::StagesNeeded::Stages(n) = case.sync.min_stages(m) {
+            prop_assume!(n <= 1_000_000);
+            let n = n as u32;
+            let s = case.sync;
+            prop_assert!(s.with(n, s.tau.get(), s.fclk.get()).log10_rate() <= m + 1e-9);
+            if n > 1 {
+                prop_assert!(s.with(n - 1, s.tau.get(), s.fclk.get()).log10_rate() > m - 1e-9);
+            }
+        }
+    }
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(200))]
+
+    #[test]
+    fn solvers_land_on_the_target(c in cases(), years in log_uniform(1e-3, 1e30)) {
+        use latchwise::synchronizer::TauLimit;
+        use crate::tolerance::SOLVER_LOG10_ABS;
+        let case = SyncCase::from_inputs(&RawInputs::from_pairs([
+            ("tau", format!("{:e}", c.tau)), ("tw", format!("{:e}", c.tw)),
+            ("fclk", format!("{:e}", c.fclk)), ("fdata", format!("{:e}", c.fdata)),
+            ("stages", c.stages.max(2).to_string()), ("tsu", format!("{:e}", c.tsu)), ("tcq", format!("{:e}", c.tcq)),
+        ])).unwrap();
+        let s = case.sync;
+        let m = Target::MtbfYears(years).log10_max_rate();
+        if let Some(f) = s.max_fclk(s.stages, m) {
+            let at = s.with(s.stages, s.tau.get(), f).log10_rate();
+            // Either on the target, or at the top of the usable range and below it.
+            prop_assert!((at - m).abs() < SOLVER_LOG10_ABS || at < m, "{at} vs {m}");
+            prop_assert!(at <= m + SOLVER_LOG10_ABS);
+        }
+        match s.max_tau(m) {
+            TauLimit::Max(t) => {
+                let at = s.with(s.stages, t, s.fclk.get()).log10_rate();
+                prop_assert!((at - m).abs() < SOLVER_LOG10_ABS * m.abs().max(1.0), "{at} vs {m}");
+            }
+            TauLimit::Any => prop_assert!(s.with(s.stages, 1.0, s.fclk.get()).log10_rate() <= m + 1e-9),
+            TauLimit::None => prop_assert!(s.resolution_time() <= 0.0),
+        }
+    }
+}
