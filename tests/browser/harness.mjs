@@ -1,0 +1,68 @@
+// Shared browser harness: Debian's chromium driven by playwright-core, a static server
+// for dist/ on 127.0.0.1, and a guard that fails on any request that leaves the page.
+import { chromium } from 'playwright-core';
+import { createServer } from 'node:http';
+import { readFile } from 'node:fs/promises';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+import path from 'node:path';
+
+export const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
+export const dist = path.join(root, 'dist');
+export const fileUrl = (page) => pathToFileURL(path.join(dist, page)).href;
+
+const types = { '.html': 'text/html', '.js': 'text/javascript', '.css': 'text/css', '.png': 'image/png' };
+
+/** Serves dist/ on a free loopback port; returns { url, close }. */
+export async function serve() {
+  const server = createServer(async (req, res) => {
+    const rel = decodeURIComponent(new URL(req.url, 'http://x').pathname).replace(/^\/+/, '') || 'index.html';
+    const file = path.join(dist, path.normalize(rel));
+    if (!file.startsWith(dist)) { res.writeHead(403).end(); return; }
+    try {
+      const body = await readFile(file);
+      res.writeHead(200, { 'content-type': types[path.extname(file)] || 'application/octet-stream' });
+      res.end(body);
+    } catch {
+      res.writeHead(404).end();
+    }
+  });
+  await new Promise((ok) => server.listen(0, '127.0.0.1', ok));
+  const { port } = server.address();
+  return { url: `http://127.0.0.1:${port}/`, close: () => new Promise((ok) => server.close(ok)) };
+}
+
+export async function launch() {
+  return chromium.launch({
+    executablePath: '/usr/bin/chromium',
+    args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking',
+      '--disable-component-update', '--disable-sync', '--no-first-run'],
+  });
+}
+
+/**
+ * Opens `url` in a fresh context and records console errors, page errors and every
+ * request that is not to the page's own origin (file:// or the loopback server).
+ */
+export async function open(browser, url, { width = 1280, height = 900, scale = 1 } = {}) {
+  const context = await browser.newContext({ viewport: { width, height }, deviceScaleFactor: scale });
+  const page = await context.newPage();
+  const problems = [];
+  const foreign = [];
+  page.on('console', (m) => { if (m.type() === 'error') problems.push(m.text()); });
+  page.on('pageerror', (e) => problems.push(String(e)));
+  const origin = url.startsWith('file:') ? 'file:' : new URL(url).origin;
+  page.on('request', (r) => {
+    const u = r.url();
+    const own = origin === 'file:' ? u.startsWith('file:') : u.startsWith(origin);
+    if (!own && !u.startsWith('blob:') && !u.startsWith('data:')) foreign.push(u);
+  });
+  await page.goto(url);
+  await page.waitForSelector('body[data-ready="yes"], #fatal:not([hidden])', { timeout: 15000 });
+  return { context, page, problems, foreign };
+}
+
+/** Reads every <output>: name -> { text, value }. */
+export async function outputs(page) {
+  return page.$$eval('output[name]', (els) => Object.fromEntries(els.map((e) =>
+    [e.getAttribute('name'), { text: e.textContent, value: e.dataset.value, state: e.dataset.state }])));
+}

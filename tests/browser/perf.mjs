@@ -1,0 +1,62 @@
+// Browser timing of the pages (run by scripts/bench-pages; not a test: figures only).
+import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { gzipSync } from 'node:zlib';
+import path from 'node:path';
+import { launch, open, serve, fileUrl, dist } from './harness.mjs';
+
+const median = (xs) => { const s = [...xs].sort((a, b) => a - b); return s[Math.floor(s.length / 2)]; };
+
+const browser = await launch();
+const server = await serve();
+const rows = [];
+for (const [name, url] of [['file://', fileUrl('index.html')], ['served', server.url + 'index.html']]) {
+  const first = [];
+  for (let i = 0; i < 15; i++) {
+    const { context, page } = await open(browser, url);
+    first.push(Number(await page.$eval('body', (b) => b.dataset.firstResultMs)));
+    await context.close();
+  }
+  rows.push([`navigation to first result, ${name}, new tab (median of 15)`, `${median(first).toFixed(1)} ms`]);
+  const { context, page } = await open(browser, url);
+  const again = [];
+  for (let i = 0; i < 15; i++) {
+    await page.reload();
+    await page.waitForSelector('body[data-ready="yes"]');
+    again.push(Number(await page.$eval('body', (b) => b.dataset.firstResultMs)));
+  }
+  rows.push([`navigation to first result, ${name}, reload (median of 15)`, `${median(again).toFixed(1)} ms`]);
+  await context.close();
+}
+{
+  const { context, page } = await open(browser, fileUrl('index.html'));
+  // Each change runs the whole update synchronously: core, readouts and three plots.
+  const times = await page.evaluate(() => {
+    const el = document.querySelector('[name="tau"]');
+    const out = [];
+    for (let i = 0; i < 300; i++) {
+      el.value = (15 + (i % 20)) + 'ps';
+      const t0 = performance.now();
+      el.dispatchEvent(new Event('input', { bubbles: true }));
+      out.push(performance.now() - t0);
+    }
+    return out;
+  });
+  rows.push(['recompute + redraw per input change (median of 300)', `${median(times).toFixed(2)} ms`]);
+  await context.close();
+}
+let raw = 0;
+let gz = 0;
+for (const f of readdirSync(dist)) {
+  const p = path.join(dist, f);
+  if (!statSync(p).isFile()) continue;
+  raw += statSync(p).size;
+  gz += gzipSync(readFileSync(p), { level: 9 }).length;
+}
+const wasm = statSync(path.join(path.dirname(dist), 'target/wasm-bindgen/latchwise_bg.wasm')).size;
+const wasmGz = gzipSync(readFileSync(path.join(path.dirname(dist), 'target/wasm-bindgen/latchwise_bg.wasm')), { level: 9 }).length;
+rows.push(['wasm module, raw / gzipped', `${(wasm / 1024).toFixed(0)} KiB / ${(wasmGz / 1024).toFixed(0)} KiB`]);
+rows.push(['whole dist/, raw / gzipped (wasm embedded as base64)', `${(raw / 1024).toFixed(0)} KiB / ${(gz / 1024).toFixed(0)} KiB`]);
+console.log('| page measurement | figure |\n|---|---|');
+for (const [k, v] of rows) console.log(`| ${k} | ${v} |`);
+await browser.close();
+await server.close();

@@ -1,0 +1,195 @@
+// Real-browser tests of the synchronizer page (dist/index.html), from file:// and served.
+import { test, before, after } from 'node:test';
+import assert from 'node:assert/strict';
+import { execFileSync, spawnSync } from 'node:child_process';
+import path from 'node:path';
+import { launch, open, serve, fileUrl, outputs, root } from './harness.mjs';
+
+let browser;
+let server;
+
+before(async () => {
+  execFileSync('cargo', ['build', '--quiet', '--locked', '--bin', 'latchwise'], { cwd: root, stdio: 'inherit' });
+  browser = await launch();
+  server = await serve();
+});
+
+after(async () => {
+  await browser?.close();
+  await server?.close();
+});
+
+/** `latchwise sync --json`; exit 1 (target missed) still prints the report. */
+function cli(args) {
+  const r = spawnSync(path.join(root, 'target/debug/latchwise'), ['sync', '--json', ...args], { encoding: 'utf8' });
+  assert.ok(r.status === 0 || r.status === 1, r.stderr);
+  return JSON.parse(r.stdout);
+}
+
+/** Counts canvas pixels that are not white: a drawn chart has thousands. */
+async function inked(page, id) {
+  return page.$eval(`#${id}`, (c) => {
+    const d = c.getContext('2d').getImageData(0, 0, c.width, c.height).data;
+    let n = 0;
+    for (let i = 0; i < d.length; i += 4) if (d[i] < 200 || d[i + 1] < 200 || d[i + 2] < 200) n++;
+    return n;
+  });
+}
+
+for (const where of ['file', 'served']) {
+  test(`loads cleanly ${where === 'file' ? 'from file://' : 'from the server'}: results, plots, no errors, no network`, async () => {
+    const url = where === 'file' ? fileUrl('index.html') : server.url + 'index.html';
+    const { context, page, problems, foreign } = await open(browser, url);
+    const out = await outputs(page);
+    assert.equal(await page.$eval('body', (b) => b.dataset.valid), 'yes');
+    assert.match(out.log10_mtbf_years.text, /years/);
+    assert.ok(Number.isFinite(Number(out.log10_mtbf_s.value)));
+    for (const id of ['plot-stages', 'plot-fclk', 'plot-tau']) {
+      assert.equal(await page.$eval(`#${id}`, (c) => c.dataset.drawn), 'yes', id);
+      assert.ok(await inked(page, id) > 2000, `${id} is blank`);
+    }
+    assert.match(await page.textContent('#caution'), /first-order estimates/);
+    assert.deepEqual(problems, []);
+    assert.deepEqual(foreign, []);
+    await context.close();
+  });
+}
+
+test('a bookmarked URL gives the same log10_mtbf_s as the command line', async () => {
+  const cases = [
+    { tau: '20ps', tw: '40ps', fclk: '1GHz', fdata: '100MHz', stages: '2', tsu: '30ps', tcq: '50ps' },
+    { tau: '150p', tw: '60p', fclk: '800meg', fdata: '200M', stages: '3', tsu: '40p', tcq: '70p', 'target-fit': '10' },
+    { tau: '1ps', tw: '40ps', fclk: '1GHz', fdata: '100MHz', stages: '1000', tsu: '30ps', tcq: '50ps' },
+    { tau: '0.5ns', t0: '0.1ns', fclk: '50MHz', fdata: '5MHz', tr: '35ns' },
+  ];
+  for (const c of cases) {
+    const q = new URLSearchParams(c).toString();
+    const { context, page } = await open(browser, fileUrl('index.html') + '?' + q);
+    const out = await outputs(page);
+    const want = cli(Object.entries(c).flatMap(([k, v]) => [`--${k}`, v]));
+    assert.equal(Number(out.log10_mtbf_s.value), want.log10_mtbf_s, q);
+    assert.equal(Number(out.log10_fit.value), want.log10_fit, q);
+    assert.equal(Number(out.resolution_time_s.value), want.resolution_time_s, q);
+    for (const [k, v] of Object.entries(c)) assert.equal(await page.inputValue(`[name="${k}"]`), v, k);
+    await context.close();
+  }
+});
+
+test('typing updates results, plots and the URL; reload restores the case', async () => {
+  const { context, page, problems } = await open(browser, fileUrl('index.html'));
+  const before = await outputs(page);
+  const pixels = await page.$eval('#plot-stages', (c) => c.toDataURL());
+  const entries = await page.evaluate(() => history.length);
+  await page.fill('[name="stages"]', '3');
+  await page.fill('[name="tsu"]', '31ps');
+  await page.fill('[name="tsu"]', '30ps');
+  // The history is replaced, not extended, on each edit.
+  assert.equal(await page.evaluate(() => history.length), entries);
+  const after = await outputs(page);
+  assert.ok(Number(after.log10_mtbf_s.value) > Number(before.log10_mtbf_s.value) + 10);
+  assert.notEqual(await page.$eval('#plot-stages', (c) => c.toDataURL()), pixels);
+  assert.match(page.url(), /[?&]stages=3(&|$)/);
+  assert.match(page.url(), /[?&]tau=20ps(&|$)/);
+  await page.reload();
+  await page.waitForSelector('body[data-ready="yes"]');
+  assert.equal(await page.inputValue('[name="stages"]'), '3');
+  assert.equal((await outputs(page)).log10_mtbf_s.value, after.log10_mtbf_s.value);
+  assert.deepEqual(problems, []);
+  await context.close();
+});
+
+test('without a query the last case comes back from local storage', async () => {
+  const { context, page } = await open(browser, server.url + 'index.html');
+  await page.fill('[name="fdata"]', '37MHz');
+  await page.goto(server.url + 'index.html');
+  await page.waitForSelector('body[data-ready="yes"]');
+  assert.equal(await page.inputValue('[name="fdata"]'), '37MHz');
+  await context.close();
+});
+
+test('bad values are flagged beside the field, kept as typed, and recover', async () => {
+  const { context, page, problems } = await open(browser, fileUrl('index.html'));
+  const cases = [
+    ['fclk', '5ns', "fclk: '5ns' is a time, expected a frequency"],
+    ['tau', '-3p', 'tau: negative time'],
+    ['tau', 'NaN', "tau: 'NaN' is not a finite number"],
+    ['stages', '2.5', "stages: '2.5' is not a whole number"],
+    ['tau', '1e999', "tau: '1e999' is too large to represent"],
+    ['fclk', '20GHz', 'fclk: clock period 50 ps is not longer than tsu + tcq = 80 ps: no time is left to resolve'],
+    ['tau', '', 'tau: a value is required'],
+  ];
+  for (const [name, value, msg] of cases) {
+    const good = await page.inputValue(`[name="${name}"]`);
+    await page.fill(`[name="${name}"]`, value);
+    assert.equal(await page.textContent(`#m-${name}`), msg);
+    assert.equal(await page.getAttribute(`[name="${name}"]`, 'aria-invalid'), 'true');
+    assert.equal(await page.inputValue(`[name="${name}"]`), value);
+    assert.equal(await page.$eval('body', (b) => b.dataset.valid), 'no');
+    assert.equal((await outputs(page)).log10_mtbf_s.value, '');
+    assert.equal(await page.$eval('#plot-tau', (c) => c.parentNode.dataset.stale), 'yes');
+    await page.fill(`[name="${name}"]`, good);
+    assert.equal(await page.getAttribute(`[name="${name}"]`, 'aria-invalid'), null);
+    assert.equal(await page.$eval('body', (b) => b.dataset.valid), 'yes');
+  }
+  assert.deepEqual(problems, []);
+  await context.close();
+});
+
+test('invalid values in a link stay in their field; unknown keys are noted', async () => {
+  const { context, page } = await open(browser, fileUrl('index.html') + '?tau=fast&tw=40ps&fclk=1GHz&fdata=100MHz&stages=2&tsu=30ps&tcq=50ps&colour=teal');
+  assert.equal(await page.inputValue('[name="tau"]'), 'fast');
+  assert.match(await page.textContent('#m-tau'), /'fast' is not a number/);
+  assert.match(await page.textContent('#ignored'), /colour/);
+  assert.equal(await page.isVisible('#ignored'), true);
+  await context.close();
+});
+
+test('a hostile query executes nothing and is shown as text', async () => {
+  const evil = '<img src=x onerror="window.__owned=1">';
+  const q = new URLSearchParams({ tau: evil, tw: '40ps', fclk: '1GHz', fdata: '100MHz', stages: '2', tsu: '30ps', tcq: '50ps', [evil]: '1' });
+  const { context, page, foreign } = await open(browser, fileUrl('index.html') + '?' + q);
+  await page.waitForTimeout(200);
+  assert.equal(await page.evaluate(() => window.__owned), undefined);
+  assert.equal(await page.$$eval('img', (x) => x.length), 0);
+  assert.equal(await page.inputValue('[name="tau"]'), evil);
+  assert.ok((await page.textContent('#m-tau')).includes(evil));
+  assert.deepEqual(foreign, []);
+  await context.close();
+});
+
+test('readable at 320 px and on a large monitor; a high-DPI canvas is crisp', async () => {
+  for (const [width, scale] of [[320, 1], [2560, 1], [1280, 2], [1280, 1]]) {
+    const { context, page, problems } = await open(browser, fileUrl('index.html'), { width, scale });
+    const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
+    assert.ok(overflow <= 0, `${width}px: page is ${overflow}px too wide`);
+    const ratio = await page.$eval('#plot-stages', (c) => c.width / c.clientWidth);
+    assert.ok(Math.abs(ratio - scale) < 0.02, `canvas backing ratio ${ratio} at dpr ${scale}`);
+    if (process.env.UPDATE_SCREENSHOTS && width === 1280 && scale === 1) {
+      await page.screenshot({ path: path.join(root, 'docs/sync-page.png'), fullPage: true });
+    }
+    assert.deepEqual(problems, []);
+    await context.close();
+  }
+});
+
+test('keyboard: every input is labelled and reachable with Tab', async () => {
+  const { context, page } = await open(browser, fileUrl('index.html'));
+  const unlabeled = await page.$$eval('input[name]', (els) => els.filter((e) => !e.labels || e.labels.length === 0).map((e) => e.name));
+  assert.deepEqual(unlabeled, []);
+  await page.focus('[name="tau"]');
+  await page.keyboard.press('Tab');
+  assert.equal(await page.evaluate(() => document.activeElement.name), 'tw');
+  await context.close();
+});
+
+test('CSV and PNG downloads carry the plot data', async () => {
+  const { context, page } = await open(browser, server.url + 'index.html');
+  const [csv] = await Promise.all([page.waitForEvent('download'), page.click('[data-csv="plot-stages"]')]);
+  const text = await (await csv.createReadStream()).toArray();
+  const lines = Buffer.concat(text).toString('utf8').trim().split('\n');
+  assert.equal(lines[0], 'stages,log10_mtbf_years');
+  assert.ok(lines.length >= 7);
+  const [png] = await Promise.all([page.waitForEvent('download'), page.click('[data-png="plot-tau"]')]);
+  assert.equal(png.suggestedFilename(), 'plot-tau.png');
+  await context.close();
+});
