@@ -2,6 +2,7 @@
 #![allow(clippy::unwrap_used, clippy::print_stdout)]
 
 mod cli;
+mod comparator;
 mod plot;
 mod properties;
 mod reference;

@@ -11,8 +11,6 @@
 
 /// Relative tolerance on log10 values against high-precision references.
 pub const LOG10_REL: f64 = 1e-12;
-/// Relative tolerance against values quoted to three significant digits.
-pub const PUBLISHED_REL: f64 = 5e-3;
 /// Absolute tolerance, in decades, of solver results against their target.
 pub const SOLVER_LOG10_ABS: f64 = 1e-6;
 
@@ -25,12 +23,13 @@ pub fn assert_log10(what: &str, got: f64, want: f64) {
     );
 }
 
-/// Asserts that the number 10^`log10_got` agrees with a published value to `PUBLISHED_REL`.
-pub fn assert_published(what: &str, log10_got: f64, published: f64) {
-    let ratio = 10f64.powf(log10_got - published.log10());
+/// Asserts that the number 10^`log10_got`, rounded to the `digits` significant digits a
+/// source quotes, is the published value: agreement to half a unit in the last digit.
+pub fn assert_published(what: &str, log10_got: f64, published: f64, digits: i32) {
+    let got = 10f64.powf(log10_got);
+    let unit = 10f64.powi(published.abs().log10().floor() as i32 - digits + 1);
     assert!(
-        (ratio - 1.0).abs() <= PUBLISHED_REL,
-        "{what}: got {:e}, published {published:e}",
-        10f64.powf(log10_got)
+        (got - published).abs() <= 0.5 * unit * (1.0 + 1e-9),
+        "{what}: got {got:e}, published {published:e} ({digits} digits)"
     );
 }

@@ -2,6 +2,7 @@
 #![allow(clippy::print_stdout, clippy::print_stderr)]
 
 mod args;
+mod comparator_cmd;
 mod sync_cmd;
 
 use std::process::ExitCode;
@@ -19,7 +20,8 @@ fn usage() -> String {
 
 Usage:
   latchwise sync [options]        synchronizer MTBF, FIT and depth
-  latchwise help sync             options of a command
+  latchwise comparator [options]  comparator metastability error rate against a BER
+  latchwise help COMMAND          options of a command
   latchwise --version
 
 Values take engineering notation: 20p, 20ps, 20 ps, 2e-11, 0.02ns, 1.5GHz, 250M, 1meg.
@@ -44,9 +46,14 @@ fn main() -> ExitCode {
     };
     match cmd {
         "sync" => sync_cmd::run(rest),
+        "comparator" => comparator_cmd::run(rest),
         "help" | "--help" | "-h" => match rest.first().map(String::as_str) {
             Some("sync") => {
                 print!("{}", sync_cmd::help());
+                ExitCode::SUCCESS
+            }
+            Some("comparator") => {
+                print!("{}", comparator_cmd::help());
                 ExitCode::SUCCESS
             }
             _ => {

@@ -60,24 +60,19 @@ pub struct ChartSpec<'a> {
 }
 
 impl<'a> ChartSpec<'a> {
-    /// A chart of one sweep, with an optional target line (log10 MTBF in years).
-    pub fn from_series(
-        s: &'a Series,
-        title: &str,
-        target_log10_years: Option<f64>,
-        scale: f64,
-    ) -> Self {
+    /// A chart of one sweep, with an optional target line (log10, in the y units of the series).
+    pub fn from_series(s: &'a Series, title: &str, target_log10: Option<f64>, scale: f64) -> Self {
         ChartSpec {
             title: title.to_string(),
             x_label: s.x_label.to_string(),
             x_unit: s.x_unit,
             x_spacing: s.spacing,
-            y_label: "MTBF (years)".to_string(),
+            y_label: s.y_label.to_string(),
             curves: vec![Curve {
                 label: String::new(),
                 points: &s.points,
             }],
-            hline: target_log10_years.map(|t| (t, "target".to_string())),
+            hline: target_log10.map(|t| (t, "target".to_string())),
             vline: None,
             marker: Some(s.operating_point),
             scale,

@@ -8,7 +8,9 @@
 #![deny(clippy::print_stdout, clippy::print_stderr)]
 
 pub mod chart;
+pub mod comparator;
 pub mod error;
+pub mod normal;
 pub mod params;
 pub mod quantity;
 pub mod readout;

@@ -246,6 +246,14 @@ pub fn echo_fields(raw: &RawInputs, fields: &[FieldSpec]) -> Vec<FieldEcho> {
         .iter()
         .map(|f| {
             let text = raw.get(f.name).unwrap_or("").to_string();
+            if f.dim == Dim::Choice {
+                let t = text.trim().to_ascii_lowercase();
+                return FieldEcho {
+                    name: f.name,
+                    normalized: (!t.is_empty()).then_some(t),
+                    text,
+                };
+            }
             let normalized = quantity::parse(f.name, &text, f.dim)
                 .ok()
                 .map(|v| match f.dim {

@@ -26,6 +26,8 @@ pub enum Dim {
     Ratio,
     /// A whole number of things.
     Count,
+    /// One of a fixed set of words (not a number).
+    Choice,
 }
 
 impl Dim {
@@ -37,7 +39,7 @@ impl Dim {
             Dim::Voltage => "V",
             Dim::Capacitance => "F",
             Dim::Conductance => "S",
-            Dim::Ratio | Dim::Count => "",
+            Dim::Ratio | Dim::Count | Dim::Choice => "",
         }
     }
 
@@ -51,6 +53,7 @@ impl Dim {
             Dim::Conductance => "conductance",
             Dim::Ratio => "ratio",
             Dim::Count => "count",
+            Dim::Choice => "choice",
         }
     }
 
@@ -67,7 +70,7 @@ impl Dim {
             Dim::Capacitance => &["F"],
             Dim::Conductance => &["S", "A/V"],
             Dim::Ratio => &["V/V", "x"],
-            Dim::Count => &[],
+            Dim::Count | Dim::Choice => &[],
         }
     }
 }

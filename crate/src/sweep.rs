@@ -27,7 +27,11 @@ pub struct Series {
     pub x_unit: &'static str,
     /// Spacing of x.
     pub spacing: Spacing,
-    /// (x, log10 MTBF years) pairs.
+    /// Column name of y in CSV output (a log10 quantity).
+    pub y_name: &'static str,
+    /// Axis title of y (the quantity whose log10 is y).
+    pub y_label: &'static str,
+    /// (x, y) pairs; y is a base-10 logarithm.
     pub points: Vec<(f64, f64)>,
     /// The case being evaluated, as (x, log10 MTBF years).
     pub operating_point: (f64, f64),
@@ -42,8 +46,9 @@ impl Series {
             format!("_{}", self.x_unit)
         };
         let mut out = format!(
-            "{}{unit},log10_mtbf_years\n",
-            self.x_label.split(' ').next().unwrap_or("x")
+            "{}{unit},{}\n",
+            self.x_label.split(' ').next().unwrap_or("x"),
+            self.y_name
         );
         for (x, y) in &self.points {
             out.push_str(&format!("{x:e},{y}\n"));
@@ -73,6 +78,8 @@ pub fn mtbf_vs_stages(s: &Synchronizer, max_stages: u32) -> Series {
         id: "mtbf-vs-stages",
         x_label: "stages",
         x_unit: "",
+        y_name: "log10_mtbf_years",
+        y_label: "MTBF (years)",
         spacing: Spacing::Integer,
         points: (1..=max_stages.max(1))
             .map(|n| (f64::from(n), log10_years(&plain.with(n, tau, fclk))))
@@ -96,6 +103,8 @@ pub fn mtbf_vs_fclk(s: &Synchronizer, n: usize) -> Series {
         id: "mtbf-vs-fclk",
         x_label: "fclk (Hz)",
         x_unit: "Hz",
+        y_name: "log10_mtbf_years",
+        y_label: "MTBF (years)",
         spacing: Spacing::Log,
         points: log_space(lo, top.max(lo * 1.01), n)
             .map(|x| (x, log10_years(&s.with(s.stages, s.tau.get(), x))))
@@ -115,6 +124,8 @@ pub fn sweep_tau(s: &Synchronizer, lo: f64, hi: f64, n: usize) -> Series {
         id: "mtbf-vs-tau",
         x_label: "tau (s)",
         x_unit: "s",
+        y_name: "log10_mtbf_years",
+        y_label: "MTBF (years)",
         spacing: Spacing::Log,
         points: log_space(lo, hi, n)
             .map(|x| (x, log10_years(&s.with(s.stages, x, s.fclk.get()))))
@@ -137,6 +148,8 @@ pub fn mtbf_vs_tr(s: &Synchronizer, n: usize) -> Series {
         id: "mtbf-vs-tr",
         x_label: "tr (s)",
         x_unit: "s",
+        y_name: "log10_mtbf_years",
+        y_label: "MTBF (years)",
         spacing: Spacing::Linear,
         points: (0..n)
             .map(|i| {

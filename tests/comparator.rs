@@ -1,0 +1,349 @@
+//! Comparator checks: published examples, the mpmath table, Q-function values, limits,
+//! properties and the command line. Each check names its source.
+
+use latchwise::comparator::{evaluate, tau_from_devices, CompCase, CompReport};
+use latchwise::normal::{ln_prob_interval, ln_q};
+use latchwise::params::RawInputs;
+use proptest::prelude::*;
+use std::f64::consts::LN_10;
+use std::process::Command;
+
+use crate::tolerance::{assert_log10, assert_published, SOLVER_LOG10_ABS};
+
+fn report(pairs: &[(&str, &str)]) -> CompReport {
+    let raw = RawInputs::from_pairs(pairs.iter().map(|(k, v)| (*k, *v)));
+    let case = CompCase::from_inputs(&raw).unwrap_or_else(|e| panic!("{pairs:?}: {e}"));
+    evaluate(&case, Vec::new())
+}
+
+const FLASH: [(&str, &str); 7] = [
+    ("tau", "70ps"),
+    ("vmin", "25mV"),
+    ("gain", "5"),
+    ("input", "uniform"),
+    ("lsb", "10mV"),
+    ("fs", "1GHz"),
+    ("target-ber", "1e-9"),
+];
+
+fn flash(extra: &[(&str, &str)]) -> CompReport {
+    let mut p: Vec<(&str, &str)> = FLASH.to_vec();
+    p.extend_from_slice(extra);
+    report(&p)
+}
+
+#[test]
+fn flash_converter_published_example() {
+    // "Analog Circuit Design" (Kluwer 1993), ADC chapter, as listed in the domain notes:
+    // vmin 25 mV, gain 5, lsb 10 mV, tau 70 ps, 0.5 ns to regenerate: p = 7.9e-4; one
+    // extra latch with another 0.5 ns: p = 6.2e-7 (the book rounds to 1e-3 and 1e-6).
+    assert_published(
+        "one latch",
+        flash(&[("treg", "0.5ns")]).log10_p_error,
+        7.9e-4,
+        2,
+    );
+    let two = flash(&[
+        ("treg", "0.5ns"),
+        ("extra-stages", "1"),
+        ("stage-time", "0.5ns"),
+    ]);
+    assert_published("two latches", two.log10_p_error, 6.2e-7, 2);
+    // Errors per second = fs * p (domain notes section 3).
+    assert_log10("rate", two.log10_errors_per_s, two.log10_p_error + 9.0);
+}
+
+#[test]
+fn q_function_table_values() {
+    // Upper-tail normal probabilities as tabulated in Abramowitz & Stegun, Table 26.1
+    // (values recalled; the same numbers also come from mpmath's erfc).
+    for (x, q) in [
+        (1.0, 0.158_655_253_9),
+        (2.0, 0.022_750_131_95),
+        (3.0, 1.349_898_032e-3),
+        (6.0, 9.865_876_450e-10),
+        (7.0, 1.279_812_544e-12),
+    ] {
+        let got = ln_q(x) / LN_10;
+        assert!(
+            (10f64.powf(got) / q - 1.0).abs() < 1e-9,
+            "Q({x}) = {:e}",
+            10f64.powf(got)
+        );
+    }
+    // Far beyond f64: Q(100) = 1.3443e-2174 (mpmath: erfc(100/sqrt 2)/2).
+    assert!(
+        (ln_q(100.0) / LN_10 - (-2_173.871_49)).abs() < 1e-4,
+        "{}",
+        ln_q(100.0) / LN_10
+    );
+}
+
+#[test]
+fn tau_and_decision_time_facts_of_the_trade() {
+    // tau = C / (gm - G0) (regenerative latch; common practice, any analog design text).
+    assert!((tau_from_devices(20e-15, 2e-3, 0.4e-3).unwrap() - 12.5e-12).abs() < 1e-25);
+    let r = report(&[
+        ("cl", "20f"),
+        ("gm", "2m"),
+        ("g0", "0.4m"),
+        ("treg", "100p"),
+        ("vmin", "0.4"),
+        ("input", "uniform"),
+        ("lsb", "1m"),
+        ("fs", "1G"),
+    ]);
+    assert!((r.tau_s - 12.5e-12).abs() < 1e-25);
+    // Time to reach vmin grows with ln(vmin/vin): ten times smaller input, tau*ln(10) longer.
+    let t = |vin: &'static str| {
+        report(&[
+            ("tau", "10p"),
+            ("treg", "1n"),
+            ("vmin", "0.4"),
+            ("input", "uniform"),
+            ("lsb", "1m"),
+            ("fs", "1G"),
+            ("vin", vin),
+        ])
+        .decision_time_s
+        .unwrap()
+    };
+    assert!(((t("1uV") - t("10uV")) - 10e-12 * LN_10).abs() < 1e-20);
+    assert!((t("1uV") - 10e-12 * (0.4f64 / 1e-6).ln()).abs() < 1e-20);
+}
+
+fn check_row(line: &str) {
+    let c: Vec<&str> = line.split(',').collect();
+    let name = c[0];
+    let mut pairs = vec![
+        ("tau", c[1]),
+        ("treg", c[2]),
+        ("vmin", c[3]),
+        ("gain", c[4]),
+        ("input", c[5]),
+        ("fs", "1G"),
+    ];
+    match c[5] {
+        "uniform" => pairs.push(("lsb", c[6])),
+        "gaussian" => pairs.extend([("sigma", c[6]), ("mean", c[7])]),
+        "sine" => pairs.extend([("amp", c[6]), ("lsb", c[7])]),
+        _ => pairs.extend([("amp", c[6]), ("sigma", c[7])]),
+    }
+    let r = report(&pairs);
+    let num = |i: usize| c[i].parse::<f64>().unwrap();
+    assert_log10(&format!("{name} vcrit"), r.log10_vcrit_v, num(8));
+    assert_log10(&format!("{name} p"), r.log10_p_error, num(9));
+    if !c[10].is_empty() {
+        assert_log10(&format!("{name} noise"), r.log10_p_noise.unwrap(), num(10));
+    }
+}
+
+#[test]
+fn matches_mpmath_table() {
+    // tests/fixtures/comparator_reference.csv: mpmath (PyPI), scripts/gen_reference.py.
+    let text = include_str!("fixtures/comparator_reference.csv");
+    let rows: Vec<&str> = text
+        .lines()
+        .filter(|l| !l.starts_with('#'))
+        .skip(1)
+        .collect();
+    assert!(rows.len() >= 17, "{} rows", rows.len());
+    rows.iter().for_each(|l| check_row(l));
+}
+
+#[test]
+fn density_form_and_exact_difference_agree_in_their_limits() {
+    // vcrit << sigma: P(|X - mean| < vcrit) -> 2 vcrit phi(mean/sigma)/sigma (domain notes §3).
+    for m in [0.0f64, 1.0, 5.0, 30.0] {
+        for ln_h in [-700.0f64, -50.0, -20.0] {
+            let density =
+                (2.0f64).ln() + ln_h - 0.5 * m * m - 0.5 * (2.0 * std::f64::consts::PI).ln();
+            assert!(
+                (ln_prob_interval(m, ln_h) - density).abs() < 1e-9,
+                "m={m} ln_h={ln_h}"
+            );
+        }
+    }
+    // Large vcrit: the plain CDF difference is accurate there and must agree.
+    let phi = |x: f64| 1.0 - ln_q(x).exp();
+    for (m, h) in [(0.0, 1.0), (1.5, 2.0), (-2.0, 0.7), (0.3, 4.0)] {
+        let plain: f64 = phi(m + h) - phi(m - h);
+        let got = ln_prob_interval(m, f64::ln(h)).exp();
+        assert!(
+            (got / plain - 1.0).abs() < 1e-12,
+            "m={m} h={h}: {got} vs {plain}"
+        );
+    }
+}
+
+#[test]
+fn vcrit_far_below_f64_stays_finite() {
+    // treg/tau = 1e5: vcrit = 1e-43430 V. Every model must still answer in logs.
+    for model in [
+        &[("input", "uniform"), ("lsb", "1m")][..],
+        &[("input", "gaussian"), ("sigma", "1m")],
+        &[("input", "nrz"), ("amp", "50m"), ("sigma", "5m")],
+        &[("input", "pam4"), ("amp", "150m"), ("sigma", "8m")],
+        &[("input", "sine"), ("amp", "0.5"), ("lsb", "1m")],
+    ] {
+        let mut p = vec![
+            ("tau", "1ps"),
+            ("treg", "100ns"),
+            ("vmin", "0.4"),
+            ("gain", "1"),
+            ("fs", "10G"),
+            ("target-ber", "1e-15"),
+        ];
+        p.extend_from_slice(model);
+        let r = report(&p);
+        assert!(
+            r.log10_p_error.is_finite() && r.log10_p_error < -43_000.0,
+            "{model:?}: {}",
+            r.log10_p_error
+        );
+        assert!(r.log10_errors_per_s.is_finite() && r.log10_p_total.is_finite());
+        assert_eq!(r.vcrit_v, 0.0);
+        assert_eq!(r.meets_target, Some(true));
+    }
+}
+
+#[test]
+fn solvers_meet_the_target_exactly() {
+    let r = flash(&[("treg", "0.5ns"), ("stage-time", "0.5ns")]);
+    let need = r.treg_needed_s.unwrap();
+    // Closed form for the uniform model: p = exp(-t/tau) here, so t = 70 ps * ln(1e9).
+    assert!((need - 70e-12 * 1e9f64.ln()).abs() < 1e-21, "{need:e}");
+    let at = flash(&[("treg", &format!("{need:e}"))]);
+    assert!(
+        (at.log10_p_error + 9.0).abs() < SOLVER_LOG10_ABS,
+        "{}",
+        at.log10_p_error
+    );
+    // 1.45 ns needed, 0.5 ns given: two more 0.5 ns stages.
+    assert_eq!(r.extra_stages_needed, Some(Some(2)));
+    let tau = r.max_tau_s.unwrap().unwrap();
+    assert!(tau < 70e-12);
+}
+
+fn p_at(tau: f64, treg: f64, gain: f64, vmin: f64) -> f64 {
+    let f = |x: f64| format!("{x:e}");
+    let raw = RawInputs::from_pairs([
+        ("tau", f(tau)),
+        ("treg", f(treg)),
+        ("gain", f(gain)),
+        ("vmin", f(vmin)),
+        ("input", "nrz".into()),
+        ("amp", "40m".into()),
+        ("sigma", "4m".into()),
+        ("fs", "1G".into()),
+    ]);
+    evaluate(&CompCase::from_inputs(&raw).unwrap(), Vec::new()).log10_p_error
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(300))]
+    #[test]
+    fn p_falls_with_treg_and_gain_and_rises_with_tau_and_vmin(
+        tau in 1e-12..1e-10f64, treg in 1e-11..2e-9f64, gain in 1.0..20.0f64, vmin in 0.05..0.8f64, k in 1.01..3.0f64
+    ) {
+        let base = p_at(tau, treg, gain, vmin);
+        prop_assert!(base.is_finite());
+        if base < -1e-9 {
+            prop_assert!(p_at(tau, treg * k, gain, vmin) < base);
+            prop_assert!(p_at(tau, treg, gain * k, vmin) < base);
+        }
+        prop_assert!(p_at(tau * k, treg, gain, vmin) >= base);
+        prop_assert!(p_at(tau, treg, gain, vmin * k) >= base);
+    }
+}
+
+fn cli(args: &[&str]) -> (i32, String, String) {
+    let out = Command::new(env!("CARGO_BIN_EXE_latchwise"))
+        .arg("comparator")
+        .args(args)
+        .output()
+        .unwrap();
+    (
+        out.status.code().unwrap_or(-1),
+        String::from_utf8_lossy(&out.stdout).into(),
+        String::from_utf8_lossy(&out.stderr).into(),
+    )
+}
+
+#[test]
+fn cli_json_keys_exit_statuses_and_bad_input() {
+    let base = [
+        "--tau", "15ps", "--treg", "80ps", "--vmin", "0.4", "--gain", "4", "--input", "uniform",
+        "--lsb", "1mV", "--fs", "5GHz",
+    ];
+    let with = |extra: &[&'static str]| {
+        let mut a = base.to_vec();
+        a.extend_from_slice(extra);
+        cli(&a)
+    };
+    let (code, out, _) = with(&["--json", "--target-ber", "1e-12"]);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    for k in [
+        "tau_s",
+        "vcrit_v",
+        "log10_p_error",
+        "log10_errors_per_s",
+        "meets_target",
+    ] {
+        assert!(v.get(k).is_some(), "{k}");
+    }
+    assert_eq!(
+        code,
+        if v["meets_target"] == serde_json::json!(true) {
+            0
+        } else {
+            1
+        }
+    );
+    assert_eq!(with(&["--target-ber", "1e-300"]).0, 1);
+    assert_eq!(with(&["--target-ber", "0.999"]).0, 0);
+    for (opt, val, msg) in [
+        (
+            "--input",
+            "ternary",
+            "input: 'ternary' is not one of: uniform, gaussian, nrz, pam4, sine",
+        ),
+        ("--lsb", "1ns", "lsb: '1ns' is a time, expected a voltage"),
+        ("--target-ber", "2", "target-ber: 2 is out of range"),
+        ("--gm", "1m", "tau: give either tau or cl, gm, g0, not both"),
+        ("--vmin", "-1", "vmin: negative voltage"),
+    ] {
+        let (code, _, err) = with(&[opt, val]);
+        assert_eq!(code, 2, "{opt} {val}");
+        assert!(err.contains(msg), "{opt} {val}: {err}");
+    }
+    let (code, _, err) = cli(&[
+        "--cl", "10f", "--gm", "1m", "--g0", "2m", "--treg", "1n", "--vmin", "0.4", "--input",
+        "nrz", "--amp", "50m", "--sigma", "5m", "--fs", "1G",
+    ]);
+    assert_eq!(code, 2);
+    assert!(
+        err.contains("gm: gm = 1 mS does not exceed g0 = 2 mS: the latch would not regenerate"),
+        "{err}"
+    );
+    let (code, out, _) = cli(&["--help"]);
+    assert_eq!(code, 0);
+    assert!(out.contains("--target-ber") && out.contains("first-order estimates"));
+}
+
+#[test]
+fn ln_erfc_matches_mpmath() {
+    // tests/fixtures/erfc_reference.csv: mpmath (PyPI) at 50 digits, scripts/gen_reference.py.
+    let text = include_str!("fixtures/erfc_reference.csv");
+    let rows: Vec<&str> = text
+        .lines()
+        .filter(|l| !l.starts_with('#'))
+        .skip(1)
+        .collect();
+    assert!(rows.len() >= 20);
+    for l in rows {
+        let (x, v) = l.split_once(',').unwrap();
+        let got = latchwise::normal::ln_erfc(x.parse().unwrap());
+        assert_log10(&format!("ln erfc({x})"), got, v.parse().unwrap());
+    }
+}
