@@ -5,7 +5,8 @@
 
   var page = document.body.dataset.page;
   var api = {
-    sync: { run: 'sync_page', draw: 'sync_draw', csv: 'sync_csv' }
+    sync: { run: 'sync_page', draw: 'sync_draw', csv: 'sync_csv' },
+    comparator: { run: 'comparator_page', draw: 'comparator_draw', csv: 'comparator_csv' }
   }[page];
   var form = document.getElementById('inputs');
   var storeKey = 'latchwise:' + page;
@@ -56,6 +57,10 @@
         msg.className = 'msg';
       }
     });
+    inputs().forEach(function (el) {
+      var box = el.closest('.field');
+      if (box) box.dataset.unused = state.unused.indexOf(el.name) >= 0 ? 'yes' : 'no';
+    });
     var seen = {};
     state.readouts.forEach(function (r) {
       var out = document.querySelector('output[name="' + r.name + '"]');
@@ -85,6 +90,22 @@
     }
     document.getElementById('caution').textContent = state.caution;
     document.body.dataset.valid = state.ok ? 'yes' : 'no';
+    carryLinks();
+  }
+
+  // Links to the other calculators carry the shared parameters, declared on the link as
+  // data-carry="from:to ..." (e.g. "tau:tau fclk:fs").
+  function carryLinks() {
+    Array.prototype.forEach.call(document.querySelectorAll('a[data-carry]'), function (a) {
+      var p = new URLSearchParams();
+      p.append('from', page);
+      a.dataset.carry.split(' ').forEach(function (pair) {
+        var ends = pair.split(':');
+        var el = form.elements.namedItem(ends[0]);
+        if (el && el.value.trim() !== '') p.append(ends[1], el.value);
+      });
+      a.href = a.getAttribute('href').split('?')[0] + '?' + p.toString();
+    });
   }
 
   function draw(q) {
@@ -169,11 +190,27 @@
     });
   }
 
+  function stored() {
+    try { return localStorage.getItem(storeKey) || ''; } catch (e) { return ''; }
+  }
+
   function start() {
     wire();
     var q = location.search.replace(/^\?/, '');
-    if (q === '') {
-      try { q = localStorage.getItem(storeKey) || ''; } catch (e) { q = ''; }
+    var carried = new URLSearchParams(q);
+    if (carried.has('from')) {
+      // Arrived from another calculator: its shared values over this page's last case.
+      carried.delete('from');
+      var base = stored();
+      if (base !== '') fill(base);
+      carried.forEach(function (v, k) {
+        var el = form.elements.namedItem(k);
+        if (el) el.value = v;
+      });
+      q = query();
+      try { history.replaceState(null, '', '?' + q); } catch (e) { /* file:// in some browsers */ }
+    } else if (q === '') {
+      q = stored();
     }
     if (q !== '') fill(q);
     var initial = q === '' ? undefined : q;

@@ -2,7 +2,9 @@
 #![allow(missing_docs, clippy::unwrap_used)]
 
 use criterion::{criterion_group, criterion_main, Criterion};
+use latchwise::comparator::{self, CompCase};
 use latchwise::params::RawInputs;
+use latchwise::sweep::comparator::p_vs_tau;
 use latchwise::sweep::sweep_tau;
 use latchwise::synchronizer::{evaluate, SyncCase};
 use std::hint::black_box;
@@ -24,6 +26,30 @@ fn bench(c: &mut Criterion) {
     g.sample_size(10);
     g.bench_function("tau_1e6_points", |b| {
         b.iter(|| sweep_tau(black_box(&case.sync), 1e-12, 1e-9, 1_000_000))
+    });
+    g.finish();
+
+    let comp = |q: &str| CompCase::from_inputs(&RawInputs::from_query(q)).unwrap();
+    let base = "tau=15p&treg=80p&vmin=0.4&gain=4&fs=5G&target-ber=1e-12";
+    for (name, model) in [
+        ("uniform", "input=uniform&lsb=1m"),
+        ("nrz", "input=nrz&amp=40m&sigma=4m"),
+        ("pam4", "input=pam4&amp=150m&sigma=8m"),
+        ("sine_8bit", "input=sine&amp=0.5&lsb=3.90625m"),
+    ] {
+        let case = comp(&format!("{base}&{model}"));
+        c.bench_function(&format!("comparator/ln_p_error/{name}"), |b| {
+            b.iter(|| black_box(&case.comp).ln_p_error())
+        });
+        c.bench_function(&format!("comparator/evaluate_with_solvers/{name}"), |b| {
+            b.iter(|| comparator::evaluate(black_box(&case), Vec::new()))
+        });
+    }
+    let nrz = comp(&format!("{base}&input=nrz&amp=40m&sigma=4m"));
+    let mut g = c.benchmark_group("comparator_sweep");
+    g.sample_size(10);
+    g.bench_function("nrz_tau_1e6_points", |b| {
+        b.iter(|| p_vs_tau(black_box(&nrz.comp), 1_000_000))
     });
     g.finish();
 }

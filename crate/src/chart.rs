@@ -18,10 +18,11 @@ const INK: [RGBColor; 4] = [
     RGBColor(0x1d, 0x4e, 0x6b),
     RGBColor(0x5b, 0x7f, 0x3a),
     RGBColor(0x7a, 0x4a, 0x8c),
-    RGBColor(0x8a, 0x6d, 0x2f),
+    RGBColor(0x2f, 0x7f, 0x7a),
 ];
 const TARGET: RGBColor = RGBColor(0xc0, 0x5a, 0x12);
 const MARK: RGBColor = RGBColor(0xb0, 0x1e, 0x2e);
+const GUIDE: RGBColor = RGBColor(0x6b, 0x72, 0x80);
 const GRID: RGBColor = RGBColor(0xe3, 0xe6, 0xea);
 const AXIS: RGBColor = RGBColor(0x44, 0x4b, 0x55);
 
@@ -355,7 +356,7 @@ pub fn draw<DB: DrawingBackend>(
     }
     if let Some((x, label)) = &spec.vline {
         let ax = to_axis_x(spec.x_spacing, *x);
-        let style = TARGET.stroke_width(px(1.5).max(1));
+        let style = GUIDE.stroke_width(px(1.5).max(1));
         chart
             .draw_series(LineSeries::new(vec![(ax, ylo), (ax, yhi)], style))
             .map_err(err)?

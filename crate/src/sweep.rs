@@ -160,3 +160,129 @@ pub fn mtbf_vs_tr(s: &Synchronizer, n: usize) -> Series {
         operating_point: (tr, log10_years(s)),
     }
 }
+
+/// Sweeps of a comparator: log10 error probability against its levers, and the latch's
+/// output growth curves.
+pub mod comparator {
+    use std::f64::consts::LN_10;
+
+    use super::{log_space, Series, Spacing};
+    use crate::comparator::{Comparator, InputModel};
+    use crate::quantity::format_si;
+
+    fn p(c: &Comparator) -> f64 {
+        c.ln_p_error() / LN_10
+    }
+
+    fn series(
+        id: &'static str,
+        x_label: &'static str,
+        x_unit: &'static str,
+        spacing: Spacing,
+    ) -> Series {
+        Series {
+            id,
+            x_label,
+            x_unit,
+            spacing,
+            y_name: "log10_p_error",
+            y_label: "error probability per decision",
+            points: Vec::new(),
+            operating_point: (0.0, 0.0),
+        }
+    }
+
+    /// log10 p against the total regeneration time, from 0 to twice the case's.
+    pub fn p_vs_treg(c: &Comparator, n: usize) -> Series {
+        let t = c.treg_total();
+        let span = (2.0 * t).max(10.0 * c.tau.get());
+        let steps = n.saturating_sub(1).max(1) as f64;
+        let mut s = series("p-vs-treg", "treg (s)", "s", Spacing::Linear);
+        s.points = (0..n)
+            .map(|i| {
+                let x = span * i as f64 / steps;
+                (x, p(&c.with(c.tau.get(), x)))
+            })
+            .collect();
+        s.operating_point = (t, p(c));
+        s
+    }
+
+    /// log10 p against tau over `tau/4 .. 4 tau` at the case's total regeneration time.
+    pub fn p_vs_tau(c: &Comparator, n: usize) -> Series {
+        let (tau, t) = (c.tau.get(), c.treg_total());
+        let mut s = series("p-vs-tau", "tau (s)", "s", Spacing::Log);
+        s.points = log_space(tau / 4.0, tau * 4.0, n)
+            .map(|x| (x, p(&c.with(x, t))))
+            .collect();
+        s.operating_point = (tau, p(c));
+        s
+    }
+
+    /// log10 p against the input spread: sigma (gaussian, nrz, pam4) or lsb (uniform, sine).
+    pub fn p_vs_spread(c: &Comparator, n: usize) -> Series {
+        let (x0, lo, hi, label): (f64, f64, f64, &'static str) = match c.input {
+            InputModel::Gaussian { sigma, .. }
+            | InputModel::Nrz { sigma, .. }
+            | InputModel::Pam4 { sigma, .. } => (sigma, sigma / 10.0, sigma * 10.0, "sigma (V)"),
+            // Smaller steps would add thresholds beyond the sine model's limit.
+            InputModel::Sine { lsb, .. } => (lsb, lsb, lsb * 10.0, "lsb (V)"),
+            InputModel::Uniform { lsb } => (lsb, lsb / 10.0, lsb * 10.0, "lsb (V)"),
+        };
+        let with = |x: f64| {
+            let m = match c.input {
+                InputModel::Gaussian { mean, .. } => InputModel::Gaussian { mean, sigma: x },
+                InputModel::Nrz { amp, .. } => InputModel::Nrz { amp, sigma: x },
+                InputModel::Pam4 { amp, .. } => InputModel::Pam4 { amp, sigma: x },
+                InputModel::Sine { amp, .. } => InputModel::Sine { amp, lsb: x },
+                InputModel::Uniform { .. } => InputModel::Uniform { lsb: x },
+            };
+            c.with_input(m)
+        };
+        let mut s = series("p-vs-spread", label, "V", Spacing::Log);
+        s.points = log_space(lo, hi, n).map(|x| (x, p(&with(x)))).collect();
+        s.operating_point = (x0, p(c));
+        s
+    }
+
+    /// The latch's output difference `dv(t) = gain vin exp(t/tau)` (log10 volts) for inputs
+    /// of vmin/gain times 1e-1, 1e-3, 1e-6, and for vcrit, each up to three times vmin.
+    pub fn growth(c: &Comparator, n: usize) -> Vec<(String, Vec<(f64, f64)>)> {
+        let tau = c.tau.get();
+        let ln_v0 = (c.vmin.get() / c.gain).ln();
+        let ln_vc = c.ln_vcrit();
+        let mut inputs: Vec<(String, f64)> = [1e-1f64, 1e-3, 1e-6]
+            .iter()
+            .map(|k| {
+                (
+                    format!("vin = {}", format_si(c.vmin.get() / c.gain * k, "V")),
+                    ln_v0 + k.ln(),
+                )
+            })
+            .filter(|(_, l)| *l > ln_vc)
+            .collect();
+        inputs.push((
+            format!(
+                "vin = vcrit ({} V)",
+                crate::quantity::format_log10(ln_vc / LN_10, 3)
+            ),
+            ln_vc,
+        ));
+        let t_end = (c.treg_total() * 1.15).max(tau * 8.0);
+        let steps = n.saturating_sub(1).max(1) as f64;
+        let ln_stop = (3.0 * c.vmin.get()).ln();
+        inputs
+            .into_iter()
+            .map(|(label, ln_vin)| {
+                let ln_dv0 = c.gain.ln() + ln_vin;
+                let pts = (0..n)
+                    .map(|i| t_end * i as f64 / steps)
+                    .map(|t| (t, ln_dv0 + t / tau))
+                    .take_while(|&(_, l)| l <= ln_stop)
+                    .map(|(t, l)| (t, l / LN_10))
+                    .collect();
+                (label, pts)
+            })
+            .collect()
+    }
+}

@@ -9,8 +9,11 @@ use wasm_bindgen::JsCast;
 use web_sys::HtmlCanvasElement;
 
 use crate::chart::{draw, ChartSpec};
+use crate::comparator::{self, unused_fields, CompCase};
+use crate::error::ParamErrors;
 use crate::params::{echo_fields, FieldEcho, FieldSpec, RawInputs};
 use crate::readout::Readout;
+use crate::sweep::comparator::{growth, p_vs_spread, p_vs_tau, p_vs_treg};
 use crate::sweep::{mtbf_vs_fclk, mtbf_vs_stages, mtbf_vs_tau, Series};
 use crate::synchronizer::{evaluate, SyncCase, CAUTION, FIELDS, YEAR_S};
 
@@ -37,6 +40,7 @@ struct PageState {
     readouts: Vec<Readout>,
     warnings: Vec<String>,
     ignored: Vec<String>,
+    unused: Vec<&'static str>,
     caution: &'static str,
 }
 
@@ -84,6 +88,38 @@ fn target_years(case: &SyncCase) -> Option<f64> {
     case.target.map(|t| -t.log10_max_rate() - YEAR_S.log10())
 }
 
+/// What a successful evaluation shows: readouts, warnings and the fields it did not use.
+type Shown = (Vec<Readout>, Vec<String>, Vec<&'static str>);
+
+/// The page state for any calculator: field states from `fields`, and readouts and
+/// warnings from a successful evaluation.
+fn page_state(
+    raw: &RawInputs,
+    fields: &[FieldSpec],
+    result: Result<Shown, ParamErrors>,
+) -> PageState {
+    let errors = result
+        .as_ref()
+        .err()
+        .map(|e| e.0.clone())
+        .unwrap_or_default();
+    let mut state = PageState {
+        ok: result.is_ok(),
+        fields: field_states(raw, fields, &errors),
+        readouts: Vec::new(),
+        warnings: Vec::new(),
+        ignored: raw.unknown_keys(fields),
+        unused: Vec::new(),
+        caution: CAUTION,
+    };
+    if let Ok((readouts, warnings, unused)) = result {
+        state.readouts = readouts;
+        state.warnings = warnings;
+        state.unused = unused;
+    }
+    state
+}
+
 /// Evaluates the synchronizer page's query: field states (text, echo, error), readouts,
 /// warnings, unknown keys. Plots are drawn separately by [`sync_draw`], so that the
 /// numbers can show before the first charts are laid out.
@@ -93,27 +129,11 @@ fn target_years(case: &SyncCase) -> Option<f64> {
 #[wasm_bindgen]
 pub fn sync_page(query: &str) -> Result<JsValue, JsError> {
     let raw = RawInputs::from_query(query);
-    let ignored = raw.unknown_keys(FIELDS);
-    let result = SyncCase::from_inputs(&raw);
-    let errors = result
-        .as_ref()
-        .err()
-        .map(|e| e.0.clone())
-        .unwrap_or_default();
-    let mut state = PageState {
-        ok: result.is_ok(),
-        fields: field_states(&raw, FIELDS, &errors),
-        readouts: Vec::new(),
-        warnings: Vec::new(),
-        ignored,
-        caution: CAUTION,
-    };
-    if let Ok(case) = result {
+    let result = SyncCase::from_inputs(&raw).map(|case| {
         let report = evaluate(&case);
-        state.readouts = report.readouts();
-        state.warnings = report.warnings;
-    }
-    to_js(&state)
+        (report.readouts(), report.warnings, Vec::new())
+    });
+    to_js(&page_state(&raw, FIELDS, result))
 }
 
 /// Draws the synchronizer page's plots into the canvases of the same ids, at `scale`
@@ -177,4 +197,106 @@ fn draw_into(id: &str, spec: &ChartSpec, scale: f64) -> Result<bool, JsError> {
     };
     draw(&backend.into_drawing_area(), spec).map_err(|e| JsError::new(&e))?;
     Ok(true)
+}
+
+/// The sweeps the comparator page plots, keyed by the id of their canvas.
+fn comparator_series(case: &CompCase) -> Vec<(&'static str, &'static str, Series)> {
+    let c = &case.comp;
+    let spread = match c.input {
+        comparator::InputModel::Gaussian { .. }
+        | comparator::InputModel::Nrz { .. }
+        | comparator::InputModel::Pam4 { .. } => "Error probability against input noise",
+        _ => "Error probability against threshold spacing",
+    };
+    vec![
+        (
+            "plot-treg",
+            "Error probability against regeneration time",
+            p_vs_treg(c, 200),
+        ),
+        (
+            "plot-ctau",
+            "Error probability against tau",
+            p_vs_tau(c, 200),
+        ),
+        ("plot-spread", spread, p_vs_spread(c, 60)),
+    ]
+}
+
+/// Evaluates the comparator page's query (see [`sync_page`]).
+///
+/// # Errors
+/// Only if the answer cannot be converted to a JS value.
+#[wasm_bindgen]
+pub fn comparator_page(query: &str) -> Result<JsValue, JsError> {
+    let raw = RawInputs::from_query(query);
+    let result = CompCase::from_inputs(&raw).map(|case| {
+        let report = comparator::evaluate(&case, unused_fields(&raw, case.comp.input.name()));
+        (report.readouts(), report.warnings, report.unused)
+    });
+    to_js(&page_state(&raw, comparator::FIELDS, result))
+}
+
+/// Draws the comparator page's plots (three sweeps and the growth curves).
+///
+/// # Errors
+/// If a chart fails to draw.
+#[wasm_bindgen]
+pub fn comparator_draw(query: &str, scale: f64) -> Result<Vec<String>, JsError> {
+    let Ok(case) = CompCase::from_inputs(&RawInputs::from_query(query)) else {
+        return Ok(Vec::new());
+    };
+    let target = case.target_ber.map(f64::log10);
+    let mut drawn = Vec::new();
+    for (id, title, series) in comparator_series(&case) {
+        let spec = ChartSpec::from_series(&series, title, target, scale);
+        if draw_into(id, &spec, scale)? {
+            drawn.push(id.to_string());
+        }
+    }
+    let curves = growth(&case.comp, 240);
+    let spec = ChartSpec {
+        title: "Latch output growth, dv = gain vin exp(t/tau)".into(),
+        x_label: "t (s)".into(),
+        x_unit: "s",
+        x_spacing: crate::sweep::Spacing::Linear,
+        y_label: "output difference dv (V)".into(),
+        curves: curves
+            .iter()
+            .map(|(label, pts)| crate::chart::Curve {
+                label: label.clone(),
+                points: pts,
+            })
+            .collect(),
+        hline: Some((case.comp.vmin.get().log10(), "vmin".into())),
+        vline: Some((case.comp.treg_total(), "treg".into())),
+        marker: None,
+        scale,
+    };
+    if draw_into("plot-growth", &spec, scale)? {
+        drawn.push("plot-growth".to_string());
+    }
+    Ok(drawn)
+}
+
+/// The CSV of one of the comparator page's sweeps, or "" when the inputs are not valid.
+#[wasm_bindgen]
+pub fn comparator_csv(query: &str, plot: &str) -> String {
+    let Ok(case) = CompCase::from_inputs(&RawInputs::from_query(query)) else {
+        return String::new();
+    };
+    if plot == "plot-growth" {
+        let mut out = String::from("curve,t_s,log10_dv_v\n");
+        for (label, pts) in growth(&case.comp, 240) {
+            for (t, l) in pts {
+                out.push_str(&format!("\"{label}\",{t:e},{l}\n"));
+            }
+        }
+        return out;
+    }
+    comparator_series(&case)
+        .into_iter()
+        .find(|(id, _, _)| *id == plot)
+        .map(|(_, _, s)| s.to_csv())
+        .unwrap_or_default()
 }
