@@ -347,3 +347,34 @@ fn ln_erfc_matches_mpmath() {
         assert_log10(&format!("ln erfc({x})"), got, v.parse().unwrap());
     }
 }
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(150))]
+    #[test]
+    fn sizing_lands_on_the_target_for_every_model(
+        model in 0usize..5, log_target in -30.0..-3.0f64, tau in 5e-12..50e-12f64, treg in 1e-11..3e-10f64
+    ) {
+        let models: [&[(&str, &str)]; 5] = [
+            &[("input", "uniform"), ("lsb", "1m")],
+            &[("input", "gaussian"), ("sigma", "2m"), ("mean", "1m")],
+            &[("input", "nrz"), ("amp", "30m"), ("sigma", "6m")],
+            &[("input", "pam4"), ("amp", "150m"), ("sigma", "20m")],
+            &[("input", "sine"), ("amp", "0.5"), ("lsb", "3.90625m")],
+        ];
+        let (tau_s, treg_s) = (format!("{tau:e}"), format!("{treg:e}"));
+        let mut p: Vec<(&str, &str)> = vec![("tau", &tau_s), ("treg", &treg_s), ("vmin", "0.4"), ("gain", "4"), ("fs", "1G")];
+        p.extend_from_slice(models[model]);
+        let case = CompCase::from_inputs(&RawInputs::from_pairs(p.iter().map(|(k, v)| (*k, *v)))).unwrap();
+        let c = case.comp;
+        let ln_t = log_target * LN_10;
+        let z = c.size_for(ln_t);
+        let at = |tau: f64, t: f64| c.with(tau, t).ln_p_error() / LN_10;
+        if z.treg_needed_s > 0.0 {
+            prop_assert!((at(tau, z.treg_needed_s) - log_target).abs() < SOLVER_LOG10_ABS * log_target.abs());
+            let mt = z.max_tau_s.unwrap();
+            prop_assert!((at(mt, treg) - log_target).abs() < SOLVER_LOG10_ABS * log_target.abs());
+        } else {
+            prop_assert!(at(tau, 0.0) <= log_target + 1e-12);
+        }
+    }
+}

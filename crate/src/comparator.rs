@@ -629,7 +629,8 @@ impl Comparator {
             return None;
         }
         let (mut lo, mut hi) = (hi0 - 2.5e6, hi0);
-        for _ in 0..200 {
+        // Bisect until the bracket is at the resolution of an f64 at this magnitude.
+        while hi - lo > 1e-13 * hi.abs().max(1.0) {
             let mid = 0.5 * (lo + hi);
             if self.ln_p_error_at(mid) <= ln_target {
                 lo = mid;
@@ -640,28 +641,37 @@ impl Comparator {
         Some(lo)
     }
 
-    /// Total regeneration time needed for an error probability of at most `exp(ln_target)`.
-    pub fn treg_needed(&self, ln_target: f64) -> f64 {
-        self.ln_vcrit_for(ln_target)
-            .map_or(0.0, |lv| self.tau.get() * (self.ln_v0() - lv))
-    }
-
-    /// Largest tau that meets the target with this regeneration time; `None` = any tau.
-    pub fn max_tau(&self, ln_target: f64) -> Option<f64> {
-        self.ln_vcrit_for(ln_target)
-            .map(|lv| self.treg_total() / (self.ln_v0() - lv))
-    }
-
-    /// Extra stages (each adding `stage_time`) needed beyond `treg`; `None` without a stage time.
-    pub fn stages_needed(&self, ln_target: f64) -> Option<u64> {
+    /// Sizing for an error probability of at most `exp(ln_target)`: the total
+    /// regeneration time needed, the largest tau allowed at this regeneration time, and the
+    /// extra stages needed beyond `treg`.
+    ///
+    /// # Formula
+    /// With `vcrit*` the critical input that meets the target (found by bisection on
+    /// ln vcrit, the error probability rising monotonically with it):
+    /// `treg_needed = tau ln(vmin/(gain vcrit*))`, `tau_max = treg_total / ln(vmin/(gain vcrit*))`,
+    /// `stages = ceil((treg_needed - treg) / stage_time)`.
+    pub fn size_for(&self, ln_target: f64) -> Sizing {
+        let Some(lv) = self.ln_vcrit_for(ln_target) else {
+            return Sizing {
+                treg_needed_s: 0.0,
+                max_tau_s: None,
+                extra_stages: Some(0),
+            };
+        };
+        let decades = self.ln_v0() - lv;
+        let treg_needed_s = self.tau.get() * decades;
+        let short = treg_needed_s - self.treg.get();
         let st = self.stage_time.get();
-        let short = self.treg_needed(ln_target) - self.treg.get();
-        if short <= 0.0 {
-            Some(0)
-        } else if st > 0.0 {
-            Some((short / st * (1.0 - 1e-12)).ceil() as u64)
-        } else {
-            None
+        Sizing {
+            treg_needed_s,
+            max_tau_s: Some(self.treg_total() / decades),
+            extra_stages: if short <= 0.0 {
+                Some(0)
+            } else if st > 0.0 {
+                Some((short / st * (1.0 - 1e-12)).ceil() as u64)
+            } else {
+                None
+            },
         }
     }
 
@@ -681,6 +691,17 @@ impl Comparator {
         c.sine_density_sum = sine_density_sum(input);
         c
     }
+}
+
+/// What a target asks of a comparator (see [`Comparator::size_for`]).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Sizing {
+    /// Total regeneration time needed, s.
+    pub treg_needed_s: f64,
+    /// Largest tau allowed at this regeneration time, s (`None`: any tau).
+    pub max_tau_s: Option<f64>,
+    /// Extra stages needed beyond treg (`None`: no stage time given).
+    pub extra_stages: Option<u64>,
 }
 
 /// Everything a comparator case yields.
@@ -764,6 +785,7 @@ pub fn evaluate(case: &CompCase, unused: Vec<&'static str>) -> CompReport {
     };
     let ln_rate = ln_p + case.fs.get().ln();
     let ln_target = case.target_ber.map(f64::ln);
+    let sizing = ln_target.map(|t| c.size_for(t));
     let mut warnings = Vec::new();
     if ln_p >= -1e-12 {
         warnings.push("Every decision is at risk: vcrit is as large as the input spread, so the regeneration time is far too short.".into());
@@ -802,9 +824,9 @@ pub fn evaluate(case: &CompCase, unused: Vec<&'static str>) -> CompReport {
         meets_target: ln_target.map(|t| ln_p <= t),
         margin_decades: ln_target.map(|t| (t - ln_p) / LN_10),
         total_meets_target: ln_target.map(|t| ln_total <= t),
-        treg_needed_s: ln_target.map(|t| c.treg_needed(t)),
-        max_tau_s: ln_target.map(|t| c.max_tau(t)),
-        extra_stages_needed: ln_target.map(|t| c.stages_needed(t)),
+        treg_needed_s: sizing.map(|z| z.treg_needed_s),
+        max_tau_s: sizing.map(|z| z.max_tau_s),
+        extra_stages_needed: sizing.map(|z| z.extra_stages),
         decision_time_s: case
             .vin
             .map(|v| decision_time(c.tau.get(), c.vmin.get(), c.gain, v.get())),
