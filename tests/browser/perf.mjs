@@ -2,34 +2,35 @@
 import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { gzipSync } from 'node:zlib';
 import path from 'node:path';
-import { launch, open, serve, fileUrl, dist } from './harness.mjs';
+import { launch, open, serve, fileUrl, dist, root } from './harness.mjs';
 
 const median = (xs) => { const s = [...xs].sort((a, b) => a - b); return s[Math.floor(s.length / 2)]; };
+const firstResult = (page) => page.$eval('body', (b) => Number(b.dataset.firstResultMs));
 
 const browser = await launch();
 const server = await serve();
 const rows = [];
-for (const [name, url] of [['file://', fileUrl('index.html')], ['served', server.url + 'index.html']]) {
-  const first = [];
-  for (let i = 0; i < 15; i++) {
+for (const file of ['index.html', 'comparator.html']) {
+  for (const [name, url] of [['file://', fileUrl(file)], ['served', server.url + file]]) {
+    const fresh = [];
+    for (let i = 0; i < 15; i++) {
+      const { context, page } = await open(browser, url);
+      fresh.push(await firstResult(page));
+      await context.close();
+    }
     const { context, page } = await open(browser, url);
-    first.push(Number(await page.$eval('body', (b) => b.dataset.firstResultMs)));
+    const again = [];
+    for (let i = 0; i < 15; i++) {
+      await page.reload();
+      await page.waitForSelector('body[data-ready="yes"]');
+      again.push(await firstResult(page));
+    }
     await context.close();
+    rows.push([`${file}: navigation to first result, ${name}, new tab / reload (medians of 15)`,
+      `${median(fresh).toFixed(0)} ms / ${median(again).toFixed(0)} ms`]);
   }
-  rows.push([`navigation to first result, ${name}, new tab (median of 15)`, `${median(first).toFixed(1)} ms`]);
-  const { context, page } = await open(browser, url);
-  const again = [];
-  for (let i = 0; i < 15; i++) {
-    await page.reload();
-    await page.waitForSelector('body[data-ready="yes"]');
-    again.push(Number(await page.$eval('body', (b) => b.dataset.firstResultMs)));
-  }
-  rows.push([`navigation to first result, ${name}, reload (median of 15)`, `${median(again).toFixed(1)} ms`]);
-  await context.close();
-}
-{
-  const { context, page } = await open(browser, fileUrl('index.html'));
-  // Each change runs the whole update synchronously: core, readouts and three plots.
+  const { context, page } = await open(browser, fileUrl(file));
+  // Each change runs the whole update synchronously: core, readouts and every plot.
   const times = await page.evaluate(() => {
     const el = document.querySelector('[name="tau"]');
     const out = [];
@@ -41,7 +42,7 @@ for (const [name, url] of [['file://', fileUrl('index.html')], ['served', server
     }
     return out;
   });
-  rows.push(['recompute + redraw per input change (median of 300)', `${median(times).toFixed(2)} ms`]);
+  rows.push([`${file}: recompute + redraw per input change (median of 300)`, `${median(times).toFixed(1)} ms`]);
   await context.close();
 }
 let raw = 0;
@@ -52,9 +53,9 @@ for (const f of readdirSync(dist)) {
   raw += statSync(p).size;
   gz += gzipSync(readFileSync(p), { level: 9 }).length;
 }
-const wasm = statSync(path.join(path.dirname(dist), 'target/wasm-bindgen/latchwise_bg.wasm')).size;
-const wasmGz = gzipSync(readFileSync(path.join(path.dirname(dist), 'target/wasm-bindgen/latchwise_bg.wasm')), { level: 9 }).length;
-rows.push(['wasm module, raw / gzipped', `${(wasm / 1024).toFixed(0)} KiB / ${(wasmGz / 1024).toFixed(0)} KiB`]);
+const wasmFile = path.join(root, 'target/wasm-bindgen/latchwise_bg.wasm');
+const wasm = readFileSync(wasmFile);
+rows.push(['wasm module, raw / gzipped', `${(wasm.length / 1024).toFixed(0)} KiB / ${(gzipSync(wasm, { level: 9 }).length / 1024).toFixed(0)} KiB`]);
 rows.push(['whole dist/, raw / gzipped (wasm embedded as base64)', `${(raw / 1024).toFixed(0)} KiB / ${(gz / 1024).toFixed(0)} KiB`]);
 console.log('| page measurement | figure |\n|---|---|');
 for (const [k, v] of rows) console.log(`| ${k} | ${v} |`);
