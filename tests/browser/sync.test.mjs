@@ -193,3 +193,17 @@ test('CSV and PNG downloads carry the plot data', async () => {
   assert.equal(png.suggestedFilename(), 'plot-tau.png');
   await context.close();
 });
+
+test('both pages print as one-page reports with inputs, results and plots', async () => {
+  for (const file of ['index.html', 'comparator.html']) {
+    const { context, page } = await open(browser, fileUrl(file));
+    await page.emulateMedia({ media: 'print' });
+    assert.equal(await page.isVisible('.plots canvas'), true);
+    assert.equal(await page.isVisible('.results'), true);
+    assert.equal(await page.isVisible('#copy-link'), false);
+    const pdf = (await page.pdf({ format: 'A4' })).toString('latin1');
+    const pages = (pdf.match(/\/Type\s*\/Page[^s]/g) || []).length;
+    assert.equal(pages, 1, `${file} prints on ${pages} pages`);
+    await context.close();
+  }
+});
