@@ -2,11 +2,10 @@
 
 use std::process::ExitCode;
 
-use latchwise::comparator::{evaluate, unused_fields, CompCase, FIELDS};
+use latchwise::comparator::{evaluate, unused_fields, CompCase, CompReport, FIELDS};
 use latchwise::synchronizer::CAUTION;
 
-use crate::args::{options_help, parse};
-use crate::{EXIT_BAD_INPUT, EXIT_TARGET_MISSED};
+use crate::args::{drive, options_help, Calculator};
 
 /// The help text of `latchwise comparator`.
 pub fn help() -> String {
@@ -45,66 +44,44 @@ Caution: {CAUTION}
 
 /// Runs the command.
 pub fn run(args: &[String]) -> ExitCode {
-    let parsed = match parse(args, FIELDS) {
-        Ok(p) => p,
-        Err(msg) => {
-            eprintln!("latchwise comparator: {msg}");
-            return ExitCode::from(EXIT_BAD_INPUT);
-        }
-    };
-    if parsed.help {
-        print!("{}", help());
-        return ExitCode::SUCCESS;
+    drive(
+        &Calculator {
+            name: "comparator",
+            fields: FIELDS,
+            help,
+            evaluate: |raw| {
+                CompCase::from_inputs(raw)
+                    .map(|c| evaluate(&c, unused_fields(raw, c.comp.input.name())))
+            },
+            text: text_report,
+            missed: |r| r.meets_target == Some(false),
+        },
+        args,
+    )
+}
+
+/// The human-readable report.
+fn text_report(report: &CompReport) -> String {
+    let mut o = String::from("Comparator metastability\n\nInputs (as understood)\n");
+    for (k, v) in &report.inputs {
+        o.push_str(&format!("  {k:<28} {v}\n"));
     }
-    for k in &parsed.ignored {
-        eprintln!("latchwise comparator: note: ignored unknown parameter '{k}' in --from-url");
+    o.push_str("\nResults\n");
+    for r in report.readouts() {
+        o.push_str(&format!("  {:<34} {}\n", r.label, r.text));
     }
-    let case = match CompCase::from_inputs(&parsed.raw) {
-        Ok(c) => c,
-        Err(errs) => {
-            for e in &errs.0 {
-                eprintln!("latchwise comparator: {e}");
-            }
-            return ExitCode::from(EXIT_BAD_INPUT);
-        }
-    };
-    let unused = unused_fields(&parsed.raw, case.comp.input.name());
-    let report = evaluate(&case, unused);
-    if parsed.json {
-        match serde_json::to_string_pretty(&report) {
-            Ok(s) => println!("{s}"),
-            Err(e) => {
-                eprintln!("latchwise comparator: cannot write JSON: {e}");
-                return ExitCode::from(EXIT_BAD_INPUT);
-            }
-        }
-    } else {
-        let mut o = String::from("Comparator metastability\n\nInputs (as understood)\n");
-        for (k, v) in &report.inputs {
-            o.push_str(&format!("  {k:<28} {v}\n"));
-        }
-        o.push_str("\nResults\n");
-        for r in report.readouts() {
-            o.push_str(&format!("  {:<34} {}\n", r.label, r.text));
-        }
-        for f in &report.unused {
-            o.push_str(&format!(
-                "\nNote: {f} is not used by the {} input model.",
-                report.input_model
-            ));
-        }
-        if !report.warnings.is_empty() {
-            o.push_str("\nWarnings\n");
-            for w in &report.warnings {
-                o.push_str(&format!("  - {w}\n"));
-            }
-        }
-        o.push_str(&format!("\nCaution: {}\n", report.caution));
-        print!("{o}");
+    for f in &report.unused {
+        o.push_str(&format!(
+            "\nNote: {f} is not used by the {} input model.",
+            report.input_model
+        ));
     }
-    if report.meets_target == Some(false) {
-        ExitCode::from(EXIT_TARGET_MISSED)
-    } else {
-        ExitCode::SUCCESS
+    if !report.warnings.is_empty() {
+        o.push_str("\nWarnings\n");
+        for w in &report.warnings {
+            o.push_str(&format!("  - {w}\n"));
+        }
     }
+    o.push_str(&format!("\nCaution: {}\n", report.caution));
+    o
 }

@@ -7,8 +7,7 @@ use latchwise::synchronizer::{
     evaluate, SyncCase, SyncReport, Target, TauLimit, CAUTION, FIELDS, YEAR_S,
 };
 
-use crate::args::{options_help, parse};
-use crate::{EXIT_BAD_INPUT, EXIT_TARGET_MISSED};
+use crate::args::{drive, options_help, Calculator};
 
 /// The help text of `latchwise sync`.
 pub fn help() -> String {
@@ -42,46 +41,17 @@ Caution: {CAUTION}
 
 /// Runs the command.
 pub fn run(args: &[String]) -> ExitCode {
-    let parsed = match parse(args, FIELDS) {
-        Ok(p) => p,
-        Err(msg) => {
-            eprintln!("latchwise sync: {msg}");
-            return ExitCode::from(EXIT_BAD_INPUT);
-        }
-    };
-    if parsed.help {
-        print!("{}", help());
-        return ExitCode::SUCCESS;
-    }
-    for k in &parsed.ignored {
-        eprintln!("latchwise sync: note: ignored unknown parameter '{k}' in --from-url");
-    }
-    let case = match SyncCase::from_inputs(&parsed.raw) {
-        Ok(c) => c,
-        Err(errs) => {
-            for e in &errs.0 {
-                eprintln!("latchwise sync: {e}");
-            }
-            return ExitCode::from(EXIT_BAD_INPUT);
-        }
-    };
-    let report = evaluate(&case);
-    if parsed.json {
-        match serde_json::to_string_pretty(&report) {
-            Ok(s) => println!("{s}"),
-            Err(e) => {
-                eprintln!("latchwise sync: cannot write JSON: {e}");
-                return ExitCode::from(EXIT_BAD_INPUT);
-            }
-        }
-    } else {
-        print!("{}", text_report(&report));
-    }
-    if report.meets_target == Some(false) {
-        ExitCode::from(EXIT_TARGET_MISSED)
-    } else {
-        ExitCode::SUCCESS
-    }
+    drive(
+        &Calculator {
+            name: "sync",
+            fields: FIELDS,
+            help,
+            evaluate: |raw| SyncCase::from_inputs(raw).map(|c| evaluate(&c)),
+            text: text_report,
+            missed: |r| r.meets_target == Some(false),
+        },
+        args,
+    )
 }
 
 fn row(out: &mut String, label: &str, value: &str) {

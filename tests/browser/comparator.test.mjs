@@ -1,43 +1,15 @@
 // Real-browser tests of the comparator page (dist/comparator.html).
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
-import { execFileSync, spawnSync } from 'node:child_process';
 import path from 'node:path';
-import { launch, open, serve, fileUrl, outputs, root } from './harness.mjs';
+import { setup, open, fileUrl, outputs, root, cli, inked } from './harness.mjs';
 
-let browser;
-let server;
-
-before(async () => {
-  execFileSync('cargo', ['build', '--quiet', '--locked', '--bin', 'latchwise'], { cwd: root, stdio: 'inherit' });
-  browser = await launch();
-  server = await serve();
-});
-
-after(async () => {
-  await browser?.close();
-  await server?.close();
-});
-
-function cli(args) {
-  const r = spawnSync(path.join(root, 'target/debug/latchwise'), ['comparator', '--json', ...args], { encoding: 'utf8' });
-  assert.ok(r.status === 0 || r.status === 1, r.stderr);
-  return JSON.parse(r.stdout);
-}
-
-async function inked(page, id) {
-  return page.$eval(`#${id}`, (c) => {
-    const d = c.getContext('2d').getImageData(0, 0, c.width, c.height).data;
-    let n = 0;
-    for (let i = 0; i < d.length; i += 4) if (d[i] < 200 || d[i + 1] < 200 || d[i + 2] < 200) n++;
-    return n;
-  });
-}
+const env = setup({ before, after });
 
 for (const where of ['file', 'served']) {
   test(`comparator page loads cleanly ${where === 'file' ? 'from file://' : 'from the server'}`, async () => {
-    const url = where === 'file' ? fileUrl('comparator.html') : server.url + 'comparator.html';
-    const { context, page, problems, foreign } = await open(browser, url);
+    const url = where === 'file' ? fileUrl('comparator.html') : env.server.url + 'comparator.html';
+    const { context, page, problems, foreign } = await open(env.browser, url);
     assert.equal(await page.$eval('body', (b) => b.dataset.valid), 'yes');
     for (const id of ['plot-treg', 'plot-ctau', 'plot-spread', 'plot-growth']) {
       assert.equal(await page.$eval(`#${id}`, (c) => c.dataset.drawn), 'yes', id);
@@ -66,9 +38,9 @@ test('the page agrees with latchwise comparator --json on every input model', as
   ];
   for (const m of models) {
     const c = Object.fromEntries(Object.entries({ ...common, ...m }).filter(([, v]) => v !== ''));
-    const { context, page, problems } = await open(browser, fileUrl('comparator.html') + '?' + new URLSearchParams(c));
+    const { context, page, problems } = await open(env.browser, fileUrl('comparator.html') + '?' + new URLSearchParams(c));
     const out = await outputs(page);
-    const want = cli(Object.entries(c).flatMap(([k, v]) => [`--${k}`, v]));
+    const want = cli('comparator', Object.entries(c).flatMap(([k, v]) => [`--${k}`, v]));
     // The wasm build brings its own asin/exp/ln, which may differ from the native libm in
     // the last bit; the sine model sums thousands of asin terms, so allow 1e-13 relative.
     for (const k of ['log10_p_error', 'log10_errors_per_s', 'log10_vcrit_v', 'tau_s', 'log10_p_total']) {
@@ -82,7 +54,7 @@ test('the page agrees with latchwise comparator --json on every input model', as
 });
 
 test('switching the input model asks for its parameters and marks unused ones', async () => {
-  const { context, page } = await open(browser, fileUrl('comparator.html'));
+  const { context, page } = await open(env.browser, fileUrl('comparator.html'));
   await page.selectOption('[name="input"]', 'nrz');
   assert.equal(await page.textContent('#m-amp'), 'amp: a value is required');
   assert.equal(await page.textContent('#m-sigma'), 'sigma: a value is required');
@@ -102,7 +74,7 @@ test('switching the input model asks for its parameters and marks unused ones', 
 });
 
 test('the link to the synchronizer carries tau and the clock, and back', async () => {
-  const { context, page } = await open(browser, fileUrl('comparator.html'));
+  const { context, page } = await open(env.browser, fileUrl('comparator.html'));
   await page.fill('[name="tau"]', '27ps');
   await page.fill('[name="fs"]', '2.5GHz');
   await Promise.all([page.waitForNavigation(), page.click('#to-sync')]);
@@ -121,7 +93,7 @@ test('the link to the synchronizer carries tau and the clock, and back', async (
 
 test('a hostile query executes nothing on the comparator page', async () => {
   const evil = '"><script>window.__owned=1</script>';
-  const { context, page } = await open(browser, fileUrl('comparator.html') + '?input=' + encodeURIComponent(evil) + '&tau=15p');
+  const { context, page } = await open(env.browser, fileUrl('comparator.html') + '?input=' + encodeURIComponent(evil) + '&tau=15p');
   assert.equal(await page.evaluate(() => window.__owned), undefined);
   assert.match(await page.textContent('#m-input'), /is not one of/);
   await context.close();

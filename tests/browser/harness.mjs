@@ -1,6 +1,8 @@
 // Shared browser harness: Debian's chromium driven by playwright-core, a static server
 // for dist/ on 127.0.0.1, and a guard that fails on any request that leaves the page.
 import { chromium } from 'playwright-core';
+import assert from 'node:assert/strict';
+import { execFileSync, spawnSync } from 'node:child_process';
 import { createServer } from 'node:http';
 import { readFile } from 'node:fs/promises';
 import { fileURLToPath, pathToFileURL } from 'node:url';
@@ -65,4 +67,36 @@ export async function open(browser, url, { width = 1280, height = 900, scale = 1
 export async function outputs(page) {
   return page.$$eval('output[name]', (els) => Object.fromEntries(els.map((e) =>
     [e.getAttribute('name'), { text: e.textContent, value: e.dataset.value, state: e.dataset.state }])));
+}
+
+/** `latchwise <command> --json ...`; exit 1 (target missed) still prints the report. */
+export function cli(command, args) {
+  const r = spawnSync(path.join(root, 'target/debug/latchwise'), [command, '--json', ...args], { encoding: 'utf8' });
+  assert.ok(r.status === 0 || r.status === 1, r.stderr);
+  return JSON.parse(r.stdout);
+}
+
+/** Counts canvas pixels that are not white: a drawn chart has thousands. */
+export async function inked(page, id) {
+  return page.$eval(`#${id}`, (c) => {
+    const d = c.getContext('2d').getImageData(0, 0, c.width, c.height).data;
+    let n = 0;
+    for (let i = 0; i < d.length; i += 4) if (d[i] < 200 || d[i + 1] < 200 || d[i + 2] < 200) n++;
+    return n;
+  });
+}
+
+/** Registers before/after hooks: builds the CLI, launches the browser, serves dist/. */
+export function setup(hooks) {
+  const env = {};
+  hooks.before(async () => {
+    execFileSync('cargo', ['build', '--quiet', '--locked', '--bin', 'latchwise'], { cwd: root, stdio: 'inherit' });
+    env.browser = await launch();
+    env.server = await serve();
+  });
+  hooks.after(async () => {
+    await env.browser?.close();
+    await env.server?.close();
+  });
+  return env;
 }

@@ -1,45 +1,15 @@
 // Real-browser tests of the synchronizer page (dist/index.html), from file:// and served.
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
-import { execFileSync, spawnSync } from 'node:child_process';
 import path from 'node:path';
-import { launch, open, serve, fileUrl, outputs, root } from './harness.mjs';
+import { setup, open, fileUrl, outputs, root, cli, inked } from './harness.mjs';
 
-let browser;
-let server;
-
-before(async () => {
-  execFileSync('cargo', ['build', '--quiet', '--locked', '--bin', 'latchwise'], { cwd: root, stdio: 'inherit' });
-  browser = await launch();
-  server = await serve();
-});
-
-after(async () => {
-  await browser?.close();
-  await server?.close();
-});
-
-/** `latchwise sync --json`; exit 1 (target missed) still prints the report. */
-function cli(args) {
-  const r = spawnSync(path.join(root, 'target/debug/latchwise'), ['sync', '--json', ...args], { encoding: 'utf8' });
-  assert.ok(r.status === 0 || r.status === 1, r.stderr);
-  return JSON.parse(r.stdout);
-}
-
-/** Counts canvas pixels that are not white: a drawn chart has thousands. */
-async function inked(page, id) {
-  return page.$eval(`#${id}`, (c) => {
-    const d = c.getContext('2d').getImageData(0, 0, c.width, c.height).data;
-    let n = 0;
-    for (let i = 0; i < d.length; i += 4) if (d[i] < 200 || d[i + 1] < 200 || d[i + 2] < 200) n++;
-    return n;
-  });
-}
+const env = setup({ before, after });
 
 for (const where of ['file', 'served']) {
   test(`loads cleanly ${where === 'file' ? 'from file://' : 'from the server'}: results, plots, no errors, no network`, async () => {
-    const url = where === 'file' ? fileUrl('index.html') : server.url + 'index.html';
-    const { context, page, problems, foreign } = await open(browser, url);
+    const url = where === 'file' ? fileUrl('index.html') : env.server.url + 'index.html';
+    const { context, page, problems, foreign } = await open(env.browser, url);
     const out = await outputs(page);
     assert.equal(await page.$eval('body', (b) => b.dataset.valid), 'yes');
     assert.match(out.log10_mtbf_years.text, /years/);
@@ -64,9 +34,9 @@ test('a bookmarked URL gives the same log10_mtbf_s as the command line', async (
   ];
   for (const c of cases) {
     const q = new URLSearchParams(c).toString();
-    const { context, page } = await open(browser, fileUrl('index.html') + '?' + q);
+    const { context, page } = await open(env.browser, fileUrl('index.html') + '?' + q);
     const out = await outputs(page);
-    const want = cli(Object.entries(c).flatMap(([k, v]) => [`--${k}`, v]));
+    const want = cli('sync', Object.entries(c).flatMap(([k, v]) => [`--${k}`, v]));
     assert.equal(Number(out.log10_mtbf_s.value), want.log10_mtbf_s, q);
     assert.equal(Number(out.log10_fit.value), want.log10_fit, q);
     assert.equal(Number(out.resolution_time_s.value), want.resolution_time_s, q);
@@ -76,7 +46,7 @@ test('a bookmarked URL gives the same log10_mtbf_s as the command line', async (
 });
 
 test('typing updates results, plots and the URL; reload restores the case', async () => {
-  const { context, page, problems } = await open(browser, fileUrl('index.html'));
+  const { context, page, problems } = await open(env.browser, fileUrl('index.html'));
   const before = await outputs(page);
   const pixels = await page.$eval('#plot-stages', (c) => c.toDataURL());
   const entries = await page.evaluate(() => history.length);
@@ -99,16 +69,16 @@ test('typing updates results, plots and the URL; reload restores the case', asyn
 });
 
 test('without a query the last case comes back from local storage', async () => {
-  const { context, page } = await open(browser, server.url + 'index.html');
+  const { context, page } = await open(env.browser, env.server.url + 'index.html');
   await page.fill('[name="fdata"]', '37MHz');
-  await page.goto(server.url + 'index.html');
+  await page.goto(env.server.url + 'index.html');
   await page.waitForSelector('body[data-ready="yes"]');
   assert.equal(await page.inputValue('[name="fdata"]'), '37MHz');
   await context.close();
 });
 
 test('bad values are flagged beside the field, kept as typed, and recover', async () => {
-  const { context, page, problems } = await open(browser, fileUrl('index.html'));
+  const { context, page, problems } = await open(env.browser, fileUrl('index.html'));
   const cases = [
     ['fclk', '5ns', "fclk: '5ns' is a time, expected a frequency"],
     ['tau', '-3p', 'tau: negative time'],
@@ -136,7 +106,7 @@ test('bad values are flagged beside the field, kept as typed, and recover', asyn
 });
 
 test('invalid values in a link stay in their field; unknown keys are noted', async () => {
-  const { context, page } = await open(browser, fileUrl('index.html') + '?tau=fast&tw=40ps&fclk=1GHz&fdata=100MHz&stages=2&tsu=30ps&tcq=50ps&colour=teal');
+  const { context, page } = await open(env.browser, fileUrl('index.html') + '?tau=fast&tw=40ps&fclk=1GHz&fdata=100MHz&stages=2&tsu=30ps&tcq=50ps&colour=teal');
   assert.equal(await page.inputValue('[name="tau"]'), 'fast');
   assert.match(await page.textContent('#m-tau'), /'fast' is not a number/);
   assert.match(await page.textContent('#ignored'), /colour/);
@@ -147,7 +117,7 @@ test('invalid values in a link stay in their field; unknown keys are noted', asy
 test('a hostile query executes nothing and is shown as text', async () => {
   const evil = '<img src=x onerror="window.__owned=1">';
   const q = new URLSearchParams({ tau: evil, tw: '40ps', fclk: '1GHz', fdata: '100MHz', stages: '2', tsu: '30ps', tcq: '50ps', [evil]: '1' });
-  const { context, page, foreign } = await open(browser, fileUrl('index.html') + '?' + q);
+  const { context, page, foreign } = await open(env.browser, fileUrl('index.html') + '?' + q);
   await page.waitForTimeout(200);
   assert.equal(await page.evaluate(() => window.__owned), undefined);
   assert.equal(await page.$$eval('img', (x) => x.length), 0);
@@ -159,7 +129,7 @@ test('a hostile query executes nothing and is shown as text', async () => {
 
 test('readable at 320 px and on a large monitor; a high-DPI canvas is crisp', async () => {
   for (const [width, scale] of [[320, 1], [2560, 1], [1280, 2], [1280, 1]]) {
-    const { context, page, problems } = await open(browser, fileUrl('index.html'), { width, scale });
+    const { context, page, problems } = await open(env.browser, fileUrl('index.html'), { width, scale });
     const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
     assert.ok(overflow <= 0, `${width}px: page is ${overflow}px too wide`);
     const ratio = await page.$eval('#plot-stages', (c) => c.width / c.clientWidth);
@@ -173,7 +143,7 @@ test('readable at 320 px and on a large monitor; a high-DPI canvas is crisp', as
 });
 
 test('keyboard: every input is labelled and reachable with Tab', async () => {
-  const { context, page } = await open(browser, fileUrl('index.html'));
+  const { context, page } = await open(env.browser, fileUrl('index.html'));
   const unlabeled = await page.$$eval('input[name]', (els) => els.filter((e) => !e.labels || e.labels.length === 0).map((e) => e.name));
   assert.deepEqual(unlabeled, []);
   await page.focus('[name="tau"]');
@@ -183,7 +153,7 @@ test('keyboard: every input is labelled and reachable with Tab', async () => {
 });
 
 test('CSV and PNG downloads carry the plot data', async () => {
-  const { context, page } = await open(browser, server.url + 'index.html');
+  const { context, page } = await open(env.browser, env.server.url + 'index.html');
   const [csv] = await Promise.all([page.waitForEvent('download'), page.click('[data-csv="plot-stages"]')]);
   const text = await (await csv.createReadStream()).toArray();
   const lines = Buffer.concat(text).toString('utf8').trim().split('\n');
@@ -196,7 +166,7 @@ test('CSV and PNG downloads carry the plot data', async () => {
 
 test('both pages print as one-page reports with inputs, results and plots', async () => {
   for (const file of ['index.html', 'comparator.html']) {
-    const { context, page } = await open(browser, fileUrl(file));
+    const { context, page } = await open(env.browser, fileUrl(file));
     await page.emulateMedia({ media: 'print' });
     assert.equal(await page.isVisible('.plots canvas'), true);
     assert.equal(await page.isVisible('.results'), true);
