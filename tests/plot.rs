@@ -108,3 +108,24 @@ fn fclk_sweep_stops_before_the_period_runs_out() {
     let last = series.points.last().unwrap().0;
     assert!(1.0 / last > 80e-12, "{last}");
 }
+
+#[test]
+fn deep_chains_get_round_ticks_and_wide_labels_fit() {
+    let s = mtbf_vs_stages(
+        &sync("tau=1p&tw=40p&fclk=1G&fdata=100M&stages=2&tsu=30p&tcq=50p"),
+        1000,
+    );
+    let (out, drawn) = svg(&s, None);
+    let labels = texts(&out);
+    for t in ["1", "200", "400", "1000"] {
+        assert!(labels.iter().any(|l| l == t), "tick {t} in {labels:?}");
+    }
+    assert!(!labels.iter().any(|l| l == "102"), "{labels:?}");
+    // A thousand points make a line; only the operating point is a dot.
+    assert_eq!(
+        out.matches("<circle").count(),
+        2,
+        "marker and its legend entry"
+    );
+    assert!(drawn.y_ticks.len() <= 9);
+}

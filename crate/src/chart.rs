@@ -210,13 +210,19 @@ fn to_axis_x(spacing: Spacing, x: f64) -> f64 {
 fn x_ticks(spec: &ChartSpec, lo: f64, hi: f64) -> Vec<f64> {
     match spec.x_spacing {
         Spacing::Integer => {
-            let n = (hi - lo).round().max(1.0);
-            let step = (n / 10.0).ceil().max(1.0);
+            let step = nice_step((hi - lo).max(1.0) / 8.0).max(1.0);
             let mut v = Vec::new();
-            let mut t = (lo + 0.5).ceil();
+            let mut t = (lo / step).ceil() * step;
             while t <= hi {
-                v.push(t);
+                if t >= 1.0 {
+                    v.push(t);
+                }
                 t += step;
+            }
+            // Always label the single flip-flop when it is shown, unless a tick crowds it.
+            let room = v.first().map_or(true, |&f| f - 1.0 > step / 2.0);
+            if room && lo < 1.0 {
+                v.insert(0, 1.0);
             }
             v
         }
@@ -240,14 +246,7 @@ fn x_ticks(spec: &ChartSpec, lo: f64, hi: f64) -> Vec<f64> {
             v
         }
         Spacing::Linear => {
-            let span = hi - lo;
-            let raw = span / 6.0;
-            let mag = 10f64.powf(raw.log10().floor());
-            let step = [1.0, 2.0, 5.0, 10.0]
-                .iter()
-                .map(|m| m * mag)
-                .find(|s| span / s <= 7.0)
-                .unwrap_or(10.0 * mag);
+            let step = nice_step((hi - lo) / 6.0);
             let mut v = Vec::new();
             let mut t = (lo / step).ceil() * step;
             while t <= hi + step * 1e-9 {
@@ -257,6 +256,16 @@ fn x_ticks(spec: &ChartSpec, lo: f64, hi: f64) -> Vec<f64> {
             v
         }
     }
+}
+
+/// The smallest of 1, 2, 5 times a power of ten that is at least `raw`.
+fn nice_step(raw: f64) -> f64 {
+    let mag = 10f64.powf(raw.log10().floor());
+    [1.0, 2.0, 5.0, 10.0]
+        .iter()
+        .map(|m| m * mag)
+        .find(|s| *s >= raw * (1.0 - 1e-9))
+        .unwrap_or(10.0 * mag)
 }
 
 fn x_label_text(spec: &ChartSpec, x: f64) -> String {
@@ -284,12 +293,18 @@ pub fn draw<DB: DrawingBackend>(
     let y_ticks = decade_ticks(ylo, yhi, 8);
     let xk = x_ticks(spec, xlo, xhi);
     let font = |size: f64| ("sans-serif", size * s).into_font().color(&AXIS);
+    // Room for the longest decade label ("1e-399153" needs more than "1e40").
+    let widest = y_ticks
+        .iter()
+        .map(|t| decade_label(*t).len())
+        .max()
+        .unwrap_or(4) as f64;
     let mut chart = ChartBuilder::on(area)
         .margin(px(10.0))
         .margin_right(px(18.0))
         .caption(&spec.title, font(15.0))
         .x_label_area_size(px(42.0))
-        .y_label_area_size(px(58.0))
+        .y_label_area_size(px(30.0 + 7.0 * widest))
         .build_cartesian_2d(
             TickedAxis {
                 lo: xlo,
@@ -339,7 +354,7 @@ pub fn draw<DB: DrawingBackend>(
                 .label(c.label.clone())
                 .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], style));
         }
-        if spec.x_spacing == Spacing::Integer {
+        if spec.x_spacing == Spacing::Integer && pts.len() <= 40 {
             chart
                 .draw_series(pts.iter().map(|&p| Circle::new(p, px(2.5), color.filled())))
                 .map_err(err)?;
