@@ -177,3 +177,20 @@ test('both pages print as one-page reports with inputs, results and plots', asyn
     await context.close();
   }
 });
+
+test('copy link gives the full case, through the clipboard or a selectable box', async () => {
+  const { context, page } = await open(env.browser, env.server.url + 'index.html');
+  await context.grantPermissions(['clipboard-read', 'clipboard-write'], { origin: env.server.url.replace(/\/$/, '') });
+  await page.fill('[name="stages"]', '4');
+  await page.click('#copy-link');
+  await page.waitForFunction(() => document.getElementById('copy-status').textContent !== '');
+  const link = await page.inputValue('#link-text');
+  assert.match(link, /^http:\/\/127\.0\.0\.1:\d+\/index\.html\?.*stages=4/);
+  const status = await page.textContent('#copy-status');
+  if (status === 'Link copied.') {
+    assert.equal(await page.evaluate(() => navigator.clipboard.readText()), link);
+  } else {
+    assert.equal(await page.isVisible('#link-text'), true);
+  }
+  await context.close();
+});
