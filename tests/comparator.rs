@@ -8,7 +8,7 @@ use proptest::prelude::*;
 use std::f64::consts::LN_10;
 use std::process::Command;
 
-use crate::tolerance::{assert_log10, assert_published, SOLVER_LOG10_ABS};
+use crate::tolerance::{assert_log10, assert_published, table_rows, SOLVER_LOG10_ABS};
 
 fn report(pairs: &[(&str, &str)]) -> CompReport {
     let raw = RawInputs::from_pairs(pairs.iter().map(|(k, v)| (*k, *v)));
@@ -142,11 +142,7 @@ fn check_row(line: &str) {
 fn matches_mpmath_table() {
     // tests/fixtures/comparator_reference.csv: mpmath (PyPI), scripts/gen_reference.py.
     let text = include_str!("fixtures/comparator_reference.csv");
-    let rows: Vec<&str> = text
-        .lines()
-        .filter(|l| !l.starts_with('#'))
-        .skip(1)
-        .collect();
+    let rows = table_rows(text);
     assert!(rows.len() >= 17, "{} rows", rows.len());
     rows.iter().for_each(|l| check_row(l));
 }
@@ -335,11 +331,7 @@ fn cli_json_keys_exit_statuses_and_bad_input() {
 fn ln_erfc_matches_mpmath() {
     // tests/fixtures/erfc_reference.csv: mpmath (PyPI) at 50 digits, scripts/gen_reference.py.
     let text = include_str!("fixtures/erfc_reference.csv");
-    let rows: Vec<&str> = text
-        .lines()
-        .filter(|l| !l.starts_with('#'))
-        .skip(1)
-        .collect();
+    let rows = table_rows(text);
     assert!(rows.len() >= 20);
     for l in rows {
         let (x, v) = l.split_once(',').unwrap();

@@ -3,7 +3,7 @@
 use latchwise::params::RawInputs;
 use latchwise::synchronizer::{evaluate, SyncCase, SyncReport};
 
-use crate::tolerance::{assert_log10, assert_published};
+use crate::tolerance::{assert_log10, assert_published, table_rows};
 
 fn report(pairs: &[(&str, &str)]) -> SyncReport {
     let raw = RawInputs::from_pairs(pairs.iter().map(|(k, v)| (*k, *v)));
@@ -125,11 +125,7 @@ fn matches_mpmath_table() {
     // tests/fixtures/sync_reference.csv: 50-digit values from mpmath (PyPI), written by
     // scripts/gen_reference.py from the published formula, independently of this code.
     let text = include_str!("fixtures/sync_reference.csv");
-    let rows: Vec<&str> = text
-        .lines()
-        .filter(|l| !l.starts_with('#'))
-        .skip(1)
-        .collect();
+    let rows = table_rows(text);
     assert!(rows.len() >= 15, "table has {} rows", rows.len());
     rows.iter().for_each(|l| check_row(l));
 }

@@ -33,3 +33,12 @@ pub fn assert_published(what: &str, log10_got: f64, published: f64, digits: i32)
         "{what}: got {got:e}, published {published:e} ({digits} digits)"
     );
 }
+
+/// The data rows of a reference table under `tests/fixtures/`: comment lines (`#`, which
+/// name the source) and the column header are skipped.
+pub fn table_rows(text: &str) -> Vec<&str> {
+    text.lines()
+        .filter(|l| !l.starts_with('#'))
+        .skip(1)
+        .collect()
+}

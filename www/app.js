@@ -12,7 +12,6 @@
   var storeKey = 'latchwise:' + page;
   var defaults = {};
   var ready = false;
-  var pending = 0;
 
   function inputs() {
     return Array.prototype.slice.call(form.querySelectorAll('input[name], select[name]'));
@@ -132,7 +131,6 @@
       try { history.replaceState(null, '', '?' + q + location.hash); } catch (e) { /* file:// in some browsers */ }
       try { localStorage.setItem(storeKey, q); } catch (e) { /* storage disabled */ }
     }
-    document.body.dataset.updates = String(++pending);
   }
 
   function download(name, blob) {

@@ -890,19 +890,7 @@ impl CompReport {
             Some(self.log10_p_total),
         ));
         if let (Some(met), Some(m)) = (self.meets_target, self.margin_decades) {
-            v.push(
-                Readout::new(
-                    "meets_target",
-                    "target",
-                    format!(
-                        "{} by {:.2} decades",
-                        if met { "met" } else { "missed" },
-                        m.abs()
-                    ),
-                    Some(if met { 1.0 } else { 0.0 }),
-                )
-                .judged(met),
-            );
+            v.push(Readout::verdict(met, m));
         }
         if let Some(t) = self.total_meets_target {
             v.push(

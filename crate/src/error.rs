@@ -104,10 +104,8 @@ impl fmt::Display for ParamError {
                 expected,
             } => write!(
                 f,
-                "'{text}' is {} {}, expected {} {}",
-                found.article(),
+                "'{text}' is a {}, expected a {}",
                 found.noun(),
-                expected.article(),
                 expected.noun()
             ),
             Negative(d) => write!(f, "negative {}", d.noun()),

@@ -57,10 +57,6 @@ impl Dim {
         }
     }
 
-    pub(crate) fn article(self) -> &'static str {
-        "a"
-    }
-
     /// Unit spellings accepted for this kind (case-sensitive).
     fn units(self) -> &'static [&'static str] {
         match self {

@@ -29,6 +29,23 @@ impl Readout {
         }
     }
 
+    /// The verdict against a target under the key `meets_target`: "met by 0.88 decades"
+    /// or "missed by 2.90 decades", value 1 or 0, marked good or bad.
+    pub fn verdict(met: bool, margin_decades: f64) -> Self {
+        let m = margin_decades.abs();
+        Readout::new(
+            "meets_target",
+            "target",
+            format!(
+                "{} by {m:.2} decade{}",
+                if met { "met" } else { "missed" },
+                if format!("{m:.2}") == "1.00" { "" } else { "s" }
+            ),
+            Some(if met { 1.0 } else { 0.0 }),
+        )
+        .judged(met)
+    }
+
     /// The same readout marked good (`true`) or bad (`false`).
     pub fn judged(mut self, good: bool) -> Self {
         self.state = if good { "good" } else { "bad" };

@@ -642,24 +642,7 @@ impl SyncReport {
             ),
         ];
         if let (Some(met), Some(margin)) = (self.meets_target, self.margin_decades) {
-            v.push(
-                Readout::new(
-                    "meets_target",
-                    "target",
-                    format!(
-                        "{} by {:.2} decade{}",
-                        if met { "met" } else { "missed" },
-                        margin.abs(),
-                        if (margin.abs() - 1.0).abs() < 0.005 {
-                            ""
-                        } else {
-                            "s"
-                        }
-                    ),
-                    Some(if met { 1.0 } else { 0.0 }),
-                )
-                .judged(met),
-            );
+            v.push(Readout::verdict(met, margin));
             v.push(Readout::new(
                 "margin_decades",
                 "margin",
