@@ -95,6 +95,23 @@ fn bad_inputs_exit_2_naming_the_field() {
         "fclk: clock period 50 ps is not longer than tsu + tcq = 80 ps",
     );
     check_bad("--t0", "1n", "tw: give either tw or t0, not both");
+    // An exponent too long for any integer type is an error, never read as 0.
+    check_bad(
+        "--tau",
+        "1e99999999999999999999",
+        "tau: '1e99999999999999999999' is too large",
+    );
+    check_bad(
+        "--tau",
+        "20e-99999999999999999999ps",
+        "tau: '20e-99999999999999999999ps' is too small",
+    );
+    check_bad("--fclk", "1e-310", "fclk: '1e-310' is too small");
+    let r = sync(&["--target-years", "1e99999999999999999999"]);
+    assert_eq!(r.code, 2, "{}", r.stdout);
+    assert!(r
+        .stderr
+        .contains("target-years: '1e99999999999999999999' is too large"));
 }
 
 #[test]
@@ -136,7 +153,10 @@ fn json_has_the_documented_keys() {
         "log10_mtbf_s",
         "log10_fit",
         "meets_target",
+        "margin_decades",
         "min_stages",
+        "max_fclk_hz",
+        "max_tau_s",
     ] {
         assert!(v.get(k).is_some(), "missing {k} in {v}");
     }
@@ -144,7 +164,16 @@ fn json_has_the_documented_keys() {
     assert_eq!(v["min_stages"], serde_json::json!(3));
     assert_eq!(v["convention"], "tw");
     assert_eq!(v["inputs"]["tau"], "20 ps");
-    assert!((v["resolution_time_s"].as_f64().unwrap() - 920e-12).abs() < 1e-24);
+    // tr = (2 - 1)(1 ns - 30 ps - 50 ps) = 920 ps.
+    crate::tolerance::assert_rel(
+        "resolution time",
+        v["resolution_time_s"].as_f64().unwrap(),
+        920e-12,
+        crate::tolerance::ARITH_REL,
+    );
+    // The largest tau is a number in seconds, below the 20 ps that misses the target.
+    let max_tau = v["max_tau_s"].as_f64().unwrap();
+    assert!(max_tau > 1e-12 && max_tau < 20e-12, "{max_tau}");
     let plain = json(&[]);
     assert!(plain.get("meets_target").is_none());
 }
@@ -201,4 +230,59 @@ fn help_names_every_option_and_the_caution() {
     }
     assert!(r.stdout.contains("first-order estimates"));
     assert!(run(&["help"]).stdout.contains("Caution:"));
+}
+
+#[test]
+fn results_that_do_not_apply_are_null_with_a_reason() {
+    // With tr given there is no chain to size: min_stages is null and says why.
+    let r = run(&[
+        "sync",
+        "--json",
+        "--tau",
+        "20p",
+        "--tw",
+        "40p",
+        "--fclk",
+        "1G",
+        "--fdata",
+        "100M",
+        "--tr",
+        "900p",
+        "--target-years",
+        "1e5",
+    ]);
+    let v: serde_json::Value = serde_json::from_str(&r.stdout).unwrap();
+    assert!(v["min_stages"].is_null(), "{v}");
+    assert!(v["not_applicable"]["min_stages"]
+        .as_str()
+        .unwrap()
+        .contains("tr given"));
+    // A target met with no resolution time at all (MTBF 25 s = 7.9e-7 years at tr = 0,
+    // against 1e-7 years): any tau meets it.
+    let r = run(&[
+        "sync",
+        "--json",
+        "--tau",
+        "20p",
+        "--tw",
+        "40p",
+        "--fclk",
+        "1G",
+        "--fdata",
+        "1",
+        "--stages",
+        "2",
+        "--tsu",
+        "30p",
+        "--tcq",
+        "50p",
+        "--target-years",
+        "1e-7",
+    ]);
+    let v: serde_json::Value = serde_json::from_str(&r.stdout).unwrap();
+    assert!(v["max_tau_s"].is_null(), "{v}");
+    assert!(v["not_applicable"]["max_tau_s"]
+        .as_str()
+        .unwrap()
+        .starts_with("any tau"));
 }

@@ -6,4 +6,5 @@ mod comparator;
 mod plot;
 mod properties;
 mod reference;
+mod tidy;
 mod tolerance;

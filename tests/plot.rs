@@ -1,8 +1,10 @@
 //! Charts render natively to SVG; the structure (axes, labels, series, markers) is checked.
 
-use latchwise::chart::{draw, ChartSpec};
+use latchwise::calculator::Calculator;
+use latchwise::chart::{draw, Plot};
+use latchwise::comparator::ComparatorCalculator;
 use latchwise::params::RawInputs;
-use latchwise::sweep::{mtbf_vs_fclk, mtbf_vs_stages, mtbf_vs_tau, mtbf_vs_tr, Series};
+use latchwise::synchronizer::sweep::{mtbf_vs_fclk, mtbf_vs_stages, mtbf_vs_tau, mtbf_vs_tr};
 use latchwise::synchronizer::{SyncCase, Synchronizer};
 use plotters::prelude::*;
 
@@ -14,15 +16,13 @@ fn sync(q: &str) -> Synchronizer {
 
 const DEMO: &str = "tau=20p&tw=40p&fclk=1G&fdata=100M&stages=2&tsu=30p&tcq=50p";
 
-fn svg(series: &Series, target: Option<f64>) -> (String, latchwise::chart::Drawn) {
+fn svg(series: &Plot, target: Option<f64>) -> (String, latchwise::chart::Drawn) {
+    let mut plot = series.clone();
+    plot.hline = target.map(|t| (t, "target".to_string()));
     let mut out = String::new();
     let drawn = {
         let root = SVGBackend::with_string(&mut out, (640, 360)).into_drawing_area();
-        draw(
-            &root,
-            &ChartSpec::from_series(series, "MTBF vs stages", target, 1.0),
-        )
-        .unwrap()
+        draw(&root, &plot, 1.0).unwrap()
     };
     (out, drawn)
 }
@@ -93,7 +93,7 @@ fn every_sweep_draws_finite_points() {
         assert_eq!(drawn.points, 120, "{}", series.id);
         assert!(out.contains("<polyline"), "{}", series.id);
         assert!(series
-            .points
+            .points()
             .iter()
             .all(|p| p.0.is_finite() && p.1.is_finite()));
         let csv = series.to_csv();
@@ -105,7 +105,7 @@ fn every_sweep_draws_finite_points() {
 fn fclk_sweep_stops_before_the_period_runs_out() {
     let s = sync(DEMO);
     let series = mtbf_vs_fclk(&s, 50);
-    let last = series.points.last().unwrap().0;
+    let last = series.points().last().unwrap().0;
     assert!(1.0 / last > 80e-12, "{last}");
 }
 
@@ -128,4 +128,36 @@ fn deep_chains_get_round_ticks_and_wide_labels_fit() {
         "marker and its legend entry"
     );
     assert!(drawn.y_ticks.len() <= 9);
+}
+
+#[test]
+fn comparator_charts_render_natively_with_their_lines() {
+    // Every comparator plot, the growth chart included, through the calculator trait.
+    let raw = RawInputs::from_query(
+        "tau=15p&treg=80p&vmin=0.4&gain=4&input=nrz&amp=40m&sigma=4m&fs=5G&target-ber=1e-12",
+    );
+    let case = ComparatorCalculator::read(&raw).unwrap();
+    let plots = ComparatorCalculator::plots(&case);
+    let ids: Vec<&str> = plots.iter().map(|p| p.id).collect();
+    assert_eq!(
+        ids,
+        ["plot-treg", "plot-ctau", "plot-spread", "plot-growth"]
+    );
+    for p in &plots {
+        let (out, drawn) = svg(p, p.hline.as_ref().map(|h| h.0));
+        assert!(drawn.points > 0 && out.contains("<polyline"), "{}", p.id);
+        let labels = texts(&out);
+        assert!(
+            labels.iter().any(|l| l == p.y_label),
+            "{}: {labels:?}",
+            p.id
+        );
+    }
+    let growth = plots.last().unwrap();
+    assert!(growth.curves.len() >= 2, "several inputs");
+    let (out, _) = svg(growth, Some(0.4f64.log10()));
+    let labels = texts(&out);
+    assert!(labels.iter().any(|l| l == "treg"), "{labels:?}");
+    let csv = growth.to_csv();
+    assert!(csv.starts_with("curve,t_s,log10_dv_v\n"), "{csv}");
 }

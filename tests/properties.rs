@@ -1,8 +1,29 @@
 //! Property tests: monotonic in every parameter, and finite for every valid input.
 
+use std::num::NonZeroU32;
+
 use latchwise::params::RawInputs;
-use latchwise::synchronizer::{evaluate, SyncCase, SyncReport, Target};
+use latchwise::quantity::{Frequency, Time};
+use latchwise::reliability::Target;
+use latchwise::synchronizer::{
+    evaluate, StagesNeeded, SyncCase, SyncReport, Synchronizer, TauLimit,
+};
 use proptest::prelude::*;
+
+use crate::tolerance::{CEILING_REL, F64_REL, ROUNDING_LOG10_ABS, SOLVER_LOG10_ABS};
+
+/// `s` with `n` stages (n >= 1 in every caller).
+fn stages(s: &Synchronizer, n: u32) -> Synchronizer {
+    s.with_stages(NonZeroU32::new(n).unwrap())
+}
+
+fn with_tau(s: &Synchronizer, tau: f64) -> Synchronizer {
+    s.with_tau(Time::positive("tau", tau).unwrap())
+}
+
+fn with_fclk(s: &Synchronizer, f: f64) -> Synchronizer {
+    s.with_fclk(Frequency::positive("fclk", f).unwrap())
+}
 
 #[derive(Debug, Clone)]
 struct Case {
@@ -125,13 +146,13 @@ proptest! {
             ("stages", "1".into()), ("tsu", format!("{:e}", c.tsu)), ("tcq", format!("{:e}", c.tcq)),
         ])).unwrap();
         let m = Target::MtbfYears(years).log10_max_rate();
-        if let latchwise::synchronizer::StagesNeeded::Stages(n) = case.sync.min_stages(m) {
+        if let StagesNeeded::Stages(n) = case.sync.min_stages(m) {
             prop_assume!(n <= 1_000_000);
             let n = n as u32;
             let s = case.sync;
-            prop_assert!(s.with(n, s.tau.get(), s.fclk.get()).log10_rate() <= m + 1e-9);
+            prop_assert!(stages(&s, n).log10_rate() <= m + ROUNDING_LOG10_ABS);
             if n > 1 {
-                prop_assert!(s.with(n - 1, s.tau.get(), s.fclk.get()).log10_rate() > m - 1e-9);
+                prop_assert!(stages(&s, n - 1).log10_rate() > m - ROUNDING_LOG10_ABS);
             }
         }
     }
@@ -142,8 +163,6 @@ proptest! {
 
     #[test]
     fn solvers_land_on_the_target(c in cases(), years in log_uniform(1e-3, 1e30)) {
-        use latchwise::synchronizer::TauLimit;
-        use crate::tolerance::SOLVER_LOG10_ABS;
         let case = SyncCase::from_inputs(&RawInputs::from_pairs([
             ("tau", format!("{:e}", c.tau)), ("tw", format!("{:e}", c.tw)),
             ("fclk", format!("{:e}", c.fclk)), ("fdata", format!("{:e}", c.fdata)),
@@ -151,19 +170,35 @@ proptest! {
         ])).unwrap();
         let s = case.sync;
         let m = Target::MtbfYears(years).log10_max_rate();
-        if let Some(f) = s.max_fclk(s.stages, m) {
-            let at = s.with(s.stages, s.tau.get(), f).log10_rate();
-            // Either on the target, or at the top of the usable range and below it.
-            prop_assert!((at - m).abs() < SOLVER_LOG10_ABS || at < m, "{at} vs {m}");
-            prop_assert!(at <= m + SOLVER_LOG10_ABS);
+        match s.max_fclk(s.stages(), m) {
+            Some(f) => {
+                let at = with_fclk(&s, f).log10_rate();
+                // Never above the target, and not below it either unless the clock is at
+                // the top of the usable range (where the hop time runs out): a clock
+                // that is too low fails here as surely as one that is too high.
+                prop_assert!(at <= m + SOLVER_LOG10_ABS, "{at} vs {m}");
+                let ceiling = s.fclk_ceiling(s.stages()).unwrap_or(f64::INFINITY);
+                // Near the ceiling the rate is so steep in fclk that the clock's own f64
+                // resolution moves it by more than SOLVER_LOG10_ABS: then a clock higher
+                // by F64_REL must already miss.
+                let higher_misses = f * (1.0 + F64_REL) < ceiling
+                    && with_fclk(&s, f * (1.0 + F64_REL)).log10_rate() > m;
+                prop_assert!(
+                    at >= m - SOLVER_LOG10_ABS || higher_misses || f >= ceiling * (1.0 - CEILING_REL),
+                    "clock {f:e} too low: rate {at} vs target {m}, ceiling {ceiling:e}"
+                );
+            }
+            // No clock meets it: even the slowest one considered misses.
+            None => prop_assert!(with_fclk(&s, 1e-300).log10_rate() > m),
         }
         match s.max_tau(m) {
             TauLimit::Max(t) => {
-                let at = s.with(s.stages, t, s.fclk.get()).log10_rate();
+                let at = with_tau(&s, t).log10_rate();
                 prop_assert!((at - m).abs() < SOLVER_LOG10_ABS * m.abs().max(1.0), "{at} vs {m}");
             }
-            TauLimit::Any => prop_assert!(s.with(s.stages, 1.0, s.fclk.get()).log10_rate() <= m + 1e-9),
+            TauLimit::Any => prop_assert!(with_tau(&s, 1.0).log10_rate() <= m + ROUNDING_LOG10_ABS),
             TauLimit::None => prop_assert!(s.resolution_time() <= 0.0),
         }
     }
+
 }

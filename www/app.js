@@ -3,11 +3,8 @@
 (function () {
   'use strict';
 
+  // The calculator this page shows; the core's exports take it by name.
   var page = document.body.dataset.page;
-  var api = {
-    sync: { run: 'sync_page', draw: 'sync_draw', csv: 'sync_csv' },
-    comparator: { run: 'comparator_page', draw: 'comparator_draw', csv: 'comparator_csv' }
-  }[page];
   var form = document.getElementById('inputs');
   var storeKey = 'latchwise:' + page;
   var defaults = {};
@@ -39,6 +36,17 @@
     var f = document.getElementById('fatal');
     f.textContent = msg;
     show(f, true);
+  }
+
+  function list(id, items) {
+    var ul = document.getElementById(id);
+    if (!ul) return;
+    ul.textContent = '';
+    items.forEach(function (w) {
+      var li = document.createElement('li');
+      li.textContent = w;
+      ul.appendChild(li);
+    });
   }
 
   function render(state) {
@@ -75,13 +83,8 @@
       out.dataset.value = '';
       out.dataset.state = '';
     });
-    var ul = document.getElementById('warnings');
-    ul.textContent = '';
-    state.warnings.forEach(function (w) {
-      var li = document.createElement('li');
-      li.textContent = w;
-      ul.appendChild(li);
-    });
+    list('warnings', state.warnings);
+    list('facts', state.facts);
     if (state.ignored.length) {
       var ign = document.getElementById('ignored');
       ign.textContent = 'Ignored unknown parameters in the link: ' + state.ignored.join(', ');
@@ -92,8 +95,9 @@
     carryLinks();
   }
 
-  // Links to the other calculators carry the shared parameters, declared on the link as
-  // data-carry="from:to ..." (e.g. "tau:tau fclk:fs").
+  // Explicit links to another calculator carry shared parameters, declared on the link
+  // as data-carry="from:to ..." (e.g. "tau:tau fclk:fs"). The navigation carries nothing:
+  // each calculator opens on its own last case.
   function carryLinks() {
     Array.prototype.forEach.call(document.querySelectorAll('a[data-carry]'), function (a) {
       var p = new URLSearchParams();
@@ -108,7 +112,7 @@
   }
 
   function draw(q) {
-    var drawn = wasm_bindgen[api.draw](q, window.devicePixelRatio || 1);
+    var drawn = wasm_bindgen.draw(page, q, window.devicePixelRatio || 1);
     Array.prototype.forEach.call(document.querySelectorAll('.plots canvas'), function (c) {
       c.dataset.drawn = drawn.indexOf(c.id) >= 0 ? 'yes' : 'no';
       c.parentNode.dataset.stale = c.dataset.drawn === 'yes' ? 'no' : 'yes';
@@ -121,7 +125,7 @@
     if (!ready) return;
     var q = initial === undefined ? query() : initial;
     try {
-      render(wasm_bindgen[api.run](q));
+      render(wasm_bindgen.page(page, q));
       if (initial === undefined) draw(q);
     } catch (e) {
       fatal('Internal error: ' + e + '. Your inputs are kept; please report this case: ' + location.href);
@@ -172,7 +176,7 @@
       var t = e.target;
       if (!(t instanceof HTMLButtonElement)) return;
       if (t.dataset.csv) {
-        var text = wasm_bindgen[api.csv](query(), t.dataset.csv);
+        var text = wasm_bindgen.csv(page, query(), t.dataset.csv);
         if (text) download(t.dataset.csv + '.csv', new Blob([text], { type: 'text/csv' }));
       } else if (t.dataset.png) {
         document.getElementById(t.dataset.png).toBlob(function (b) {

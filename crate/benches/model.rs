@@ -2,10 +2,10 @@
 #![allow(missing_docs, clippy::unwrap_used)]
 
 use criterion::{criterion_group, criterion_main, Criterion};
+use latchwise::comparator::sweep::p_vs_tau;
 use latchwise::comparator::{self, CompCase};
 use latchwise::params::RawInputs;
-use latchwise::sweep::comparator::p_vs_tau;
-use latchwise::sweep::sweep_tau;
+use latchwise::synchronizer::sweep::sweep_tau;
 use latchwise::synchronizer::{evaluate, SyncCase};
 use std::hint::black_box;
 
@@ -42,7 +42,7 @@ fn bench(c: &mut Criterion) {
             b.iter(|| black_box(&case.comp).ln_p_error())
         });
         c.bench_function(&format!("comparator/evaluate_with_solvers/{name}"), |b| {
-            b.iter(|| comparator::evaluate(black_box(&case), Vec::new()))
+            b.iter(|| comparator::evaluate(black_box(&case)))
         });
     }
     let nrz = comp(&format!("{base}&input=nrz&amp=40m&sigma=4m"));

@@ -1,12 +1,6 @@
 //! Turns `--name value` options (and `--from-url`) into the core's named raw inputs.
 
-use std::process::ExitCode;
-
-use latchwise::error::ParamErrors;
 use latchwise::params::{FieldSpec, RawInputs};
-use serde::Serialize;
-
-use crate::{EXIT_BAD_INPUT, EXIT_TARGET_MISSED};
 
 /// Options common to every calculator command, besides its fields.
 #[derive(Debug, Default)]
@@ -103,64 +97,4 @@ pub fn options_help(fields: &[FieldSpec]) -> String {
         s.push_str(&format!("  --{:<15} {}{unit}\n", f.name, f.help));
     }
     s
-}
-
-/// One calculator command: its name, fields, help, evaluation and text report.
-pub struct Calculator<R> {
-    /// The command name, used in messages.
-    pub name: &'static str,
-    /// The fields (option names).
-    pub fields: &'static [FieldSpec],
-    /// The help text.
-    pub help: fn() -> String,
-    /// Builds and evaluates a case.
-    pub evaluate: fn(&RawInputs) -> Result<R, ParamErrors>,
-    /// The human-readable report.
-    pub text: fn(&R) -> String,
-    /// Whether a target was given and missed (exit status 1).
-    pub missed: fn(&R) -> bool,
-}
-
-/// Runs a calculator command: options, help, notes, errors, output and exit status.
-pub fn drive<R: Serialize>(calc: &Calculator<R>, args: &[String]) -> ExitCode {
-    let name = calc.name;
-    let parsed = match parse(args, calc.fields) {
-        Ok(p) => p,
-        Err(msg) => {
-            eprintln!("latchwise {name}: {msg}");
-            return ExitCode::from(EXIT_BAD_INPUT);
-        }
-    };
-    if parsed.help {
-        print!("{}", (calc.help)());
-        return ExitCode::SUCCESS;
-    }
-    for k in &parsed.ignored {
-        eprintln!("latchwise {name}: note: ignored unknown parameter '{k}' in --from-url");
-    }
-    let report = match (calc.evaluate)(&parsed.raw) {
-        Ok(r) => r,
-        Err(errs) => {
-            for e in &errs.0 {
-                eprintln!("latchwise {name}: {e}");
-            }
-            return ExitCode::from(EXIT_BAD_INPUT);
-        }
-    };
-    if parsed.json {
-        match serde_json::to_string_pretty(&report) {
-            Ok(s) => println!("{s}"),
-            Err(e) => {
-                eprintln!("latchwise {name}: cannot write JSON: {e}");
-                return ExitCode::from(EXIT_BAD_INPUT);
-            }
-        }
-    } else {
-        print!("{}", (calc.text)(&report));
-    }
-    if (calc.missed)(&report) {
-        ExitCode::from(EXIT_TARGET_MISSED)
-    } else {
-        ExitCode::SUCCESS
-    }
 }

@@ -2,12 +2,12 @@
 #![allow(clippy::print_stdout, clippy::print_stderr)]
 
 mod args;
-mod comparator_cmd;
-mod sync_cmd;
+mod drive;
 
 use std::process::ExitCode;
 
-use latchwise::synchronizer::CAUTION;
+use latchwise::registry::{self, ALL};
+use latchwise::reliability::CAUTION;
 
 /// Exit status when a target was given and is not met.
 pub const EXIT_TARGET_MISSED: u8 = 1;
@@ -15,13 +15,21 @@ pub const EXIT_TARGET_MISSED: u8 = 1;
 pub const EXIT_BAD_INPUT: u8 = 2;
 
 fn usage() -> String {
+    let commands: String = ALL
+        .iter()
+        .map(|c| {
+            format!(
+                "  latchwise {:<21} {}\n",
+                format!("{} [options]", c.name),
+                c.summary
+            )
+        })
+        .collect();
     format!(
         "latchwise {} - metastability sign-off for synchronizers and latched comparators
 
 Usage:
-  latchwise sync [options]        synchronizer MTBF, FIT and depth
-  latchwise comparator [options]  comparator metastability error rate against a BER
-  latchwise help COMMAND          options of a command
+{commands}  latchwise help COMMAND          options of a command
   latchwise --version
 
 Values take engineering notation: 20p, 20ps, 20 ps, 2e-11, 0.02ns, 1.5GHz, 250M, 1meg.
@@ -37,30 +45,22 @@ Caution: {CAUTION}
 
 fn main() -> ExitCode {
     let argv: Vec<String> = std::env::args().skip(1).collect();
-    let (cmd, rest) = match argv.split_first() {
-        Some((c, r)) => (c.as_str(), r),
-        None => {
-            eprint!("{}", usage());
-            return ExitCode::from(EXIT_BAD_INPUT);
-        }
+    let Some((cmd, rest)) = argv.split_first() else {
+        eprint!("{}", usage());
+        return ExitCode::from(EXIT_BAD_INPUT);
     };
-    match cmd {
-        "sync" => sync_cmd::run(rest),
-        "comparator" => comparator_cmd::run(rest),
-        "help" | "--help" | "-h" => match rest.first().map(String::as_str) {
-            Some("sync") => {
-                print!("{}", sync_cmd::help());
-                ExitCode::SUCCESS
-            }
-            Some("comparator") => {
-                print!("{}", comparator_cmd::help());
-                ExitCode::SUCCESS
-            }
-            _ => {
-                print!("{}", usage());
-                ExitCode::SUCCESS
-            }
-        },
+    if let Some(code) = registry::dispatch(cmd, drive::Run(rest)) {
+        return code;
+    }
+    match cmd.as_str() {
+        "help" | "--help" | "-h" => {
+            let text = rest
+                .first()
+                .and_then(|c| registry::dispatch(c, drive::Help))
+                .unwrap_or_else(usage);
+            print!("{text}");
+            ExitCode::SUCCESS
+        }
         "--version" | "-V" => {
             println!("latchwise {}", env!("CARGO_PKG_VERSION"));
             ExitCode::SUCCESS

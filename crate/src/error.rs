@@ -2,7 +2,7 @@
 
 use std::fmt;
 
-use crate::quantity::Dim;
+use crate::units::Dim;
 
 /// What is wrong with one input field.
 #[derive(Debug, Clone, PartialEq)]
@@ -85,7 +85,7 @@ impl ParamError {
 
 impl fmt::Display for ParamError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        use crate::quantity::format_si;
+        use crate::units::format_si;
         use ParamErrorKind::*;
         write!(f, "{}: ", self.field)?;
         match &self.kind {

@@ -7,7 +7,8 @@
 use serde::Serialize;
 
 use crate::error::{ParamError, ParamErrorKind, ParamErrors};
-use crate::quantity::{self, Dim};
+use crate::quantity;
+use crate::units::{self, Dim};
 
 /// One input field of a calculator.
 #[derive(Debug, Clone, Copy)]
@@ -137,9 +138,14 @@ impl<'a> FieldReader<'a> {
         }
     }
 
-    /// Whether a non-blank value was given for `name`.
-    pub fn has(&self, name: &str) -> bool {
-        self.raw.get_nonblank(name).is_some()
+    /// Whether a non-blank value was given for the field.
+    pub fn has(&self, spec: &FieldSpec) -> bool {
+        self.raw.get_nonblank(spec.name).is_some()
+    }
+
+    /// The trimmed text given for the field, `None` when absent or blank.
+    pub fn text(&self, spec: &FieldSpec) -> Option<&'a str> {
+        self.raw.get_nonblank(spec.name).map(str::trim)
     }
 
     /// Records an error found by the caller.
@@ -171,7 +177,7 @@ impl<'a> FieldReader<'a> {
         spec: &FieldSpec,
         make: fn(&'static str, f64) -> Result<T, ParamError>,
     ) -> Option<T> {
-        if !self.has(spec.name) {
+        if !self.has(spec) {
             self.push(ParamError::new(spec.name, ParamErrorKind::Missing));
             return None;
         }
@@ -258,8 +264,8 @@ pub fn echo_fields(raw: &RawInputs, fields: &[FieldSpec]) -> Vec<FieldEcho> {
                 .ok()
                 .map(|v| match f.dim {
                     Dim::Count if v.fract() == 0.0 && v.abs() < 1e15 => format!("{v:.0}"),
-                    Dim::Count | Dim::Ratio => quantity::format_number(v),
-                    d => quantity::format_si(v, d.symbol()),
+                    Dim::Count | Dim::Ratio => units::format_number(v),
+                    d => units::format_si(v, d.symbol()),
                 });
             FieldEcho {
                 name: f.name,

@@ -46,6 +46,16 @@ impl Readout {
         .judged(met)
     }
 
+    /// The margin against a target under the key `margin_decades`: "+0.88 decades".
+    pub fn margin(margin_decades: f64) -> Self {
+        Readout::new(
+            "margin_decades",
+            "margin",
+            format!("{margin_decades:+.2} decades"),
+            Some(margin_decades),
+        )
+    }
+
     /// The same readout marked good (`true`) or bad (`false`).
     pub fn judged(mut self, good: bool) -> Self {
         self.state = if good { "good" } else { "bad" };

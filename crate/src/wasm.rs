@@ -1,5 +1,6 @@
-//! The WebAssembly binding: query text in, readouts and field states out, charts drawn
-//! into the page's canvases. No model logic lives here.
+//! The WebAssembly binding: one set of exports for every calculator, chosen by name.
+//! Query text in; field states, readouts and notes out; charts drawn into the page's
+//! canvases. No model logic lives here.
 
 use plotters::prelude::IntoDrawingArea;
 use plotters_canvas::CanvasBackend;
@@ -8,14 +9,12 @@ use wasm_bindgen::prelude::*;
 use wasm_bindgen::JsCast;
 use web_sys::HtmlCanvasElement;
 
-use crate::chart::{draw, ChartSpec};
-use crate::comparator::{self, unused_fields, CompCase};
-use crate::error::ParamErrors;
-use crate::params::{echo_fields, FieldEcho, FieldSpec, RawInputs};
+use crate::calculator::{Calculator, Visit};
+use crate::chart::{draw as draw_chart, Plot};
+use crate::params::{echo_fields, FieldEcho, RawInputs};
 use crate::readout::Readout;
-use crate::sweep::comparator::{growth, p_vs_spread, p_vs_tau, p_vs_treg};
-use crate::sweep::{mtbf_vs_fclk, mtbf_vs_stages, mtbf_vs_tau, Series};
-use crate::synchronizer::{evaluate, SyncCase, CAUTION, FIELDS, YEAR_S};
+use crate::registry::dispatch;
+use crate::reliability::CAUTION;
 
 /// Installs a panic hook that reports to the console, so that a bug shows up as a
 /// message instead of a silent stop.
@@ -38,27 +37,11 @@ struct PageState {
     ok: bool,
     fields: Vec<FieldState>,
     readouts: Vec<Readout>,
+    facts: Vec<String>,
     warnings: Vec<String>,
     ignored: Vec<String>,
     unused: Vec<&'static str>,
     caution: &'static str,
-}
-
-fn field_states(
-    raw: &RawInputs,
-    fields: &[FieldSpec],
-    errors: &[crate::error::ParamError],
-) -> Vec<FieldState> {
-    echo_fields(raw, fields)
-        .into_iter()
-        .map(|echo| FieldState {
-            error: errors
-                .iter()
-                .find(|e| e.field == echo.name)
-                .map(|e| e.to_string()),
-            echo,
-        })
-        .collect()
 }
 
 fn to_js<T: Serialize>(v: &T) -> Result<JsValue, JsError> {
@@ -66,116 +49,114 @@ fn to_js<T: Serialize>(v: &T) -> Result<JsValue, JsError> {
         .map_err(|e| JsError::new(&e.to_string()))
 }
 
-/// The sweeps the synchronizer page plots, keyed by the id of their canvas.
-fn sync_series(case: &SyncCase) -> Vec<(&'static str, &'static str, Series)> {
-    let s = &case.sync;
-    vec![
-        (
-            "plot-stages",
-            "MTBF against synchronizer depth",
-            mtbf_vs_stages(s, (s.stages + 4).max(6)),
-        ),
-        (
-            "plot-fclk",
-            "MTBF against clock frequency",
-            mtbf_vs_fclk(s, 200),
-        ),
-        ("plot-tau", "MTBF against tau", mtbf_vs_tau(s, 200)),
-    ]
+fn unknown(name: &str) -> JsError {
+    JsError::new(&format!("no calculator is called '{name}'"))
 }
 
-fn target_years(case: &SyncCase) -> Option<f64> {
-    case.target.map(|t| -t.log10_max_rate() - YEAR_S.log10())
-}
+struct Page<'a>(&'a str);
 
-/// What a successful evaluation shows: readouts, warnings and the fields it did not use.
-type Shown = (Vec<Readout>, Vec<String>, Vec<&'static str>);
+impl Visit for Page<'_> {
+    type Out = PageState;
 
-/// The page state for any calculator: field states from `fields`, and readouts and
-/// warnings from a successful evaluation.
-fn page_state(
-    raw: &RawInputs,
-    fields: &[FieldSpec],
-    result: Result<Shown, ParamErrors>,
-) -> PageState {
-    let errors = result
-        .as_ref()
-        .err()
-        .map(|e| e.0.clone())
-        .unwrap_or_default();
-    let mut state = PageState {
-        ok: result.is_ok(),
-        fields: field_states(raw, fields, &errors),
-        readouts: Vec::new(),
-        warnings: Vec::new(),
-        ignored: raw.unknown_keys(fields),
-        unused: Vec::new(),
-        caution: CAUTION,
-    };
-    if let Ok((readouts, warnings, unused)) = result {
-        state.readouts = readouts;
-        state.warnings = warnings;
-        state.unused = unused;
+    fn visit<C: Calculator>(self) -> PageState {
+        let raw = RawInputs::from_query(self.0);
+        let result = C::read(&raw).map(|case| C::outcome(&C::evaluate(&case)));
+        let errors = result
+            .as_ref()
+            .err()
+            .map(|e| e.0.clone())
+            .unwrap_or_default();
+        let fields = echo_fields(&raw, C::FIELDS)
+            .into_iter()
+            .map(|echo| FieldState {
+                error: errors
+                    .iter()
+                    .find(|e| e.field == echo.name)
+                    .map(|e| e.to_string()),
+                echo,
+            })
+            .collect();
+        let mut state = PageState {
+            ok: result.is_ok(),
+            fields,
+            readouts: Vec::new(),
+            facts: Vec::new(),
+            warnings: Vec::new(),
+            ignored: raw.unknown_keys(C::FIELDS),
+            unused: Vec::new(),
+            caution: CAUTION,
+        };
+        if let Ok(o) = result {
+            state.readouts = o.readouts;
+            state.facts = o.facts;
+            state.warnings = o.warnings;
+            state.unused = o.unused;
+        }
+        state
     }
-    state
 }
 
-/// Evaluates the synchronizer page's query: field states (text, echo, error), readouts,
-/// warnings, unknown keys. Plots are drawn separately by [`sync_draw`], so that the
-/// numbers can show before the first charts are laid out.
-///
-/// # Errors
-/// Only if the answer cannot be converted to a JS value.
-#[wasm_bindgen]
-pub fn sync_page(query: &str) -> Result<JsValue, JsError> {
-    let raw = RawInputs::from_query(query);
-    let result = SyncCase::from_inputs(&raw).map(|case| {
-        let report = evaluate(&case);
-        (report.readouts(), report.warnings, Vec::new())
-    });
-    to_js(&page_state(&raw, FIELDS, result))
+struct Plots<'a>(&'a str);
+
+impl Visit for Plots<'_> {
+    type Out = Vec<Plot>;
+
+    fn visit<C: Calculator>(self) -> Vec<Plot> {
+        C::read(&RawInputs::from_query(self.0))
+            .map(|case| C::plots(&case))
+            .unwrap_or_default()
+    }
 }
 
-/// Draws the synchronizer page's plots into the canvases of the same ids, at `scale`
-/// device pixels per CSS pixel. Returns the ids drawn (none when the inputs are invalid).
+/// Evaluates the query of calculator `name`'s page: field states (text, echo, error),
+/// readouts, facts, warnings and unknown keys. Plots are drawn separately by [`draw`],
+/// so that the numbers can show before the first chart is laid out.
 ///
 /// # Errors
-/// If a chart fails to draw.
+/// An unknown calculator, or an answer that cannot be converted to a JS value.
 #[wasm_bindgen]
-pub fn sync_draw(query: &str, scale: f64) -> Result<Vec<String>, JsError> {
-    let Ok(case) = SyncCase::from_inputs(&RawInputs::from_query(query)) else {
-        return Ok(Vec::new());
-    };
-    let target = target_years(&case);
+pub fn page(name: &str, query: &str) -> Result<JsValue, JsError> {
+    to_js(&dispatch(name, Page(query)).ok_or_else(|| unknown(name))?)
+}
+
+/// Draws calculator `name`'s plots into the canvases of the same ids, at `scale` device
+/// pixels per CSS pixel. Returns the ids drawn (none when the inputs are invalid).
+///
+/// # Errors
+/// An unknown calculator, or a chart that fails to draw.
+#[wasm_bindgen]
+pub fn draw(name: &str, query: &str, scale: f64) -> Result<Vec<String>, JsError> {
+    let plots = dispatch(name, Plots(query)).ok_or_else(|| unknown(name))?;
     let mut drawn = Vec::new();
-    for (id, title, series) in sync_series(&case) {
-        let spec = ChartSpec::from_series(&series, title, target, scale);
-        if draw_into(id, &spec, scale)? {
-            drawn.push(id.to_string());
+    for plot in &plots {
+        if draw_into(plot, scale)? {
+            drawn.push(plot.id.to_string());
         }
     }
     Ok(drawn)
 }
 
-/// The CSV of one of the synchronizer page's plots (`plot-stages`, `plot-fclk`, `plot-tau`),
-/// or an empty string when the inputs are not valid.
+/// The CSV of calculator `name`'s plot `plot` (a canvas id), or "" when the inputs are
+/// not valid or there is no such plot.
+///
+/// # Errors
+/// An unknown calculator.
 #[wasm_bindgen]
-pub fn sync_csv(query: &str, plot: &str) -> String {
-    match SyncCase::from_inputs(&RawInputs::from_query(query)) {
-        Ok(case) => sync_series(&case)
-            .into_iter()
-            .find(|(id, _, _)| *id == plot)
-            .map(|(_, _, s)| s.to_csv())
-            .unwrap_or_default(),
-        Err(_) => String::new(),
-    }
+pub fn csv(name: &str, query: &str, plot: &str) -> Result<String, JsError> {
+    Ok(dispatch(name, Plots(query))
+        .ok_or_else(|| unknown(name))?
+        .into_iter()
+        .find(|p| p.id == plot)
+        .map(|p| p.to_csv())
+        .unwrap_or_default())
 }
 
-/// Draws into the canvas `id` sized to its CSS box times `scale`; false if there is none.
-fn draw_into(id: &str, spec: &ChartSpec, scale: f64) -> Result<bool, JsError> {
+/// Draws `plot` into the canvas of its id, sized to its CSS box times `scale`; false if
+/// the page has no such canvas.
+fn draw_into(plot: &Plot, scale: f64) -> Result<bool, JsError> {
     let Some(canvas) = web_sys::window()
         .and_then(|w| w.document())
-        .and_then(|d| d.get_element_by_id(id))
+        .and_then(|d| d.get_element_by_id(plot.id))
         .and_then(|e| e.dyn_into::<HtmlCanvasElement>().ok())
     else {
         return Ok(false);
@@ -195,108 +176,7 @@ fn draw_into(id: &str, spec: &ChartSpec, scale: f64) -> Result<bool, JsError> {
     let Some(backend) = CanvasBackend::with_canvas_object(canvas) else {
         return Ok(false);
     };
-    draw(&backend.into_drawing_area(), spec).map_err(|e| JsError::new(&e))?;
+    draw_chart(&backend.into_drawing_area(), plot, scale)
+        .map_err(|e| JsError::new(&e.to_string()))?;
     Ok(true)
-}
-
-/// The sweeps the comparator page plots, keyed by the id of their canvas.
-fn comparator_series(case: &CompCase) -> Vec<(&'static str, &'static str, Series)> {
-    let c = &case.comp;
-    let spread = match c.input {
-        comparator::InputModel::Gaussian { .. }
-        | comparator::InputModel::Nrz { .. }
-        | comparator::InputModel::Pam4 { .. } => "Error probability against input noise",
-        _ => "Error probability against threshold spacing",
-    };
-    vec![
-        (
-            "plot-treg",
-            "Error probability against regeneration time",
-            p_vs_treg(c, 200),
-        ),
-        (
-            "plot-ctau",
-            "Error probability against tau",
-            p_vs_tau(c, 200),
-        ),
-        ("plot-spread", spread, p_vs_spread(c, 60)),
-    ]
-}
-
-/// Evaluates the comparator page's query (see [`sync_page`]).
-///
-/// # Errors
-/// Only if the answer cannot be converted to a JS value.
-#[wasm_bindgen]
-pub fn comparator_page(query: &str) -> Result<JsValue, JsError> {
-    let raw = RawInputs::from_query(query);
-    let result = CompCase::from_inputs(&raw).map(|case| {
-        let report = comparator::evaluate(&case, unused_fields(&raw, case.comp.input.name()));
-        (report.readouts(), report.warnings, report.unused)
-    });
-    to_js(&page_state(&raw, comparator::FIELDS, result))
-}
-
-/// Draws the comparator page's plots (three sweeps and the growth curves).
-///
-/// # Errors
-/// If a chart fails to draw.
-#[wasm_bindgen]
-pub fn comparator_draw(query: &str, scale: f64) -> Result<Vec<String>, JsError> {
-    let Ok(case) = CompCase::from_inputs(&RawInputs::from_query(query)) else {
-        return Ok(Vec::new());
-    };
-    let target = case.target_ber.map(f64::log10);
-    let mut drawn = Vec::new();
-    for (id, title, series) in comparator_series(&case) {
-        let spec = ChartSpec::from_series(&series, title, target, scale);
-        if draw_into(id, &spec, scale)? {
-            drawn.push(id.to_string());
-        }
-    }
-    let curves = growth(&case.comp, 240);
-    let spec = ChartSpec {
-        title: "Latch output growth, dv = gain vin exp(t/tau)".into(),
-        x_label: "t (s)".into(),
-        x_unit: "s",
-        x_spacing: crate::sweep::Spacing::Linear,
-        y_label: "output difference dv (V)".into(),
-        curves: curves
-            .iter()
-            .map(|(label, pts)| crate::chart::Curve {
-                label: label.clone(),
-                points: pts,
-            })
-            .collect(),
-        hline: Some((case.comp.vmin.get().log10(), "vmin".into())),
-        vline: Some((case.comp.treg_total(), "treg".into())),
-        marker: None,
-        scale,
-    };
-    if draw_into("plot-growth", &spec, scale)? {
-        drawn.push("plot-growth".to_string());
-    }
-    Ok(drawn)
-}
-
-/// The CSV of one of the comparator page's sweeps, or "" when the inputs are not valid.
-#[wasm_bindgen]
-pub fn comparator_csv(query: &str, plot: &str) -> String {
-    let Ok(case) = CompCase::from_inputs(&RawInputs::from_query(query)) else {
-        return String::new();
-    };
-    if plot == "plot-growth" {
-        let mut out = String::from("curve,t_s,log10_dv_v\n");
-        for (label, pts) in growth(&case.comp, 240) {
-            for (t, l) in pts {
-                out.push_str(&format!("\"{label}\",{t:e},{l}\n"));
-            }
-        }
-        return out;
-    }
-    comparator_series(&case)
-        .into_iter()
-        .find(|(id, _, _)| *id == plot)
-        .map(|(_, _, s)| s.to_csv())
-        .unwrap_or_default()
 }

@@ -84,7 +84,7 @@ pub fn ln_erfc(x: f64) -> f64 {
 ///
 /// # Examples
 /// ```
-/// use latchwise::normal::ln_q;
+/// use latchwise::numeric::normal::ln_q;
 /// // Q(0) = 1/2; Q(100) = 1.3443e-2174 (far below f64, but its log is fine).
 /// assert!((ln_q(0.0) + std::f64::consts::LN_2).abs() < 1e-15);
 /// assert!((ln_q(100.0) / std::f64::consts::LN_10 + 2173.8715).abs() < 1e-3);

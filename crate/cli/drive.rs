@@ -1,0 +1,136 @@
+//! The one driver of every calculator command: options, help, errors, the text report
+//! printed from the core's readouts (the labels the pages show), JSON, and exit status.
+
+use std::process::ExitCode;
+
+use latchwise::calculator::{Calculator, Outcome, Visit};
+use latchwise::reliability::CAUTION;
+
+use crate::args::{options_help, parse};
+use crate::{EXIT_BAD_INPUT, EXIT_TARGET_MISSED};
+
+/// Runs the calculator chosen by name with the command's arguments.
+pub struct Run<'a>(pub &'a [String]);
+
+impl Visit for Run<'_> {
+    type Out = ExitCode;
+
+    fn visit<C: Calculator>(self) -> ExitCode {
+        drive::<C>(self.0)
+    }
+}
+
+/// Prints the help of the calculator chosen by name.
+pub struct Help;
+
+impl Visit for Help {
+    type Out = String;
+
+    fn visit<C: Calculator>(self) -> String {
+        help::<C>()
+    }
+}
+
+/// The help text of a calculator command: its usage and models, the options from its
+/// fields, the common options, exit statuses and the caution.
+pub fn help<C: Calculator>() -> String {
+    format!(
+        "latchwise {} - {}\n\n{}\nOptions (names equal the web page's URL keys):\n{}  \
+         --from-url URL    read parameters from a bookmarked page URL or '?query';\n                    \
+         options given explicitly override it\n  --json            print one JSON object \
+         instead of the report\n  --help            this text\n\nExit status: 0 success, 1 a \
+         target was given and is not met, 2 bad input.\n\nCaution: {CAUTION}\n",
+        C::NAME,
+        C::SUMMARY,
+        C::HELP,
+        options_help(C::FIELDS)
+    )
+}
+
+/// Runs calculator `C`: options, help, notes, errors, output and exit status.
+pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
+    let name = C::NAME;
+    let parsed = match parse(args, C::FIELDS) {
+        Ok(p) => p,
+        Err(msg) => {
+            eprintln!("latchwise {name}: {msg}");
+            return ExitCode::from(EXIT_BAD_INPUT);
+        }
+    };
+    if parsed.help {
+        print!("{}", help::<C>());
+        return ExitCode::SUCCESS;
+    }
+    for k in &parsed.ignored {
+        eprintln!("latchwise {name}: note: ignored unknown parameter '{k}' in --from-url");
+    }
+    let case = match C::read(&parsed.raw) {
+        Ok(c) => c,
+        Err(errs) => {
+            for e in &errs.0 {
+                eprintln!("latchwise {name}: {e}");
+            }
+            return ExitCode::from(EXIT_BAD_INPUT);
+        }
+    };
+    let report = C::evaluate(&case);
+    let outcome = C::outcome(&report);
+    if parsed.json {
+        match serde_json::to_string_pretty(&report) {
+            Ok(s) => println!("{s}"),
+            Err(e) => {
+                eprintln!("latchwise {name}: cannot write JSON: {e}");
+                return ExitCode::from(EXIT_BAD_INPUT);
+            }
+        }
+    } else {
+        print!("{}", text_report(C::TITLE, &outcome));
+    }
+    if outcome.target_missed {
+        ExitCode::from(EXIT_TARGET_MISSED)
+    } else {
+        ExitCode::SUCCESS
+    }
+}
+
+/// The human-readable report: inputs as understood, results, notes, warnings, caution.
+pub fn text_report(title: &str, o: &Outcome) -> String {
+    let width = o
+        .readouts
+        .iter()
+        .map(|r| r.label.chars().count())
+        .chain(o.inputs.iter().map(|(k, _)| k.chars().count()))
+        .max()
+        .unwrap_or(0)
+        + 2;
+    let mut s = format!("{title}\n\nInputs (as understood)\n");
+    for (k, v) in &o.inputs {
+        s.push_str(&format!("  {k:<width$}{v}\n"));
+    }
+    s.push_str("\nResults\n");
+    for r in &o.readouts {
+        let flag = match r.state {
+            "bad" => "  <-- MISSED",
+            _ => "",
+        };
+        s.push_str(&format!("  {:<width$}{}{flag}\n", r.label, r.text));
+    }
+    if !o.unused.is_empty() {
+        s.push_str(&format!(
+            "\nNot used by this case: {}\n",
+            o.unused.join(", ")
+        ));
+    }
+    if !o.warnings.is_empty() {
+        s.push_str("\nWarnings\n");
+        for w in &o.warnings {
+            s.push_str(&format!("  - {w}\n"));
+        }
+    }
+    s.push('\n');
+    for f in &o.facts {
+        s.push_str(&format!("{f}\n"));
+    }
+    s.push_str(&format!("Caution: {CAUTION}\n"));
+    s
+}

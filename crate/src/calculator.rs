@@ -1,0 +1,108 @@
+//! The one shape every calculator has: a name, its input fields, the reading of raw
+//! inputs into a case, an evaluation into a serialisable report, what a person reads of
+//! that report, and its plots. The command line, the WebAssembly binding and the tests
+//! drive every calculator through this trait alone.
+
+use serde::Serialize;
+
+use crate::chart::Plot;
+use crate::error::ParamErrors;
+use crate::params::{FieldSpec, RawInputs};
+use crate::readout::Readout;
+
+/// One calculator of the tool.
+///
+/// A readout's `name` is the report's JSON key and the `name` of the page's `<output>`;
+/// a field's `name` is its URL key and its command-line option.
+pub trait Calculator {
+    /// The command name (`latchwise NAME`), the page's `data-page` and its storage key.
+    const NAME: &'static str;
+    /// The page's title and the text report's heading.
+    const TITLE: &'static str;
+    /// One line for the command list.
+    const SUMMARY: &'static str;
+    /// The page that shows it, relative to the site's root.
+    const PAGE: &'static str;
+    /// The input fields in display order.
+    const FIELDS: &'static [FieldSpec];
+    /// The command's help: usage, models and an example (the options table and the
+    /// caution are added from `FIELDS` and the shared caution).
+    const HELP: &'static str;
+
+    /// A validated case; evaluating it cannot fail.
+    type Case;
+    /// Everything the case yields, as the command line's `--json` prints it.
+    type Report: Serialize;
+
+    /// Reads raw named inputs into a case.
+    ///
+    /// # Errors
+    /// Every field error found, each naming its field.
+    fn read(raw: &RawInputs) -> Result<Self::Case, ParamErrors>;
+
+    /// Evaluates a case.
+    fn evaluate(case: &Self::Case) -> Self::Report;
+
+    /// What a person reads of a report, in display order.
+    fn outcome(report: &Self::Report) -> Outcome;
+
+    /// The plots of a case, each keyed by its canvas id.
+    fn plots(case: &Self::Case) -> Vec<Plot>;
+}
+
+/// What a person reads of a report: the inputs as understood, the results, and notes.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Outcome {
+    /// The inputs as understood, normalised, keyed by parameter name.
+    pub inputs: Vec<(&'static str, String)>,
+    /// The results, in display order.
+    pub readouts: Vec<Readout>,
+    /// Standing facts of this result (the year length, the window convention).
+    pub facts: Vec<String>,
+    /// Suspicious but legal inputs.
+    pub warnings: Vec<String>,
+    /// Parameters given but not used by this case.
+    pub unused: Vec<&'static str>,
+    /// A target was given and is not met (the command exits with status 1).
+    pub target_missed: bool,
+}
+
+/// A calculator's identity, for lists and navigation.
+#[derive(Debug, Clone, Copy)]
+pub struct About {
+    /// See [`Calculator::NAME`].
+    pub name: &'static str,
+    /// See [`Calculator::TITLE`].
+    pub title: &'static str,
+    /// See [`Calculator::SUMMARY`].
+    pub summary: &'static str,
+    /// See [`Calculator::PAGE`].
+    pub page: &'static str,
+    /// See [`Calculator::FIELDS`].
+    pub fields: &'static [FieldSpec],
+    /// See [`Calculator::HELP`].
+    pub help: &'static str,
+}
+
+impl About {
+    /// The identity of `C`.
+    pub const fn of<C: Calculator>() -> About {
+        About {
+            name: C::NAME,
+            title: C::TITLE,
+            summary: C::SUMMARY,
+            page: C::PAGE,
+            fields: C::FIELDS,
+            help: C::HELP,
+        }
+    }
+}
+
+/// Something to do with a calculator chosen by name at run time (see
+/// `registry::dispatch`): each adapter writes its work once, generic over the calculator.
+pub trait Visit {
+    /// What the work returns.
+    type Out;
+    /// Does the work with calculator `C`.
+    fn visit<C: Calculator>(self) -> Self::Out;
+}

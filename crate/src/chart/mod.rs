@@ -1,0 +1,262 @@
+//! Chart layout and drawing, generic over the plotters backend (SVG natively, canvas in the browser).
+//!
+//! Y values arrive as base-10 logarithms and are drawn on a linear axis of those
+//! logarithms with decade labels (`1e40`), so the axis stays readable far beyond the
+//! range of an `f64`. Log-spaced x values are drawn the same way.
+
+use std::fmt;
+
+use plotters::coord::Shift;
+use plotters::prelude::*;
+
+use crate::units::format_si;
+
+mod axis;
+pub mod series;
+
+pub use axis::{decade_label, decade_ticks};
+pub use series::{Curve, Plot, Spacing};
+
+use axis::{x_ticks, TickedAxis};
+
+/// Series colours, in order: our own calm palette.
+const INK: [RGBColor; 4] = [
+    RGBColor(0x1d, 0x4e, 0x6b),
+    RGBColor(0x5b, 0x7f, 0x3a),
+    RGBColor(0x7a, 0x4a, 0x8c),
+    RGBColor(0x2f, 0x7f, 0x7a),
+];
+const TARGET: RGBColor = RGBColor(0xc0, 0x5a, 0x12);
+const MARK: RGBColor = RGBColor(0xb0, 0x1e, 0x2e);
+const GUIDE: RGBColor = RGBColor(0x6b, 0x72, 0x80);
+const GRID: RGBColor = RGBColor(0xe3, 0xe6, 0xea);
+const AXIS: RGBColor = RGBColor(0x44, 0x4b, 0x55);
+
+/// What was drawn, for tests and for the page's own checks.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Drawn {
+    /// The y tick values (log10), bottom to top.
+    pub y_ticks: Vec<f64>,
+    /// The y range (log10) shown.
+    pub y_range: (f64, f64),
+    /// Points drawn over all curves.
+    pub points: usize,
+}
+
+fn y_range(spec: &Plot) -> (f64, f64) {
+    let mut lo = f64::INFINITY;
+    let mut hi = f64::NEG_INFINITY;
+    let mut see = |y: f64| {
+        if y.is_finite() {
+            lo = lo.min(y);
+            hi = hi.max(y);
+        }
+    };
+    for c in &spec.curves {
+        c.points.iter().for_each(|p| see(p.1));
+    }
+    if let Some((y, _)) = &spec.hline {
+        see(*y);
+    }
+    if let Some((_, y)) = spec.marker {
+        see(y);
+    }
+    if !lo.is_finite() {
+        return (0.0, 1.0);
+    }
+    let pad = ((hi - lo) * 0.06).max(0.5);
+    (lo - pad, hi + pad)
+}
+
+fn x_range(spec: &Plot) -> (f64, f64) {
+    let (mut lo, mut hi) = (f64::INFINITY, f64::NEG_INFINITY);
+    for c in &spec.curves {
+        for p in &c.points {
+            let x = to_axis_x(spec.spacing, p.0);
+            if x.is_finite() {
+                lo = lo.min(x);
+                hi = hi.max(x);
+            }
+        }
+    }
+    if !lo.is_finite() {
+        return (0.0, 1.0);
+    }
+    match spec.spacing {
+        Spacing::Integer => (lo - 0.5, hi + 0.5),
+        _ if hi - lo <= 0.0 => (lo - 0.5, hi + 0.5),
+        _ => (lo, hi),
+    }
+}
+
+fn to_axis_x(spacing: Spacing, x: f64) -> f64 {
+    match spacing {
+        Spacing::Log => x.log10(),
+        _ => x,
+    }
+}
+
+fn x_label_text(spec: &Plot, x: f64) -> String {
+    match spec.spacing {
+        Spacing::Integer => format!("{}", x.round()),
+        Spacing::Log => format_si(10f64.powf(x), spec.x_unit),
+        Spacing::Linear => format_si(x, spec.x_unit),
+    }
+}
+
+/// A chart that could not be drawn: the backend's message.
+#[derive(Debug, Clone, PartialEq)]
+pub struct DrawError(pub String);
+
+impl fmt::Display for DrawError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        write!(f, "chart could not be drawn: {}", self.0)
+    }
+}
+
+impl std::error::Error for DrawError {}
+
+/// Draws `spec` on `area`, at `scale` device pixels per CSS pixel so that text and lines
+/// stay crisp on high-DPI screens.
+///
+/// # Errors
+/// The backend's drawing error.
+pub fn draw<DB: DrawingBackend>(
+    area: &DrawingArea<DB, Shift>,
+    spec: &Plot,
+    scale: f64,
+) -> Result<Drawn, DrawError> {
+    let s = scale.clamp(0.5, 4.0);
+    let px = |v: f64| (v * s).round() as u32;
+    let err = |e: DrawingAreaErrorKind<DB::ErrorType>| DrawError(e.to_string());
+    area.fill(&WHITE).map_err(err)?;
+    let (ylo, yhi) = y_range(spec);
+    let (xlo, xhi) = x_range(spec);
+    let y_ticks = decade_ticks(ylo, yhi, 8);
+    let xk = x_ticks(spec.spacing, xlo, xhi);
+    let font = |size: f64| ("sans-serif", size * s).into_font().color(&AXIS);
+    // Room for the longest decade label ("1e-399153" needs more than "1e40").
+    let widest = y_ticks
+        .iter()
+        .map(|t| decade_label(*t).len())
+        .max()
+        .unwrap_or(4) as f64;
+    let mut chart = ChartBuilder::on(area)
+        .margin(px(10.0))
+        .margin_right(px(18.0))
+        .caption(&spec.title, font(15.0))
+        .x_label_area_size(px(42.0))
+        .y_label_area_size(px(30.0 + 7.0 * widest))
+        .build_cartesian_2d(
+            TickedAxis {
+                lo: xlo,
+                hi: xhi,
+                ticks: xk,
+            },
+            TickedAxis {
+                lo: ylo,
+                hi: yhi,
+                ticks: y_ticks.clone(),
+            },
+        )
+        .map_err(err)?;
+    let x_fmt = |x: &f64| x_label_text(spec, *x);
+    let y_fmt = |y: &f64| decade_label(*y);
+    chart
+        .configure_mesh()
+        .x_desc(spec.x_label)
+        .y_desc(spec.y_label)
+        .x_label_formatter(&x_fmt)
+        .y_label_formatter(&y_fmt)
+        .label_style(font(12.0))
+        .axis_desc_style(font(12.5))
+        .bold_line_style(GRID.stroke_width(px(1.0).max(1)))
+        .light_line_style(TRANSPARENT)
+        .axis_style(AXIS.stroke_width(px(1.0).max(1)))
+        .draw()
+        .map_err(err)?;
+    let mut points = 0;
+    let mut legend = false;
+    for (i, c) in spec.curves.iter().enumerate() {
+        let color = INK[i % INK.len()];
+        let pts: Vec<(f64, f64)> = c
+            .points
+            .iter()
+            .map(|&(x, y)| (to_axis_x(spec.spacing, x), y))
+            .filter(|(x, y)| x.is_finite() && y.is_finite())
+            .collect();
+        points += pts.len();
+        let style = color.stroke_width(px(2.0).max(1));
+        let series = chart
+            .draw_series(LineSeries::new(pts.clone(), style))
+            .map_err(err)?;
+        if !c.label.is_empty() {
+            legend = true;
+            series
+                .label(c.label.clone())
+                .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], style));
+        }
+        if spec.spacing == Spacing::Integer && pts.len() <= 40 {
+            chart
+                .draw_series(pts.iter().map(|&p| Circle::new(p, px(2.5), color.filled())))
+                .map_err(err)?;
+        }
+    }
+    if let Some((y, label)) = &spec.hline {
+        let style = TARGET.stroke_width(px(1.5).max(1));
+        chart
+            .draw_series(LineSeries::new(vec![(xlo, *y), (xhi, *y)], style))
+            .map_err(err)?
+            .label(label.clone())
+            .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], style));
+        legend = true;
+    }
+    if let Some((x, label)) = &spec.vline {
+        let ax = to_axis_x(spec.spacing, *x);
+        let style = GUIDE.stroke_width(px(1.5).max(1));
+        chart
+            .draw_series(LineSeries::new(vec![(ax, ylo), (ax, yhi)], style))
+            .map_err(err)?
+            .label(label.clone())
+            .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], style));
+        legend = true;
+    }
+    if let Some((x, y)) = spec.marker {
+        let p = (to_axis_x(spec.spacing, x), y);
+        if p.0.is_finite() && p.1.is_finite() {
+            chart
+                .draw_series(std::iter::once(Circle::new(p, px(5.0), MARK.filled())))
+                .map_err(err)?
+                .label("this case")
+                .legend(move |(x, y)| Circle::new((x + 9, y), px(4.0), MARK.filled()));
+            legend = true;
+        }
+    }
+    if legend {
+        // Keep the legend off the curve: descending curves leave the upper right free.
+        let falling = spec
+            .curves
+            .first()
+            .and_then(|c| Some((c.points.first()?.1, c.points.last()?.1)))
+            .is_some_and(|(a, b)| b < a);
+        let corner = if falling {
+            SeriesLabelPosition::UpperRight
+        } else {
+            SeriesLabelPosition::LowerRight
+        };
+        chart
+            .configure_series_labels()
+            .label_font(font(11.5))
+            .background_style(WHITE.mix(0.85))
+            .border_style(GRID)
+            .position(corner)
+            .draw()
+            .map_err(err)?;
+    }
+    area.present().map_err(err)?;
+    Ok(Drawn {
+        y_ticks,
+        y_range: (ylo, yhi),
+        points,
+    })
+}

@@ -1,0 +1,133 @@
+//! What a plot shows, independent of how it is drawn: curves of (x, log10 y) points with
+//! their axes, reference lines and the operating point, and the CSV of the same data.
+
+use serde::Serialize;
+
+/// How a plot's x values are spaced (and so how its x axis is drawn).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Spacing {
+    /// Whole numbers.
+    Integer,
+    /// Evenly spaced.
+    Linear,
+    /// Evenly spaced in log10.
+    Log,
+}
+
+/// One curve: a legend text ("" for none) and (x, log10 y) points, x in base units.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Curve {
+    /// Legend text.
+    pub label: String,
+    /// (x, log10 y) pairs.
+    pub points: Vec<(f64, f64)>,
+}
+
+/// One plot of a calculator: what the page draws into the canvas `id` and what its CSV
+/// export holds.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Plot {
+    /// The canvas id on the page, also the CSV file stem (`plot-stages`).
+    pub id: &'static str,
+    /// Title above the plot.
+    pub title: String,
+    /// X axis title with its unit (`fclk (Hz)`); its first word names the CSV column.
+    pub x_label: &'static str,
+    /// Unit symbol of x ("" for counts).
+    pub x_unit: &'static str,
+    /// Spacing of x.
+    pub spacing: Spacing,
+    /// Column name of y in CSV output (a log10 quantity, `log10_mtbf_years`).
+    pub y_name: &'static str,
+    /// Y axis title (the quantity whose log10 is plotted).
+    pub y_label: &'static str,
+    /// The curves.
+    pub curves: Vec<Curve>,
+    /// A horizontal reference line at this log10 y, with its legend text.
+    pub hline: Option<(f64, String)>,
+    /// A vertical reference line at this x, with its legend text.
+    pub vline: Option<(f64, String)>,
+    /// The case being evaluated, as (x, log10 y).
+    pub marker: Option<(f64, f64)>,
+}
+
+impl Plot {
+    /// An empty plot with the given axes, to be filled by a sweep.
+    pub fn new(id: &'static str, title: &str, x: (&'static str, &'static str, Spacing)) -> Self {
+        Plot {
+            id,
+            title: title.to_string(),
+            x_label: x.0,
+            x_unit: x.1,
+            spacing: x.2,
+            y_name: "",
+            y_label: "",
+            curves: Vec::new(),
+            hline: None,
+            vline: None,
+            marker: None,
+        }
+    }
+
+    /// The same plot with its y axis named: CSV column and axis title.
+    pub fn y(mut self, name: &'static str, label: &'static str) -> Self {
+        self.y_name = name;
+        self.y_label = label;
+        self
+    }
+
+    /// The same plot with one unlabelled curve and the operating point.
+    pub fn single(mut self, points: Vec<(f64, f64)>, marker: (f64, f64)) -> Self {
+        self.curves = vec![Curve {
+            label: String::new(),
+            points,
+        }];
+        self.marker = Some(marker);
+        self
+    }
+
+    /// The points of the first curve (a sweep has one).
+    pub fn points(&self) -> &[(f64, f64)] {
+        self.curves.first().map_or(&[], |c| &c.points)
+    }
+
+    /// The points as CSV with a header naming the columns and their units; with more
+    /// than one curve a first column names the curve.
+    pub fn to_csv(&self) -> String {
+        let unit = if self.x_unit.is_empty() {
+            String::new()
+        } else {
+            format!("_{}", self.x_unit)
+        };
+        let x_col = self.x_label.split(' ').next().unwrap_or("x");
+        let many = self.curves.len() > 1;
+        let mut out = if many {
+            format!("curve,{x_col}{unit},{}\n", self.y_name)
+        } else {
+            format!("{x_col}{unit},{}\n", self.y_name)
+        };
+        for c in &self.curves {
+            for (x, y) in &c.points {
+                if many {
+                    out.push_str(&format!("\"{}\",", c.label.replace('"', "\"\"")));
+                }
+                out.push_str(&format!("{x:e},{y}\n"));
+            }
+        }
+        out
+    }
+}
+
+/// `n` values evenly spaced in log10 between `lo` and `hi` (both positive).
+pub fn log_space(lo: f64, hi: f64, n: usize) -> impl Iterator<Item = f64> {
+    let (a, b) = (lo.log10(), hi.log10());
+    let steps = n.saturating_sub(1).max(1) as f64;
+    (0..n).map(move |i| 10f64.powf(a + (b - a) * i as f64 / steps))
+}
+
+/// `n` values evenly spaced from 0 to `span`.
+pub fn lin_space(span: f64, n: usize) -> impl Iterator<Item = f64> {
+    let steps = n.saturating_sub(1).max(1) as f64;
+    (0..n).map(move |i| span * i as f64 / steps)
+}

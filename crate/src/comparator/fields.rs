@@ -1,0 +1,127 @@
+//! The comparator's input fields: one vocabulary for the URL, the CLI options and JSON.
+
+use crate::params::FieldSpec;
+use crate::units::Dim;
+
+/// `tau`: regeneration time constant (or give cl, gm, g0).
+pub const TAU: FieldSpec = FieldSpec {
+    name: "tau",
+    dim: Dim::Time,
+    help: "regeneration time constant (or give cl, gm, g0)",
+};
+/// `cl`: capacitance on each regenerating node.
+pub const CL: FieldSpec = FieldSpec {
+    name: "cl",
+    dim: Dim::Capacitance,
+    help: "capacitance on each regenerating node",
+};
+/// `gm`: transconductance of the cross-coupled pair (gmn + gmp).
+pub const GM: FieldSpec = FieldSpec {
+    name: "gm",
+    dim: Dim::Conductance,
+    help: "transconductance of the cross-coupled pair (gmn + gmp)",
+};
+/// `g0`: total positive conductance on the node.
+pub const G0: FieldSpec = FieldSpec {
+    name: "g0",
+    dim: Dim::Conductance,
+    help: "total positive conductance on the node",
+};
+/// `treg`: regeneration time available.
+pub const TREG: FieldSpec = FieldSpec {
+    name: "treg",
+    dim: Dim::Time,
+    help: "regeneration time available",
+};
+/// `extra-stages`: latch or flip-flop stages after the comparator (default 0).
+pub const EXTRA_STAGES: FieldSpec = FieldSpec {
+    name: "extra-stages",
+    dim: Dim::Count,
+    help: "latch or flip-flop stages after the comparator (default 0)",
+};
+/// `stage-time`: resolution time each extra stage adds.
+pub const STAGE_TIME: FieldSpec = FieldSpec {
+    name: "stage-time",
+    dim: Dim::Time,
+    help: "resolution time each extra stage adds",
+};
+/// `vmin`: output difference that counts as a decision.
+pub const VMIN: FieldSpec = FieldSpec {
+    name: "vmin",
+    dim: Dim::Voltage,
+    help: "output difference that counts as a decision",
+};
+/// `gain`: preamplifier gain before the latch (1 for a bare latch).
+pub const GAIN: FieldSpec = FieldSpec {
+    name: "gain",
+    dim: Dim::Ratio,
+    help: "preamplifier gain before the latch (1 for a bare latch)",
+};
+/// `input`: input model: uniform, gaussian, nrz, pam4 or sine.
+pub const INPUT: FieldSpec = FieldSpec {
+    name: "input",
+    dim: Dim::Choice,
+    help: "input model: uniform, gaussian, nrz, pam4 or sine",
+};
+/// `lsb`: threshold spacing (uniform, sine).
+pub const LSB: FieldSpec = FieldSpec {
+    name: "lsb",
+    dim: Dim::Voltage,
+    help: "threshold spacing (uniform, sine)",
+};
+/// `amp`: signal amplitude: data levels +-amp (nrz, pam4) or sine peak (sine).
+pub const AMP: FieldSpec = FieldSpec {
+    name: "amp",
+    dim: Dim::Voltage,
+    help: "signal amplitude: data levels +-amp (nrz, pam4) or sine peak (sine)",
+};
+/// `sigma`: Gaussian deviation (gaussian) or noise (nrz, pam4).
+pub const SIGMA: FieldSpec = FieldSpec {
+    name: "sigma",
+    dim: Dim::Voltage,
+    help: "Gaussian deviation (gaussian) or noise (nrz, pam4)",
+};
+/// `mean`: mean input relative to the threshold (gaussian, default 0).
+pub const MEAN: FieldSpec = FieldSpec {
+    name: "mean",
+    dim: Dim::Voltage,
+    help: "mean input relative to the threshold (gaussian, default 0)",
+};
+/// `fs`: decisions per second.
+pub const FS: FieldSpec = FieldSpec {
+    name: "fs",
+    dim: Dim::Frequency,
+    help: "decisions per second",
+};
+/// `target-ber`: largest error ratio allowed (optional).
+pub const TARGET_BER: FieldSpec = FieldSpec {
+    name: "target-ber",
+    dim: Dim::Ratio,
+    help: "largest error ratio allowed (optional)",
+};
+/// `vin`: an input whose decision time to report (optional).
+pub const VIN: FieldSpec = FieldSpec {
+    name: "vin",
+    dim: Dim::Voltage,
+    help: "an input whose decision time to report (optional)",
+};
+/// The input fields of the comparator calculator, in display order.
+pub const FIELDS: &[FieldSpec] = &[
+    TAU,
+    CL,
+    GM,
+    G0,
+    TREG,
+    EXTRA_STAGES,
+    STAGE_TIME,
+    VMIN,
+    GAIN,
+    INPUT,
+    LSB,
+    AMP,
+    SIGMA,
+    MEAN,
+    FS,
+    TARGET_BER,
+    VIN,
+];

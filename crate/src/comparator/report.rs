@@ -1,0 +1,320 @@
+//! The comparator's report: every result of a case, its readouts, notes and plots.
+
+use std::f64::consts::LN_10;
+
+use serde::Serialize;
+
+use crate::calculator::Outcome;
+use crate::chart::Plot;
+use crate::numeric::normal::ln_sum_exp;
+use crate::params::serialize_pairs;
+use crate::readout::Readout;
+use crate::reliability::{CAUTION, YEAR_S};
+use crate::units::{format_duration_log10, format_log10, format_si};
+
+use super::input::CompCase;
+use super::model::{decision_time, InputModel, TauSource};
+use super::sweep::{growth, p_vs_spread, p_vs_tau, p_vs_treg};
+
+/// Everything a comparator case yields.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct CompReport {
+    /// Normalised inputs.
+    #[serde(serialize_with = "serialize_pairs")]
+    pub inputs: Vec<(&'static str, String)>,
+    /// Input model name.
+    pub input_model: &'static str,
+    /// Regeneration time constant, s.
+    pub tau_s: f64,
+    /// How tau was obtained.
+    pub tau_source: TauSource,
+    /// Total regeneration time including extra stages, s.
+    pub treg_total_s: f64,
+    /// Critical input, V (0 when below the smallest f64; see `log10_vcrit_v`).
+    pub vcrit_v: f64,
+    /// log10 of the critical input in volts.
+    pub log10_vcrit_v: f64,
+    /// log10 of the metastability error probability per decision.
+    pub log10_p_error: f64,
+    /// log10 of metastability errors per second.
+    pub log10_errors_per_s: f64,
+    /// log10 of the mean time between metastability errors, s.
+    pub log10_mean_time_between_errors_s: f64,
+    /// log10 of the noise-only error ratio (data-link models).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub log10_p_noise: Option<f64>,
+    /// log10 of the total (metastability plus noise) error ratio.
+    pub log10_p_total: f64,
+    /// The target error ratio.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub target_ber: Option<f64>,
+    /// Whether the metastability error probability meets the target.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub meets_target: Option<bool>,
+    /// Decades of margin (negative: missed).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub margin_decades: Option<f64>,
+    /// Whether the total error ratio (with noise) meets the target.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub total_meets_target: Option<bool>,
+    /// Total regeneration time needed for the target, s.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub treg_needed_s: Option<f64>,
+    /// Largest tau meeting the target at this regeneration time, s (null: see
+    /// `not_applicable`).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub max_tau_s: Option<Option<f64>>,
+    /// Extra stages needed beyond treg (null: see `not_applicable`).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub extra_stages_needed: Option<Option<u64>>,
+    /// Decision time for `vin`, s.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub decision_time_s: Option<f64>,
+    /// For each result that is null: why it does not apply.
+    #[serde(serialize_with = "serialize_pairs")]
+    pub not_applicable: Vec<(&'static str, String)>,
+    /// Parameters given but not used by the input model.
+    pub unused: Vec<&'static str>,
+    /// Suspicious but legal inputs.
+    pub warnings: Vec<String>,
+    /// The standing caution.
+    pub caution: &'static str,
+}
+
+/// Evaluates a comparator case.
+pub fn evaluate(case: &CompCase) -> CompReport {
+    let c = &case.comp;
+    let ln_vc = c.ln_vcrit();
+    let ln_p = c.ln_p_error();
+    let ln_noise = c.ln_p_noise();
+    let ln_total = match ln_noise {
+        Some(n) => ln_sum_exp(&[ln_p, n]).min(0.0),
+        None => ln_p,
+    };
+    let ln_rate = ln_p + case.fs.get().ln();
+    let ln_target = case.target_ber.map(f64::ln);
+    let sizing = ln_target.map(|t| c.size_for(t));
+    let mut warnings = Vec::new();
+    let mut not_applicable = Vec::new();
+    if ln_p >= -1e-12 {
+        warnings.push("Every decision is at risk: vcrit is as large as the input spread, so the regeneration time is far too short.".into());
+    }
+    if let InputModel::Nrz { amp, sigma } | InputModel::Pam4 { amp, sigma } = c.input() {
+        if amp / sigma < 3.0 {
+            warnings.push(format!(
+                "amp/sigma = {:.2}: noise alone causes frequent errors.",
+                amp / sigma
+            ));
+        }
+    }
+    if c.treg_total() == 0.0 {
+        warnings.push(
+            "No regeneration time: the comparator decides only inputs already above vmin/gain."
+                .into(),
+        );
+    }
+    if !case.gain_given {
+        warnings.push("gain not given: taken as 1 (a bare latch with no preamplifier).".into());
+    }
+    CompReport {
+        inputs: case.echo(),
+        input_model: c.input().name(),
+        tau_s: c.tau().get(),
+        tau_source: c.tau_source(),
+        treg_total_s: c.treg_total(),
+        vcrit_v: ln_vc.exp(),
+        log10_vcrit_v: ln_vc / LN_10,
+        log10_p_error: ln_p / LN_10,
+        log10_errors_per_s: ln_rate / LN_10,
+        log10_mean_time_between_errors_s: -ln_rate / LN_10,
+        log10_p_noise: ln_noise.map(|n| n / LN_10),
+        log10_p_total: ln_total / LN_10,
+        target_ber: case.target_ber,
+        meets_target: ln_target.map(|t| ln_p <= t),
+        margin_decades: ln_target.map(|t| (t - ln_p) / LN_10),
+        total_meets_target: ln_target.map(|t| ln_total <= t),
+        treg_needed_s: sizing.map(|z| z.treg_needed_s),
+        max_tau_s: sizing.map(|z| {
+            z.max_tau_s.or_else(|| {
+                not_applicable.push((
+                    "max_tau_s",
+                    "any tau: the target is met without regeneration".to_string(),
+                ));
+                None
+            })
+        }),
+        extra_stages_needed: sizing.map(|z| {
+            z.extra_stages.or_else(|| {
+                not_applicable.push(("extra_stages_needed", "give stage-time".to_string()));
+                None
+            })
+        }),
+        decision_time_s: case
+            .vin
+            .map(|v| decision_time(c.tau().get(), c.vmin().get(), c.gain(), v.get())),
+        not_applicable,
+        unused: case.unused.clone(),
+        warnings,
+        caution: CAUTION,
+    }
+}
+
+impl CompReport {
+    /// The results as named readouts; keys equal the JSON keys.
+    pub fn readouts(&self) -> Vec<Readout> {
+        let mut v = vec![
+            Readout::new("tau_s", "tau", format_si(self.tau_s, "s"), Some(self.tau_s)),
+            Readout::new(
+                "treg_total_s",
+                "total regeneration time",
+                format_si(self.treg_total_s, "s"),
+                Some(self.treg_total_s),
+            ),
+            Readout::new(
+                "log10_vcrit_v",
+                "critical input vcrit",
+                format!("{} V", format_log10(self.log10_vcrit_v, 3)),
+                Some(self.log10_vcrit_v),
+            ),
+            Readout::new(
+                "log10_p_error",
+                "metastability error probability",
+                format_log10(self.log10_p_error, 3),
+                Some(self.log10_p_error),
+            ),
+            Readout::new(
+                "log10_errors_per_s",
+                "metastability errors per second",
+                format!("{} /s", format_log10(self.log10_errors_per_s, 3)),
+                Some(self.log10_errors_per_s),
+            ),
+            Readout::new(
+                "log10_mean_time_between_errors_s",
+                "mean time between errors",
+                format_duration_log10(self.log10_mean_time_between_errors_s, YEAR_S.log10()),
+                Some(self.log10_mean_time_between_errors_s),
+            ),
+        ];
+        if let Some(n) = self.log10_p_noise {
+            v.push(Readout::new(
+                "log10_p_noise",
+                "noise-only error ratio",
+                format_log10(n, 3),
+                Some(n),
+            ));
+        }
+        v.push(Readout::new(
+            "log10_p_total",
+            "total error ratio",
+            format_log10(self.log10_p_total, 3),
+            Some(self.log10_p_total),
+        ));
+        if let (Some(met), Some(m)) = (self.meets_target, self.margin_decades) {
+            v.push(Readout::verdict(met, m));
+            v.push(Readout::margin(m));
+        }
+        if let Some(t) = self.total_meets_target {
+            v.push(
+                Readout::new(
+                    "total_meets_target",
+                    "total against the target",
+                    if t { "met".into() } else { "missed".into() },
+                    Some(if t { 1.0 } else { 0.0 }),
+                )
+                .judged(t),
+            );
+        }
+        if let Some(t) = self.treg_needed_s {
+            v.push(Readout::new(
+                "treg_needed_s",
+                "regeneration time needed",
+                format_si(t, "s"),
+                Some(t),
+            ));
+        }
+        if let Some(t) = self.max_tau_s {
+            v.push(match t {
+                Some(t) => Readout::new(
+                    "max_tau_s",
+                    "largest tau allowed",
+                    format_si(t, "s"),
+                    Some(t),
+                ),
+                None => Readout::new(
+                    "max_tau_s",
+                    "largest tau allowed",
+                    self.why("max_tau_s"),
+                    None,
+                ),
+            });
+        }
+        if let Some(n) = self.extra_stages_needed {
+            v.push(match n {
+                Some(n) => Readout::new(
+                    "extra_stages_needed",
+                    "extra stages needed",
+                    n.to_string(),
+                    Some(n as f64),
+                ),
+                None => Readout::new(
+                    "extra_stages_needed",
+                    "extra stages needed",
+                    self.why("extra_stages_needed"),
+                    None,
+                ),
+            });
+        }
+        if let Some(t) = self.decision_time_s {
+            v.push(Readout::new(
+                "decision_time_s",
+                "decision time for vin",
+                format_si(t, "s"),
+                Some(t),
+            ));
+        }
+        v
+    }
+
+    fn why(&self, name: &str) -> String {
+        self.not_applicable
+            .iter()
+            .find(|(k, _)| *k == name)
+            .map_or_else(|| "n/a".to_string(), |(_, w)| w.clone())
+    }
+
+    /// What a person reads of the report.
+    pub fn outcome(&self) -> Outcome {
+        let mut facts = vec![format!(
+            "Input model: {}. Probabilities are per decision.",
+            self.input_model
+        )];
+        if self.log10_p_noise.is_some() {
+            facts.push(
+                "For a receiver the probabilities are bit-error ratios; the noise-only ratio \
+                 is shown beside the metastability one."
+                    .to_string(),
+            );
+        }
+        Outcome {
+            inputs: self.inputs.clone(),
+            readouts: self.readouts(),
+            facts,
+            warnings: self.warnings.clone(),
+            unused: self.unused.clone(),
+            target_missed: self.meets_target == Some(false),
+        }
+    }
+}
+
+/// The plots of a case: error probability against regeneration time, tau and the input
+/// spread, with the target line; and the latch's output growth for a few inputs.
+pub fn plots(case: &CompCase) -> Vec<Plot> {
+    let c = &case.comp;
+    let target = case.target_ber.map(|t| (t.log10(), "target".to_string()));
+    let mut v = vec![p_vs_treg(c, 200), p_vs_tau(c, 200), p_vs_spread(c, 60)];
+    for p in &mut v {
+        p.hline.clone_from(&target);
+    }
+    v.push(growth(c, 240));
+    v
+}

@@ -1,0 +1,4 @@
+//! Numerical tools the models share: the normal distribution in logarithms and root finding.
+
+pub mod normal;
+pub mod solve;

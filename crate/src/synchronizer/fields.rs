@@ -1,0 +1,100 @@
+//! The synchronizer's input fields: one vocabulary for the URL, the CLI options and JSON.
+
+use crate::params::FieldSpec;
+use crate::units::Dim;
+
+/// Regeneration time constant.
+pub const TAU: FieldSpec = FieldSpec {
+    name: "tau",
+    dim: Dim::Time,
+    help: "regeneration time constant",
+};
+/// Metastability window referred to tcq.
+pub const TW: FieldSpec = FieldSpec {
+    name: "tw",
+    dim: Dim::Time,
+    help: "metastability window, referred to tcq (give tw or t0)",
+};
+/// Metastability window counted from the clock edge.
+pub const T0: FieldSpec = FieldSpec {
+    name: "t0",
+    dim: Dim::Time,
+    help: "metastability window counted from the clock edge (instead of tw)",
+};
+/// Sampling clock.
+pub const FCLK: FieldSpec = FieldSpec {
+    name: "fclk",
+    dim: Dim::Frequency,
+    help: "sampling (receiving) clock frequency",
+};
+/// Data transition rate.
+pub const FDATA: FieldSpec = FieldSpec {
+    name: "fdata",
+    dim: Dim::Frequency,
+    help: "data transition rate (edges per second)",
+};
+/// Flip-flops in the chain.
+pub const STAGES: FieldSpec = FieldSpec {
+    name: "stages",
+    dim: Dim::Count,
+    help: "flip-flops in the synchronizer chain (1 to 1000)",
+};
+/// Setup time of the next flip-flop.
+pub const TSU: FieldSpec = FieldSpec {
+    name: "tsu",
+    dim: Dim::Time,
+    help: "setup time of the next flip-flop",
+};
+/// Nominal clock-to-output delay.
+pub const TCQ: FieldSpec = FieldSpec {
+    name: "tcq",
+    dim: Dim::Time,
+    help: "nominal clock-to-output delay (not used with t0)",
+};
+/// Explicit resolution time.
+pub const TR: FieldSpec = FieldSpec {
+    name: "tr",
+    dim: Dim::Time,
+    help: "explicit resolution time (overrides stages, tsu, tcq)",
+};
+/// MTBF target in years.
+pub const TARGET_YEARS: FieldSpec = FieldSpec {
+    name: "target-years",
+    dim: Dim::Ratio,
+    help: "required MTBF in years (optional)",
+};
+/// FIT target.
+pub const TARGET_FIT: FieldSpec = FieldSpec {
+    name: "target-fit",
+    dim: Dim::Ratio,
+    help: "allowed FIT (optional, instead of target-years)",
+};
+/// Devices in the field.
+pub const UNITS: FieldSpec = FieldSpec {
+    name: "units",
+    dim: Dim::Count,
+    help: "devices in the field, for fleet figures (optional)",
+};
+/// Operating years per device.
+pub const SERVICE_YEARS: FieldSpec = FieldSpec {
+    name: "service-years",
+    dim: Dim::Ratio,
+    help: "operating years per device, for fleet figures (optional)",
+};
+
+/// The input fields of the synchronizer calculator, in display order.
+pub const FIELDS: &[FieldSpec] = &[
+    TAU,
+    TW,
+    T0,
+    FCLK,
+    FDATA,
+    STAGES,
+    TSU,
+    TCQ,
+    TR,
+    TARGET_YEARS,
+    TARGET_FIT,
+    UNITS,
+    SERVICE_YEARS,
+];

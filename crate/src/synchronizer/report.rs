@@ -1,0 +1,328 @@
+//! The synchronizer's report: every result of a case, its readouts, notes and plots.
+
+use serde::Serialize;
+
+use crate::calculator::Outcome;
+use crate::chart::Plot;
+use crate::params::serialize_pairs;
+use crate::readout::Readout;
+use crate::reliability::{fleet_outcome, FleetOutcome, Target, CAUTION, YEAR_DAYS, YEAR_S};
+use crate::units::{format_duration_log10, format_log10, format_si};
+
+use super::input::SyncCase;
+use super::model::{StagesNeeded, TauLimit, Window};
+use super::sweep::{mtbf_vs_fclk, mtbf_vs_stages, mtbf_vs_tau};
+
+/// Everything a synchronizer case yields, ready to print or to serialise.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct SyncReport {
+    /// Window convention used, `tw` or `t0`.
+    pub convention: &'static str,
+    /// Days per year in the year figures.
+    pub year_days: f64,
+    /// Normalised inputs, serialised as an object in field order.
+    #[serde(serialize_with = "serialize_pairs")]
+    pub inputs: Vec<(&'static str, String)>,
+    /// Time per extra stage in seconds (absent with an explicit tr).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub hop_time_s: Option<f64>,
+    /// Resolution time in seconds.
+    pub resolution_time_s: f64,
+    /// log10 failure probability per data transition.
+    pub log10_p_fail: f64,
+    /// log10 failures per second.
+    pub log10_rate_per_s: f64,
+    /// log10 MTBF in seconds.
+    pub log10_mtbf_s: f64,
+    /// log10 MTBF in years.
+    pub log10_mtbf_years: f64,
+    /// log10 FIT.
+    pub log10_fit: f64,
+    /// The target, if any.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub target: Option<Target>,
+    /// Whether the target is met.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub meets_target: Option<bool>,
+    /// Decades by which the target is met (negative: missed).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub margin_decades: Option<f64>,
+    /// Smallest chain length meeting the target (null: does not apply, see `not_applicable`).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub min_stages: Option<Option<u64>>,
+    /// Highest fclk meeting the target at this depth, in Hz (null: none, see `not_applicable`).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub max_fclk_hz: Option<Option<f64>>,
+    /// Largest tau meeting the target at this resolution time, in seconds (null: see
+    /// `not_applicable`).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub max_tau_s: Option<Option<f64>>,
+    /// Fleet figures, if a fleet was given.
+    #[serde(flatten, skip_serializing_if = "Option::is_none")]
+    pub fleet: Option<FleetOutcome>,
+    /// For each result that is null: why it does not apply.
+    #[serde(serialize_with = "serialize_pairs")]
+    pub not_applicable: Vec<(&'static str, String)>,
+    /// Suspicious but legal inputs.
+    pub warnings: Vec<String>,
+    /// The standing caution.
+    pub caution: &'static str,
+}
+
+/// Evaluates a case: results, solver answers for the target, fleet figures and warnings.
+pub fn evaluate(case: &SyncCase) -> SyncReport {
+    let s = &case.sync;
+    let log10_rate = s.log10_rate();
+    let log10_p = s.log10_p_fail();
+    let target_max = case.target.map(Target::log10_max_rate);
+    let mut not_applicable = Vec::new();
+    let mut reason = |key: &'static str, why: &str| not_applicable.push((key, why.to_string()));
+    let min_stages = target_max.map(|m| match s.min_stages(m) {
+        StagesNeeded::Stages(n) => Some(n),
+        StagesNeeded::NotApplicable => {
+            reason("min_stages", "tr given: no chain to size");
+            None
+        }
+    });
+    let max_fclk_hz = target_max.map(|m| {
+        let f = s.max_fclk(s.stages(), m);
+        if f.is_none() {
+            reason("max_fclk_hz", "no clock meets the target at this depth");
+        }
+        f
+    });
+    let max_tau_s = target_max.map(|m| match s.max_tau(m) {
+        TauLimit::Max(t) => Some(t),
+        TauLimit::Any => {
+            reason(
+                "max_tau_s",
+                "any tau: the target is met without resolution time",
+            );
+            None
+        }
+        TauLimit::None => {
+            reason("max_tau_s", "none: no resolution time to work with");
+            None
+        }
+    });
+    SyncReport {
+        convention: s.window().name(),
+        year_days: YEAR_DAYS,
+        inputs: case.echo(),
+        hop_time_s: s.tr().is_none().then(|| s.hop_time()),
+        resolution_time_s: s.resolution_time(),
+        log10_p_fail: log10_p,
+        log10_rate_per_s: log10_rate,
+        log10_mtbf_s: -log10_rate,
+        log10_mtbf_years: -log10_rate - YEAR_S.log10(),
+        log10_fit: s.log10_fit(),
+        target: case.target,
+        meets_target: target_max.map(|m| log10_rate <= m),
+        margin_decades: target_max.map(|m| m - log10_rate),
+        min_stages,
+        max_fclk_hz,
+        max_tau_s,
+        fleet: case.fleet.map(|f| fleet_outcome(log10_rate, f)),
+        not_applicable,
+        warnings: warnings(case, log10_p),
+        caution: CAUTION,
+    }
+}
+
+fn warnings(case: &SyncCase, log10_p: f64) -> Vec<String> {
+    let s = &case.sync;
+    let mut w = Vec::new();
+    if s.fdata().get() > s.fclk().get() {
+        w.push(format!(
+            "fdata ({}) exceeds fclk ({}): a plain synchronizer cannot pass every value; \
+             a handshake or an asynchronous FIFO is the usual remedy.",
+            s.fdata().display(),
+            s.fclk().display()
+        ));
+    }
+    if log10_p > 0.0 {
+        w.push(
+            "The failure probability per transition comes out above 1: the resolution time \
+             is too short for this first-order model, which then only says 'fails often'."
+                .into(),
+        );
+    }
+    if s.tr().is_none() && s.stages() == 1 {
+        w.push(
+            "stages = 1 leaves no resolution time: the sampled value goes straight into logic."
+                .into(),
+        );
+    }
+    if let (Window::T0(_), None) = (s.window(), s.tr()) {
+        w.push(
+            "Window counted from the clock edge (t0): tcq is not used; resolution time is \
+             (stages - 1) * (1/fclk - tsu)."
+                .into(),
+        );
+    }
+    if s.window().seconds() > 1e-9 && matches!(s.window(), Window::Tw(_)) {
+        w.push(format!(
+            "tw = {} is unusually wide for a CMOS flip-flop (tens of ps is typical); \
+             if it is counted from the clock edge, enter it as t0.",
+            format_si(s.window().seconds(), "s")
+        ));
+    }
+    w
+}
+
+/// A readout for a result that may not apply: its number, or the reason in words.
+fn maybe(
+    r: &SyncReport,
+    name: &'static str,
+    label: &'static str,
+    value: Option<f64>,
+    text: impl Fn(f64) -> String,
+) -> Readout {
+    match value {
+        Some(v) => Readout::new(name, label, text(v), Some(v)),
+        None => {
+            let why = r
+                .not_applicable
+                .iter()
+                .find(|(k, _)| *k == name)
+                .map_or_else(|| "n/a".to_string(), |(_, w)| w.clone());
+            Readout::new(name, label, why, None)
+        }
+    }
+}
+
+impl SyncReport {
+    /// The results as named readouts, in display order; keys equal the JSON keys.
+    pub fn readouts(&self) -> Vec<Readout> {
+        let l10y = YEAR_S.log10();
+        let mut v = Vec::new();
+        if let Some(h) = self.hop_time_s {
+            v.push(Readout::new(
+                "hop_time_s",
+                "time per extra stage",
+                format_si(h, "s"),
+                Some(h),
+            ));
+        }
+        v.extend([
+            Readout::new(
+                "resolution_time_s",
+                "resolution time",
+                format_si(self.resolution_time_s, "s"),
+                Some(self.resolution_time_s),
+            ),
+            Readout::new(
+                "log10_mtbf_years",
+                "MTBF",
+                format_duration_log10(self.log10_mtbf_s, l10y),
+                Some(self.log10_mtbf_years),
+            ),
+            Readout::new(
+                "log10_mtbf_s",
+                "MTBF in seconds",
+                format!("{} s", format_log10(self.log10_mtbf_s, 3)),
+                Some(self.log10_mtbf_s),
+            ),
+            Readout::new(
+                "log10_fit",
+                "FIT",
+                format_log10(self.log10_fit, 3),
+                Some(self.log10_fit),
+            ),
+            Readout::new(
+                "log10_p_fail",
+                "failure probability per data edge",
+                format_log10(self.log10_p_fail, 3),
+                Some(self.log10_p_fail),
+            ),
+            Readout::new(
+                "log10_rate_per_s",
+                "failure rate",
+                format!("{} /s", format_log10(self.log10_rate_per_s, 3)),
+                Some(self.log10_rate_per_s),
+            ),
+        ]);
+        if let (Some(met), Some(margin)) = (self.meets_target, self.margin_decades) {
+            v.push(Readout::verdict(met, margin));
+            v.push(Readout::margin(margin));
+        }
+        if let Some(n) = self.min_stages {
+            v.push(maybe(
+                self,
+                "min_stages",
+                "smallest stage count for the target",
+                n.map(|n| n as f64),
+                |n| format!("{n:.0}"),
+            ));
+        }
+        if let Some(f) = self.max_fclk_hz {
+            v.push(maybe(
+                self,
+                "max_fclk_hz",
+                "highest fclk at this depth",
+                f,
+                |f| format_si(f, "Hz"),
+            ));
+        }
+        if let Some(t) = self.max_tau_s {
+            v.push(maybe(self, "max_tau_s", "largest tau at this tr", t, |t| {
+                format_si(t, "s")
+            }));
+        }
+        if let Some(f) = self.fleet {
+            v.push(Readout::new(
+                "log10_expected_failures",
+                "expected failures in the fleet",
+                format_log10(f.log10_expected_failures, 3),
+                Some(f.log10_expected_failures),
+            ));
+            v.push(Readout::new(
+                "log10_p_any_failure",
+                "probability of at least one",
+                format_log10(f.log10_p_any_failure, 3),
+                Some(f.log10_p_any_failure),
+            ));
+        }
+        v
+    }
+
+    /// What a person reads of the report.
+    pub fn outcome(&self) -> Outcome {
+        let convention = if self.convention == "t0" {
+            "Window convention: t0, counted from the clock edge."
+        } else {
+            "Window convention: tw, referred to the nominal clock-to-output delay."
+        };
+        Outcome {
+            inputs: self.inputs.clone(),
+            readouts: self.readouts(),
+            facts: vec![
+                convention.to_string(),
+                format!(
+                    "A year is {} days; FIT counts failures per 1e9 device-hours.",
+                    self.year_days
+                ),
+            ],
+            warnings: self.warnings.clone(),
+            unused: Vec::new(),
+            target_missed: self.meets_target == Some(false),
+        }
+    }
+}
+
+/// The plots of a case: MTBF against depth, clock and tau, with the target line.
+pub fn plots(case: &SyncCase) -> Vec<Plot> {
+    let s = &case.sync;
+    let target = case
+        .target
+        .map(|t| (t.log10_mtbf_years(), "target".to_string()));
+    let mut v = vec![
+        mtbf_vs_stages(s, (s.stages() + 4).max(6)),
+        mtbf_vs_fclk(s, 200),
+        mtbf_vs_tau(s, 200),
+    ];
+    for p in &mut v {
+        p.hline.clone_from(&target);
+    }
+    v
+}

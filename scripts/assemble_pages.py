@@ -1,0 +1,59 @@
+#!/usr/bin/env python3
+"""Assembles the site's pages: each www/*.html holds one calculator's own content under a
+first-line header comment, and gets the shared head, navigation and foot from
+www/_parts/. The navigation lists every page, in the order its header gives.
+
+Usage: scripts/assemble_pages.py SRC_DIR OUT_DIR
+
+A page starts with a header such as
+    <!-- page: sync; title: Synchronizer MTBF; nav: Synchronizer; order: 1 -->
+"""
+import html
+import pathlib
+import re
+import sys
+
+HEADER = re.compile(r"^<!--(.*?)-->\n", re.S)
+KEYS = ("page", "title", "nav", "order")
+
+
+def read_page(path):
+    text = path.read_text(encoding="utf-8")
+    m = HEADER.match(text)
+    if not m:
+        sys.exit(f"assemble: {path}: the first line must be the page header comment")
+    meta = {}
+    for part in m.group(1).split(";"):
+        key, _, value = part.partition(":")
+        meta[key.strip()] = value.strip()
+    missing = [k for k in KEYS if not meta.get(k)]
+    if missing:
+        sys.exit(f"assemble: {path}: header lacks {', '.join(missing)}")
+    return meta, text[m.end():]
+
+
+def main(src, out):
+    src, out = pathlib.Path(src), pathlib.Path(out)
+    head = (src / "_parts" / "head.html").read_text(encoding="utf-8")
+    foot = (src / "_parts" / "foot.html").read_text(encoding="utf-8")
+    pages = sorted(
+        (read_page(p) + (p.name,) for p in src.glob("*.html")),
+        key=lambda t: int(t[0]["order"]),
+    )
+    for meta, body, name in pages:
+        current = ' aria-current="page"'
+        nav = "\n".join(
+            f'    <a href="{other}"{current if other == name else ""}>'
+            f"{html.escape(m['nav'])}</a>"
+            for m, _, other in pages
+        )
+        fill = {"title": html.escape(meta["title"]), "page": meta["page"], "nav": nav}
+        page = re.sub(r"\{\{(\w+)\}\}", lambda k: fill[k.group(1)], head)
+        page += body + re.sub(r"\{\{(\w+)\}\}", lambda k: fill[k.group(1)], foot)
+        (out / name).write_text(page, encoding="utf-8")
+
+
+if __name__ == "__main__":
+    if len(sys.argv) != 3:
+        sys.exit(__doc__)
+    main(sys.argv[1], sys.argv[2])

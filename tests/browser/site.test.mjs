@@ -1,0 +1,36 @@
+// Real-browser tests of what every page shares: the assembled navigation, and each
+// calculator opening on its own last case from it.
+import { test, before, after } from 'node:test';
+import assert from 'node:assert/strict';
+import { setup, open, fileUrl } from './harness.mjs';
+
+const env = setup({ before, after });
+const pages = ['index.html', 'comparator.html'];
+
+test('every page lists every calculator in its navigation and marks itself', async () => {
+  for (const p of pages) {
+    const { context, page, problems } = await open(env.browser, fileUrl(p));
+    const links = await page.$$eval('header nav a', (as) => as.map((a) => [a.getAttribute('href'), a.getAttribute('aria-current')]));
+    assert.deepEqual(links.map((l) => l[0]).sort(), [...pages].sort(), p);
+    assert.deepEqual(links.filter((l) => l[1] === 'page').map((l) => l[0]), [p]);
+    assert.match(await page.textContent('footer'), /latchwise (sync|comparator)/);
+    assert.equal(await page.$$eval('#caution', (e) => e.length), 1);
+    assert.deepEqual(problems, []);
+    await context.close();
+  }
+});
+
+test('the navigation opens each calculator on its own last case, carrying nothing', async () => {
+  const { context, page } = await open(env.browser, env.server.url + 'index.html');
+  await page.fill('[name="tau"]', '33ps');
+  await Promise.all([page.waitForNavigation(), page.click('header nav a[href="comparator.html"]')]);
+  await page.waitForSelector('body[data-ready="yes"]');
+  assert.equal(await page.inputValue('[name="tau"]'), '15ps', 'the comparator keeps its own tau');
+  await page.fill('[name="tau"]', '17ps');
+  await page.fill('[name="fs"]', '28GHz');
+  await Promise.all([page.waitForNavigation(), page.click('header nav a[href="index.html"]')]);
+  await page.waitForSelector('body[data-ready="yes"]');
+  assert.equal(await page.inputValue('[name="tau"]'), '33ps');
+  assert.equal(await page.inputValue('[name="fclk"]'), '1GHz', 'no slicer clock lands in the synchronizer');
+  await context.close();
+});

@@ -1,0 +1,292 @@
+//! The project's conventions, read from the source tree and the pages: one vocabulary
+//! (a readout's name is its JSON key and its page `<output name>`, with the same label;
+//! a field's name is its page `<input name>`), every calculator on a page in the
+//! navigation, every Rust file opening with `//!`, and a core that does no I/O.
+
+use std::collections::BTreeSet;
+use std::path::{Path, PathBuf};
+use std::process::Command;
+
+use latchwise::calculator::{Calculator, Visit};
+use latchwise::params::RawInputs;
+use latchwise::registry::{dispatch, ALL};
+use serde_json::Value;
+
+/// Cases that together show every result of each calculator.
+fn coverage(name: &str) -> &'static [&'static str] {
+    match name {
+        "sync" => &[
+            "tau=20ps&tw=40ps&fclk=1GHz&fdata=100MHz&stages=2&tsu=30ps&tcq=50ps&target-years=1e6&units=1e6&service-years=10",
+            "tau=20ps&tw=40ps&fclk=1GHz&fdata=100MHz&tr=900ps&target-fit=1",
+            "tau=20ps&tw=40ps&fclk=1GHz&fdata=1&stages=2&tsu=30ps&tcq=50ps&target-years=1e-7",
+        ],
+        "comparator" => &[
+            "tau=15ps&treg=80ps&extra-stages=2&stage-time=100ps&vmin=0.4&gain=4&input=uniform&lsb=1mV&fs=5GHz&target-ber=1e-10",
+            "tau=15ps&treg=40ps&vmin=0.4&gain=4&input=nrz&amp=40mV&sigma=4mV&fs=28GHz&target-ber=1e-12&vin=1uV",
+            "cl=20f&gm=2m&g0=0.4m&treg=1ns&vmin=0.4&input=pam4&amp=150m&sigma=8m&fs=1G&target-ber=1e-15",
+        ],
+        other => panic!("no coverage cases for calculator '{other}': add them here"),
+    }
+}
+
+fn root() -> PathBuf {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+}
+
+fn read(path: &Path) -> String {
+    std::fs::read_to_string(path).unwrap_or_else(|e| panic!("{}: {e}", path.display()))
+}
+
+/// Every value of `attr` on the tags named `tag` (`<input`, `<select`, `<output`).
+fn attr_values(html: &str, tag: &str, attr: &str) -> Vec<String> {
+    html.match_indices(&format!("<{tag} "))
+        .filter_map(|(i, _)| {
+            let end = html[i..].find('>')? + i;
+            let t = &html[i..end];
+            let key = format!(" {attr}=\"");
+            let s = t.find(&key)? + key.len();
+            let e = t[s..].find('"')? + s;
+            Some(t[s..e].to_string())
+        })
+        .collect()
+}
+
+/// Text with tags removed, entities of the pages resolved, and the page's Greek letter
+/// written as its parameter name (the page shows τ where the command prints tau).
+fn plain(html: &str) -> String {
+    let mut out = String::new();
+    let mut in_tag = false;
+    for c in html.chars() {
+        match c {
+            '<' => in_tag = true,
+            '>' => in_tag = false,
+            c if !in_tag => out.push(c),
+            _ => {}
+        }
+    }
+    out.replace('τ', "tau").trim().to_string()
+}
+
+/// The label the page shows beside `<output name="name">`: the `<dt>` of its row or the
+/// `<span class="lbl">` of its headline box.
+fn page_label(html: &str, name: &str) -> Option<String> {
+    let at = html.find(&format!("<output name=\"{name}\""))?;
+    let before = &html[..at];
+    let (open, close) = if before.trim_end().ends_with("<dd>") {
+        ("<dt>", "</dt>")
+    } else {
+        ("<span class=\"lbl\">", "</span>")
+    };
+    let e = before.rfind(close)?;
+    let s = before[..e].rfind(open)? + open.len();
+    Some(plain(&before[s..e]))
+}
+
+/// The header comment of a page source: key -> value.
+fn header(html: &str) -> Vec<(String, String)> {
+    let first = html.lines().next().unwrap_or("");
+    let body = first
+        .strip_prefix("<!--")
+        .and_then(|s| s.strip_suffix("-->"))
+        .unwrap_or_else(|| panic!("page header missing: {first}"));
+    body.split(';')
+        .filter_map(|p| p.split_once(':'))
+        .map(|(k, v)| (k.trim().to_string(), v.trim().to_string()))
+        .collect()
+}
+
+struct Vocabulary;
+
+impl Visit for Vocabulary {
+    type Out = ();
+
+    fn visit<C: Calculator>(self) {
+        let page = read(&root().join("www").join(C::PAGE));
+        let meta = header(&page);
+        let get = |k: &str| meta.iter().find(|(m, _)| m == k).map(|(_, v)| v.as_str());
+        assert_eq!(get("page"), Some(C::NAME), "{}: page header", C::PAGE);
+        assert_eq!(get("title"), Some(C::TITLE), "{}: title", C::PAGE);
+        assert!(
+            get("nav").is_some_and(|n| !n.is_empty()) && get("order").is_some(),
+            "{}: every calculator's page is in the navigation",
+            C::PAGE
+        );
+
+        // Fields: one <input> or <select> per field, and no input that is not a field.
+        let fields: BTreeSet<String> = C::FIELDS.iter().map(|f| f.name.to_string()).collect();
+        let inputs: BTreeSet<String> = attr_values(&page, "input", "name")
+            .into_iter()
+            .chain(attr_values(&page, "select", "name"))
+            .collect();
+        assert_eq!(fields, inputs, "{}: fields against page inputs", C::NAME);
+
+        // Readouts: JSON key, page output and label agree, over cases that show them all.
+        let outputs: BTreeSet<String> = attr_values(&page, "output", "name").into_iter().collect();
+        let mut shown = BTreeSet::new();
+        for q in coverage(C::NAME) {
+            let case = C::read(&RawInputs::from_query(q)).unwrap_or_else(|e| panic!("{q}: {e}"));
+            let report = C::evaluate(&case);
+            let json = serde_json::to_value(&report).unwrap();
+            let outcome = C::outcome(&report);
+            for r in &outcome.readouts {
+                let key = r.name;
+                shown.insert(key.to_string());
+                let j = json
+                    .get(key)
+                    .unwrap_or_else(|| panic!("{q}: readout {key} is no JSON key"));
+                match (r.value, j) {
+                    (Some(v), Value::Number(n)) => {
+                        assert_eq!(n.as_f64(), Some(v), "{q}: {key} readout against JSON")
+                    }
+                    (Some(v), Value::Bool(b)) => {
+                        assert_eq!(*b, v == 1.0, "{q}: {key} readout against JSON")
+                    }
+                    (None, Value::Null) => assert!(
+                        json["not_applicable"][key].is_string(),
+                        "{q}: {key} is null in JSON without a reason"
+                    ),
+                    (v, j) => panic!("{q}: {key}: readout {v:?} against JSON {j}"),
+                }
+                assert!(
+                    outputs.contains(key),
+                    "{q}: {key} has no <output> on {}",
+                    C::PAGE
+                );
+                assert_eq!(
+                    page_label(&page, key).as_deref(),
+                    Some(r.label),
+                    "{}: the page's label of {key}",
+                    C::PAGE
+                );
+            }
+            // The command prints the same readouts with the same labels.
+            let args: Vec<String> = RawInputs::from_query(q)
+                .pairs()
+                .iter()
+                .flat_map(|(k, v)| [format!("--{k}"), v.clone()])
+                .collect();
+            let out = Command::new(env!("CARGO_BIN_EXE_latchwise"))
+                .arg(C::NAME)
+                .args(&args)
+                .output()
+                .unwrap();
+            let text = String::from_utf8_lossy(&out.stdout);
+            for r in &outcome.readouts {
+                let line = format!("{} ", r.label);
+                assert!(
+                    text.lines()
+                        .any(|l| l.trim_start().starts_with(&line) && l.contains(&r.text)),
+                    "{q}: the text report lacks '{} {}':\n{text}",
+                    r.label,
+                    r.text
+                );
+            }
+        }
+        assert_eq!(shown, outputs, "{}: page outputs against readouts", C::NAME);
+    }
+}
+
+#[test]
+fn one_vocabulary_across_core_json_cli_and_pages() {
+    assert!(!ALL.is_empty());
+    for about in ALL {
+        dispatch(about.name, Vocabulary).unwrap();
+    }
+}
+
+#[test]
+fn every_page_is_a_calculator_and_the_parts_carry_the_navigation() {
+    let www = root().join("www");
+    let head = read(&www.join("_parts/head.html"));
+    assert!(head.contains("{{nav}}") && head.contains("{{title}}"));
+    let pages: BTreeSet<String> = std::fs::read_dir(&www)
+        .unwrap()
+        .filter_map(|e| e.ok())
+        .map(|e| e.file_name().to_string_lossy().into_owned())
+        .filter(|n| n.ends_with(".html"))
+        .collect();
+    let registered: BTreeSet<String> = ALL.iter().map(|a| a.page.to_string()).collect();
+    assert_eq!(
+        pages, registered,
+        "pages in www/ against registered calculators"
+    );
+    let orders: BTreeSet<String> = pages
+        .iter()
+        .map(|p| {
+            let h = header(&read(&www.join(p)));
+            h.into_iter().find(|(k, _)| k == "order").unwrap().1
+        })
+        .collect();
+    assert_eq!(
+        orders.len(),
+        pages.len(),
+        "each page has its own navigation order"
+    );
+}
+
+fn rust_files(dir: &Path, out: &mut Vec<PathBuf>) {
+    for e in std::fs::read_dir(dir).unwrap().filter_map(|e| e.ok()) {
+        let p = e.path();
+        if p.is_dir() {
+            rust_files(&p, out);
+        } else if p.extension().is_some_and(|x| x == "rs") {
+            out.push(p);
+        }
+    }
+}
+
+#[test]
+fn every_rust_file_says_what_it_holds() {
+    let mut files = Vec::new();
+    rust_files(&root().join("crate"), &mut files);
+    rust_files(&root().join("tests"), &mut files);
+    assert!(files.len() > 20);
+    for f in files {
+        assert!(
+            read(&f).starts_with("//!"),
+            "{} does not open with //!",
+            f.display()
+        );
+    }
+}
+
+#[test]
+fn the_core_does_no_io_and_no_calculator_imports_another() {
+    let mut files = Vec::new();
+    rust_files(&root().join("crate/src"), &mut files);
+    for f in &files {
+        let name = f.to_string_lossy();
+        if name.ends_with("wasm.rs") {
+            continue;
+        }
+        let text = read(f);
+        let code: String = text
+            .lines()
+            .filter(|l| !l.trim_start().starts_with("//"))
+            .collect::<Vec<_>>()
+            .join("\n");
+        for banned in [
+            "std::fs",
+            "std::io",
+            "std::process",
+            "std::env",
+            "web_sys",
+            "println!",
+            "eprintln!",
+            "print!(",
+        ] {
+            assert!(!code.contains(banned), "{name} names {banned}");
+        }
+        for (calc, other) in [
+            ("synchronizer", "comparator"),
+            ("comparator", "synchronizer"),
+        ] {
+            if name.contains(&format!("/src/{calc}/")) {
+                assert!(
+                    !code.contains(&format!("crate::{other}")),
+                    "{name} imports the {other} calculator"
+                );
+            }
+        }
+    }
+}
