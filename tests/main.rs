@@ -5,6 +5,7 @@ mod cli;
 mod comparator;
 mod plot;
 mod properties;
+mod readme;
 mod reference;
 mod tidy;
 mod tolerance;

@@ -9,6 +9,9 @@
 //!   (`assert_published`, `assert_quoted`), never to more digits than the source gives.
 //! - `SOLVER_LOG10_ABS`: bisection and closed-form solvers must land on the target
 //!   to this many decades.
+//!
+//! The library's unit tests use this same module; the browser tests name their two
+//! tolerances in `tests/browser/harness.mjs`.
 
 /// Relative tolerance on log10 values against high-precision references.
 pub const LOG10_REL: f64 = 1e-12;

@@ -36,3 +36,9 @@ pub mod units;
 
 #[cfg(target_arch = "wasm32")]
 mod wasm;
+
+/// The test suite's one tolerance policy, shared with the unit tests here.
+#[cfg(test)]
+#[allow(dead_code)]
+#[path = "../../tests/tolerance.rs"]
+mod tolerance;

@@ -283,11 +283,10 @@ mod tests {
     use super::*;
 
     fn ok(text: &str, dim: Dim, want: f64) {
+        // Scaling goes through the decimal text, so the value is the correctly rounded
+        // f64 of the decimal number: exactly what the literal `want` is.
         let got = parse("x", text, dim).unwrap_or_else(|e| panic!("{text}: {e}"));
-        assert!(
-            (got - want).abs() <= want.abs() * 1e-15,
-            "{text}: got {got}, want {want}"
-        );
+        assert_eq!(got, want, "{text}");
     }
 
     fn bad(text: &str, dim: Dim, msg: &str) {

@@ -87,6 +87,7 @@ pub fn log10_one_minus_exp_neg(log10_m: f64) -> f64 {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::tolerance::{assert_rel, F64_REL};
 
     #[test]
     fn fleet_probability_limits() {
@@ -94,6 +95,11 @@ mod tests {
         assert_eq!(log10_one_minus_exp_neg(5.0), 0.0);
         let m: f64 = 1e-3;
         let want = (1.0 - (-m).exp()).log10();
-        assert!((log10_one_minus_exp_neg(m.log10()) - want).abs() < 1e-12);
+        assert_rel(
+            "m = 1e-3",
+            log10_one_minus_exp_neg(m.log10()),
+            want,
+            F64_REL,
+        );
     }
 }

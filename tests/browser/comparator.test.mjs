@@ -2,7 +2,7 @@
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import path from 'node:path';
-import { setup, open, fileUrl, outputs, root, cli, inked } from './harness.mjs';
+import { setup, open, fileUrl, outputs, root, cli, inked, WASM_LIBM_REL } from './harness.mjs';
 
 const env = setup({ before, after });
 
@@ -41,11 +41,9 @@ test('the page agrees with latchwise comparator --json on every input model', as
     const { context, page, problems } = await open(env.browser, fileUrl('comparator.html') + '?' + new URLSearchParams(c));
     const out = await outputs(page);
     const want = cli('comparator', Object.entries(c).flatMap(([k, v]) => [`--${k}`, v]));
-    // The wasm build brings its own asin/exp/ln, which may differ from the native libm in
-    // the last bit; the sine model sums thousands of asin terms, so allow 1e-13 relative.
     for (const k of ['log10_p_error', 'log10_errors_per_s', 'log10_vcrit_v', 'tau_s', 'log10_p_total']) {
       const got = Number(out[k].value);
-      assert.ok(Math.abs(got - want[k]) <= 1e-13 * Math.max(1, Math.abs(want[k])), `${k}: page ${got}, CLI ${want[k]} for ${JSON.stringify(c)}`);
+      assert.ok(Math.abs(got - want[k]) <= WASM_LIBM_REL * Math.max(1, Math.abs(want[k])), `${k}: page ${got}, CLI ${want[k]} for ${JSON.stringify(c)}`);
     }
     assert.equal(out.meets_target.value === '1', want.meets_target, JSON.stringify(c));
     assert.deepEqual(problems, []);

@@ -2,7 +2,7 @@
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import path from 'node:path';
-import { setup, open, fileUrl, outputs, root, cli, inked } from './harness.mjs';
+import { setup, open, fileUrl, outputs, root, cli, inked, CANVAS_RATIO_ABS } from './harness.mjs';
 
 const env = setup({ before, after });
 
@@ -133,7 +133,7 @@ test('readable at 320 px and on a large monitor; a high-DPI canvas is crisp', as
     const overflow = await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth);
     assert.ok(overflow <= 0, `${width}px: page is ${overflow}px too wide`);
     const ratio = await page.$eval('#plot-stages', (c) => c.width / c.clientWidth);
-    assert.ok(Math.abs(ratio - scale) < 0.02, `canvas backing ratio ${ratio} at dpr ${scale}`);
+    assert.ok(Math.abs(ratio - scale) < CANVAS_RATIO_ABS, `canvas backing ratio ${ratio} at dpr ${scale}`);
     if (process.env.UPDATE_SCREENSHOTS && width === 1280 && scale === 1) {
       await page.screenshot({ path: path.join(root, 'docs/sync-page.png'), fullPage: true });
     }

@@ -146,11 +146,12 @@ pub fn ln_sum_exp(terms: &[f64]) -> f64 {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::tolerance::{assert_rel, ARITH_REL, F64_REL};
 
     #[test]
     fn quadrature_weights_sum_to_two() {
         let s: f64 = GL16.iter().map(|p| 2.0 * p.1).sum();
-        assert!((s - 2.0).abs() < 1e-15, "{s}");
+        assert_rel("sum of weights", s, 2.0, ARITH_REL);
     }
 
     #[test]
@@ -160,10 +161,7 @@ mod tests {
             let h = (2.0f64 / m.max(4.0)).min(0.5);
             let inside = ln_prob_interval(m, (h * (1.0 - 1e-13)).ln());
             let outside = ln_prob_interval(m, (h * (1.0 + 1e-13)).ln());
-            assert!(
-                (inside - outside).abs() < 1e-12,
-                "m={m}: {inside} vs {outside}"
-            );
+            assert_rel(&format!("m={m}"), inside, outside, F64_REL);
         }
     }
 }

@@ -36,12 +36,13 @@ pub fn bisect_last(
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::tolerance::ARITH_REL;
 
     #[test]
     fn stays_on_the_side_that_holds() {
         for target in [-700.0f64, -3.5, 0.0, 12.25, 1e5] {
             let x = bisect_last(-1e6, 1e6, 0.0, 200, |x| x <= target);
-            assert!(x <= target && target - x < 1e-9 * target.abs().max(1.0));
+            assert!(x <= target && target - x <= ARITH_REL * target.abs().max(1.0));
         }
     }
 }

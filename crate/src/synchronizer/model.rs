@@ -365,6 +365,7 @@ mod tests {
     use crate::params::RawInputs;
     use crate::reliability::Target;
     use crate::synchronizer::SyncCase;
+    use crate::tolerance::{ROUNDING_LOG10_ABS, SOLVER_LOG10_ABS};
 
     fn case(q: &str) -> SyncCase {
         SyncCase::from_inputs(&RawInputs::from_query(q)).unwrap_or_else(|e| panic!("{q}: {e}"))
@@ -383,7 +384,10 @@ mod tests {
                 panic!()
             };
             let k = k as u32;
-            assert!(c.sync.with_stages(n(k)).log10_rate() <= m + 1e-9, "{years}");
+            assert!(
+                c.sync.with_stages(n(k)).log10_rate() <= m + ROUNDING_LOG10_ABS,
+                "{years}"
+            );
             if k > 1 {
                 assert!(c.sync.with_stages(n(k - 1)).log10_rate() > m, "{years}");
             }
@@ -399,7 +403,7 @@ mod tests {
             .sync
             .with_fclk(Frequency::positive("fclk", f).unwrap())
             .log10_rate();
-        assert!((at - m).abs() < 1e-6, "{at} vs {m}");
+        assert!((at - m).abs() < SOLVER_LOG10_ABS, "{at} vs {m}");
         let TauLimit::Max(t) = c.sync.max_tau(m) else {
             panic!()
         };
@@ -407,7 +411,7 @@ mod tests {
             .sync
             .with_tau(Time::positive("tau", t).unwrap())
             .log10_rate();
-        assert!((at - m).abs() < 1e-9, "{at} vs {m}");
+        assert!((at - m).abs() < SOLVER_LOG10_ABS, "{at} vs {m}");
     }
 
     #[test]

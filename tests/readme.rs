@@ -1,0 +1,85 @@
+//! The README's worked demo case: its command runs, prints the numbers the README quotes,
+//! and those numbers are the model's closed form evaluated by hand here.
+
+use std::process::Command;
+
+use crate::tolerance::{assert_rel, F64_REL};
+
+fn readme() -> String {
+    std::fs::read_to_string(concat!(env!("CARGO_MANIFEST_DIR"), "/README.md")).unwrap()
+}
+
+/// The README's comparator demo command, as its arguments.
+fn demo_args(text: &str) -> Vec<String> {
+    let start = text
+        .find("target/release/latchwise comparator --tau")
+        .expect("the README shows the comparator demo command");
+    let end = start + text[start..].find("\n```").unwrap();
+    text[start..end]
+        .replace("\\\n", " ")
+        .split_whitespace()
+        .skip(1)
+        .map(str::to_string)
+        .collect()
+}
+
+#[test]
+fn comparator_demo_numbers_hold() {
+    let text = readme();
+    let args = demo_args(&text);
+    // The prose as one line, so that a quote may wrap in the file.
+    let prose = text.split_whitespace().collect::<Vec<_>>().join(" ");
+    assert!(args.contains(&"--target-ber".to_string()), "{args:?}");
+    // Closed form (domain notes section 3), uniform model: tau 15 ps, 80 ps + 2 x 100 ps,
+    // vmin 0.4 V behind gain 4, lsb 1 mV, 5 GS/s, target 1e-10.
+    let tau: f64 = 15e-12;
+    let treg: f64 = 80e-12 + 2.0 * 100e-12;
+    let v0: f64 = 0.4 / 4.0;
+    let vcrit = v0 * (-treg / tau).exp();
+    let p = 2.0 * vcrit / 1e-3;
+    let per_s = 5e9 * p;
+    let margin = -10.0 - p.log10();
+    // p(t) = (2 v0 / lsb) exp(-t/tau) = 1e-10 gives the regeneration time needed.
+    let needed = tau * (2.0 * v0 / 1e-3 / 1e-10).ln();
+    let max_tau = treg / (2.0 * v0 / 1e-3 / 1e-10).ln();
+    let extra = ((needed - 80e-12) / 100e-12).ceil();
+    // What the README says, and that it is the closed form rounded as printed.
+    for (quoted, value) in [
+        ("vcrit = 7.82e-10 V", format!("vcrit = {vcrit:.2e} V")),
+        (
+            "error probability of 1.56e-6",
+            format!("error probability of {p:.2e}"),
+        ),
+        (
+            "missed by 4.19 decades",
+            format!("missed by {:.2} decades", -margin),
+        ),
+        ("needs 425 ps", format!("needs {:.0} ps", needed * 1e12)),
+        (
+            "at most 9.9 ps",
+            format!("at most {:.1} ps", max_tau * 1e12),
+        ),
+    ] {
+        assert!(prose.contains(quoted), "README no longer says '{quoted}'");
+        assert_eq!(value, quoted, "the closed form against the README");
+    }
+    assert!(prose.contains("about 7,800 sparkle codes a second"));
+    assert_eq!((per_s / 100.0).round() * 100.0, 7800.0);
+    assert!(prose.contains("four 100 ps latches instead of two"));
+    assert_eq!(extra, 4.0);
+    // And the command prints them.
+    let out = Command::new(env!("CARGO_BIN_EXE_latchwise"))
+        .args(&args)
+        .arg("--json")
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(1), "the target is missed");
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let num = |k: &str| v[k].as_f64().unwrap_or(f64::NAN);
+    assert_rel("vcrit", 10f64.powf(num("log10_vcrit_v")), vcrit, F64_REL);
+    assert_rel("p", 10f64.powf(num("log10_p_error")), p, F64_REL);
+    assert_rel("margin", num("margin_decades"), margin, F64_REL);
+    assert_rel("treg needed", num("treg_needed_s"), needed, F64_REL);
+    assert_rel("max tau", num("max_tau_s"), max_tau, F64_REL);
+    assert_eq!(v["extra_stages_needed"], serde_json::json!(4));
+}
