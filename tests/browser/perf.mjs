@@ -1,5 +1,5 @@
 // Browser timing of the pages (run by scripts/bench-pages; not a test: figures only).
-import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { readdirSync, readFileSync, statSync, writeFileSync, rmSync } from 'node:fs';
 import { gzipSync } from 'node:zlib';
 import path from 'node:path';
 import { launch, open, serve, fileUrl, dist, root } from './harness.mjs';
@@ -7,27 +7,44 @@ import { launch, open, serve, fileUrl, dist, root } from './harness.mjs';
 const median = (xs) => { const s = [...xs].sort((a, b) => a - b); return s[Math.floor(s.length / 2)]; };
 const firstResult = (page) => page.$eval('body', (b) => Number(b.dataset.firstResultMs));
 
+// The baseline, measured in the same run: a blank page whose only script records when it
+// runs, placed beside the pages so that it loads the same way (file:// or served).
+const blankHtml = path.join(dist, 'bench-blank.html');
+const blankJs = path.join(dist, 'bench-blank.js');
+writeFileSync(blankHtml, '<!doctype html><html lang="en"><head><meta charset="utf-8"><title>blank</title></head><body><script src="bench-blank.js"></script></body></html>\n');
+writeFileSync(blankJs, "document.body.dataset.firstResultMs = performance.now().toFixed(1); document.body.dataset.ready = 'yes';\n");
+
 const browser = await launch();
 const server = await serve();
 const rows = [];
-for (const file of ['index.html', 'comparator.html']) {
-  for (const [name, url] of [['file://', fileUrl(file)], ['served', server.url + file]]) {
-    const fresh = [];
-    for (let i = 0; i < 15; i++) {
-      const { context, page } = await open(browser, url);
-      fresh.push(await firstResult(page));
-      await context.close();
-    }
+
+async function navigation(url) {
+  const fresh = [];
+  for (let i = 0; i < 15; i++) {
     const { context, page } = await open(browser, url);
-    const again = [];
-    for (let i = 0; i < 15; i++) {
-      await page.reload();
-      await page.waitForSelector('body[data-ready="yes"]');
-      again.push(await firstResult(page));
-    }
+    fresh.push(await firstResult(page));
     await context.close();
-    rows.push([`${file}: navigation to first result, ${name}, new tab / reload (medians of 15)`,
-      `${median(fresh).toFixed(0)} ms / ${median(again).toFixed(0)} ms`]);
+  }
+  const { context, page } = await open(browser, url);
+  const again = [];
+  for (let i = 0; i < 15; i++) {
+    await page.reload();
+    await page.waitForSelector('body[data-ready="yes"]');
+    again.push(await firstResult(page));
+  }
+  await context.close();
+  return [median(fresh), median(again)];
+}
+
+try {
+for (const file of ['index.html', 'comparator.html']) {
+  for (const [name, at] of [['file://', fileUrl], ['served', (f) => server.url + f]]) {
+    // Interleave page and blank baseline so that both see the same machine state.
+    const [pf, pr] = await navigation(at(file));
+    const [bf, br] = await navigation(at('bench-blank.html'));
+    rows.push([`${file}: first result after navigation, ${name}, new tab / reload (medians of 15)`,
+      `${pf.toFixed(0)} ms / ${pr.toFixed(0)} ms, blank page ${bf.toFixed(0)} ms / ${br.toFixed(0)} ms: ` +
+      `${(pf / bf).toFixed(1)}x / ${(pr / br).toFixed(1)}x, +${(pf - bf).toFixed(0)} ms / +${(pr - br).toFixed(0)} ms`]);
   }
   const { context, page } = await open(browser, fileUrl(file));
   // Each change runs the whole update synchronously: core, readouts and every plot.
@@ -42,8 +59,13 @@ for (const file of ['index.html', 'comparator.html']) {
     }
     return out;
   });
-  rows.push([`${file}: recompute + redraw per input change (median of 300)`, `${median(times).toFixed(1)} ms`]);
+  rows.push([`${file}: recompute + redraw per input change (median of 300)`,
+    `${median(times).toFixed(1)} ms (${(100 * median(times) / (1000 / 60)).toFixed(0)} % of a 60 Hz frame)`]);
   await context.close();
+}
+} finally {
+  rmSync(blankHtml, { force: true });
+  rmSync(blankJs, { force: true });
 }
 let raw = 0;
 let gz = 0;
