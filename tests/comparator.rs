@@ -1,7 +1,10 @@
 //! Comparator checks: published examples, the mpmath table, Q-function values, limits,
 //! properties and the command line. Each check names its source.
 
-use latchwise::comparator::{evaluate, tau_from_devices, CompCase, CompReport};
+use latchwise::calculator::Calculator;
+use latchwise::comparator::{
+    evaluate, tau_from_devices, CompCase, CompReport, ComparatorCalculator,
+};
 use latchwise::numeric::normal::{ln_prob_interval, ln_q};
 use latchwise::params::RawInputs;
 use latchwise::quantity::Time;
@@ -16,8 +19,8 @@ use crate::tolerance::{
 
 fn report(pairs: &[(&str, &str)]) -> CompReport {
     let raw = RawInputs::from_pairs(pairs.iter().map(|(k, v)| (*k, *v)));
-    let case = CompCase::from_inputs(&raw).unwrap_or_else(|e| panic!("{pairs:?}: {e}"));
-    evaluate(&case)
+    let case = ComparatorCalculator::read(&raw).unwrap_or_else(|e| panic!("{pairs:?}: {e}"));
+    ComparatorCalculator::evaluate(&case)
 }
 
 const FLASH: [(&str, &str); 7] = [

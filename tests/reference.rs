@@ -1,14 +1,15 @@
 //! Reference checks: each names its source beside it.
 
+use latchwise::calculator::Calculator;
 use latchwise::params::RawInputs;
-use latchwise::synchronizer::{evaluate, SyncCase, SyncReport};
+use latchwise::synchronizer::{SyncCalculator, SyncReport};
 
 use crate::tolerance::{assert_log10, assert_published, assert_rel, table_rows, ARITH_REL};
 
 fn report(pairs: &[(&str, &str)]) -> SyncReport {
     let raw = RawInputs::from_pairs(pairs.iter().map(|(k, v)| (*k, *v)));
-    let case = SyncCase::from_inputs(&raw).unwrap_or_else(|e| panic!("{pairs:?}: {e}"));
-    evaluate(&case)
+    let case = SyncCalculator::read(&raw).unwrap_or_else(|e| panic!("{pairs:?}: {e}"));
+    SyncCalculator::evaluate(&case)
 }
 
 /// Published worked example: checks log10 MTBF in seconds against the quoted value.

@@ -11,7 +11,7 @@ const firstResult = (page) => page.$eval('body', (b) => Number(b.dataset.firstRe
 // runs, placed beside the pages so that it loads the same way (file:// or served).
 const blankHtml = path.join(dist, 'bench-blank.html');
 const blankJs = path.join(dist, 'bench-blank.js');
-writeFileSync(blankHtml, '<!doctype html><html lang="en"><head><meta charset="utf-8"><title>blank</title></head><body><script src="bench-blank.js"></script></body></html>\n');
+writeFileSync(blankHtml, '<!doctype html><html lang="en"><head><meta charset="utf-8"><title>blank</title></head><body><p>blank page</p><script src="bench-blank.js"></script></body></html>\n');
 writeFileSync(blankJs, "document.body.dataset.firstResultMs = performance.now().toFixed(1); document.body.dataset.ready = 'yes';\n");
 
 const browser = await launch();
