@@ -356,7 +356,7 @@ fn cli_json_keys_exit_statuses_and_bad_input() {
             "input: 'ternary' is not one of: uniform, gaussian, nrz, pam4, sine",
         ),
         ("--lsb", "1ns", "lsb: '1ns' is a time, expected a voltage"),
-        ("--target-ber", "2", "target-ber: 2 is out of range"),
+        ("--target-ber", "2", "target-ber: '2' is too large"),
         ("--gm", "1m", "tau: give either tau or cl, gm, g0, not both"),
         ("--vmin", "-1", "vmin: negative voltage"),
     ] {

@@ -6,7 +6,7 @@ use latchwise::params::RawInputs;
 use latchwise::quantity::{Frequency, Time};
 use latchwise::reliability::Target;
 use latchwise::synchronizer::{
-    evaluate, StagesNeeded, SyncCase, SyncReport, Synchronizer, TauLimit,
+    evaluate, ClockLimit, StagesNeeded, SyncCase, SyncReport, Synchronizer, TauLimit,
 };
 use proptest::prelude::*;
 
@@ -171,7 +171,7 @@ proptest! {
         let s = case.sync;
         let m = Target::MtbfYears(years).log10_max_rate();
         match s.max_fclk(s.stages(), m) {
-            Some(f) => {
+            ClockLimit::Max(f) => {
                 let at = with_fclk(&s, f).log10_rate();
                 // Never above the target, and not below it either unless the clock is at
                 // the top of the usable range (where the hop time runs out): a clock
@@ -188,8 +188,11 @@ proptest! {
                     "clock {f:e} too low: rate {at} vs target {m}, ceiling {ceiling:e}"
                 );
             }
-            // No clock meets it: even the slowest one considered misses.
-            None => prop_assert!(with_fclk(&s, 1e-300).log10_rate() > m),
+            // No clock meets it: even the slowest one the model accepts misses.
+            ClockLimit::None => prop_assert!(with_fclk(&s, 1e-9).log10_rate() > m),
+            // Every clock up to the model's limit meets it.
+            ClockLimit::Any => prop_assert!(with_fclk(&s, 1e18).log10_rate() <= m),
+            ClockLimit::NotApplicable => prop_assert!(false, "no tr was given"),
         }
         match s.max_tau(m) {
             TauLimit::Max(t) => {

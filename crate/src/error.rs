@@ -58,6 +58,17 @@ pub enum ParamErrorKind {
         /// Node conductance in siemens.
         g0: f64,
     },
+    /// A number the model cannot use: beyond the field's limits.
+    Unusable {
+        /// The text as typed.
+        text: String,
+        /// The kind of the field.
+        dim: Dim,
+        /// The limit passed.
+        bound: f64,
+        /// Whether the value is above the upper limit (else below the lower one).
+        above: bool,
+    },
     /// A choice field got a value it does not know.
     UnknownChoice {
         /// The text as typed.
@@ -96,7 +107,7 @@ impl fmt::Display for ParamError {
             ),
             NotFinite(t) => write!(f, "'{t}' is not a finite number"),
             Overflow(t) => write!(f, "'{t}' is too large to represent"),
-            Underflow(t) => write!(f, "'{t}' is too small to represent (it would round to 0)"),
+            Underflow(t) => write!(f, "'{t}' is too small to represent"),
             UnknownUnit(u) => write!(f, "unknown unit or prefix '{u}'"),
             WrongUnit {
                 text,
@@ -131,6 +142,22 @@ impl fmt::Display for ParamError {
                 format_si(*gm, "S"),
                 format_si(*g0, "S")
             ),
+            Unusable {
+                text,
+                dim,
+                bound,
+                above,
+            } => {
+                let b = match dim {
+                    Dim::Count | Dim::Ratio | Dim::Choice => crate::units::format_number(*bound),
+                    d => format_si(*bound, d.symbol()),
+                };
+                if *above {
+                    write!(f, "'{text}' is too large: the largest the model can use is {b}")
+                } else {
+                    write!(f, "'{text}' is too small: the smallest the model can use is {b}")
+                }
+            }
             UnknownChoice { text, choices } => {
                 write!(f, "'{text}' is not one of: {choices}")
             }

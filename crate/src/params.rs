@@ -19,6 +19,56 @@ pub struct FieldSpec {
     pub dim: Dim,
     /// One line of help.
     pub help: &'static str,
+    /// The magnitudes the model can use: a non-zero value outside is refused, so that
+    /// nothing derived from it can overflow.
+    pub limits: (f64, f64),
+    /// The magnitudes usual in practice: a non-zero value outside gets a visible note
+    /// (a misread unit shows up here), never a refusal.
+    pub usual: (f64, f64),
+}
+
+impl FieldSpec {
+    /// Parses `text` for this field and checks it against the field's limits.
+    ///
+    /// # Errors
+    /// The parse errors of [`quantity::parse`], and `Unusable` outside the limits.
+    pub fn parse(&self, text: &str) -> Result<f64, ParamError> {
+        let v = quantity::parse(self.name, text, self.dim)?;
+        let (lo, hi) = self.limits;
+        let a = v.abs();
+        if v != 0.0 && self.dim != Dim::Choice && (a < lo || a > hi) {
+            return Err(ParamError::new(
+                self.name,
+                ParamErrorKind::Unusable {
+                    text: text.trim().to_string(),
+                    dim: self.dim,
+                    bound: if a < lo { lo } else { hi },
+                    above: a > hi,
+                },
+            ));
+        }
+        Ok(v)
+    }
+
+    /// A note when a usable value is far outside the usual range of this field.
+    pub fn note(&self, v: f64) -> Option<String> {
+        let (lo, hi) = self.usual;
+        let a = v.abs();
+        if v == 0.0 || self.dim == Dim::Choice || (lo..=hi).contains(&a) {
+            return None;
+        }
+        let show = |x: f64| match self.dim {
+            Dim::Count | Dim::Ratio => units::format_number(x),
+            d => units::format_si(x, d.symbol()),
+        };
+        Some(format!(
+            "{} = {} is far outside the usual {} to {}: check the value and its unit.",
+            self.name,
+            show(v),
+            show(lo),
+            show(hi)
+        ))
+    }
 }
 
 /// Name/value pairs as given, in order, before any parsing.
@@ -127,6 +177,7 @@ fn hex(c: u8) -> Option<u8> {
 pub struct FieldReader<'a> {
     raw: &'a RawInputs,
     errors: Vec<ParamError>,
+    notes: Vec<String>,
 }
 
 impl<'a> FieldReader<'a> {
@@ -135,6 +186,7 @@ impl<'a> FieldReader<'a> {
         FieldReader {
             raw,
             errors: Vec::new(),
+            notes: Vec::new(),
         }
     }
 
@@ -162,7 +214,12 @@ impl<'a> FieldReader<'a> {
         make: fn(&'static str, f64) -> Result<T, ParamError>,
     ) -> Option<T> {
         let text = self.raw.get_nonblank(spec.name)?;
-        match quantity::parse(spec.name, text, spec.dim).and_then(|v| make(spec.name, v)) {
+        let parsed = spec.parse(text).inspect(|&v| {
+            if let Some(n) = spec.note(v) {
+                self.notes.push(n);
+            }
+        });
+        match parsed.and_then(|v| make(spec.name, v)) {
             Ok(v) => Some(v),
             Err(e) => {
                 self.push(e);
@@ -187,6 +244,11 @@ impl<'a> FieldReader<'a> {
     /// Finishes: every error recorded, in the order found.
     pub fn into_errors(self) -> ParamErrors {
         ParamErrors(self.errors)
+    }
+
+    /// The notes on values far outside their usual range, in the order read.
+    pub fn notes(&self) -> Vec<String> {
+        self.notes.clone()
     }
 
     /// Whether any error has been recorded.
@@ -244,6 +306,8 @@ pub struct FieldEcho {
     pub text: String,
     /// The value re-written with an SI prefix, when the text parses on its own.
     pub normalized: Option<String>,
+    /// A note when the value is far outside the field's usual range.
+    pub note: Option<String>,
 }
 
 /// Echoes every field of `fields`: what was typed and how it was understood.
@@ -258,11 +322,11 @@ pub fn echo_fields(raw: &RawInputs, fields: &[FieldSpec]) -> Vec<FieldEcho> {
                     name: f.name,
                     normalized: (!t.is_empty()).then_some(t),
                     text,
+                    note: None,
                 };
             }
-            let normalized = quantity::parse(f.name, &text, f.dim)
-                .ok()
-                .map(|v| match f.dim {
+            let value = f.parse(&text).ok();
+            let normalized = value.map(|v| match f.dim {
                     Dim::Count if v.fract() == 0.0 && v.abs() < 1e15 => format!("{v:.0}"),
                     Dim::Count | Dim::Ratio => units::format_number(v),
                     d => units::format_si(v, d.symbol()),
@@ -271,6 +335,7 @@ pub fn echo_fields(raw: &RawInputs, fields: &[FieldSpec]) -> Vec<FieldEcho> {
                 name: f.name,
                 text,
                 normalized,
+                note: value.and_then(|v| f.note(v)),
             }
         })
         .collect()

@@ -2,6 +2,8 @@
 
 use serde::Serialize;
 
+use crate::units::format_decades;
+
 /// One displayed result. `name` is the JSON key of the command line's output.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Readout {
@@ -32,14 +34,15 @@ impl Readout {
     /// The verdict against a target under the key `meets_target`: "met by 0.88 decades"
     /// or "missed by 2.90 decades", value 1 or 0, marked good or bad.
     pub fn verdict(met: bool, margin_decades: f64) -> Self {
-        let m = margin_decades.abs();
+        let m = format_decades(margin_decades.abs());
+        let m = m.trim_start_matches('+');
         Readout::new(
             "meets_target",
             "target",
             format!(
-                "{} by {m:.2} decade{}",
+                "{} by {m} decade{}",
                 if met { "met" } else { "missed" },
-                if format!("{m:.2}") == "1.00" { "" } else { "s" }
+                if m == "1.00" { "" } else { "s" }
             ),
             Some(if met { 1.0 } else { 0.0 }),
         )
@@ -51,7 +54,7 @@ impl Readout {
         Readout::new(
             "margin_decades",
             "margin",
-            format!("{margin_decades:+.2} decades"),
+            format!("{} decades", format_decades(margin_decades)),
             Some(margin_decades),
         )
     }

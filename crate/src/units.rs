@@ -149,7 +149,8 @@ pub fn format_sig(v: f64, sig: usize) -> String {
 
 /// Formats a positive number given by its base-10 logarithm, at any magnitude.
 ///
-/// Between 1e-3 and 1e6 the number is written plainly; outside, as `3.2e412`.
+/// Between 1e-3 and 1e6 the number is written plainly; outside, as `3.2e412`; beyond
+/// an exponent of 1e12, as the power of ten itself: `10^(4.34e19)`.
 ///
 /// # Examples
 /// ```
@@ -169,6 +170,11 @@ pub fn format_log10(l: f64, sig: usize) -> String {
         };
     }
     let sig = sig.max(1);
+    // Beyond 1e12 the fraction of the logarithm no longer holds `sig` digits of mantissa
+    // (an f64 keeps about 16 digits in all): write the power of ten itself.
+    if l.abs() >= 1e12 {
+        return format!("10^({})", format_sig(l, 3));
+    }
     let mut e = l.floor();
     let mut m = 10f64.powf(l - e);
     // Round the mantissa first so that 9.999 becomes 10 and carries into the exponent.
@@ -184,6 +190,23 @@ pub fn format_log10(l: f64, sig: usize) -> String {
         return trim_zeros(&format!("{v:.decimals$}"));
     }
     format!("{}e{}", trim_zeros(&format!("{m:.*}", sig - 1)), e as i64)
+}
+
+/// Formats a number of decades, signed, to two decimals: `+0.88`, `-4.19`; beyond a
+/// million decades in scientific notation (`+4.34e17`).
+///
+/// # Examples
+/// ```
+/// use latchwise::units::format_decades;
+/// assert_eq!(format_decades(0.884), "+0.88");
+/// assert_eq!(format_decades(-4.343e17), "-4.34e17");
+/// ```
+pub fn format_decades(d: f64) -> String {
+    if d.abs() < 1e6 {
+        format!("{d:+.2}")
+    } else {
+        format!("{}{}", if d < 0.0 { "" } else { "+" }, format_sig(d, 3))
+    }
 }
 
 /// Formats a plain number with four significant digits: `4`, `0.25`, `1e9`, `-3.5e-7`.
@@ -203,7 +226,10 @@ pub fn format_number(v: f64) -> String {
 pub fn format_duration_log10(log10_s: f64, log10_year_s: f64) -> String {
     const LOG10_HOUR: f64 = 3.556_302_500_767_287; // log10(3600)
     const LOG10_DAY: f64 = 4.936_513_742_478_893; // log10(86400)
-    if log10_s < 0.0 {
+    if log10_s < -15.0 {
+        // Below the femtosecond the SI prefixes end and 10^x may underflow: keep the log.
+        format!("{} s", format_log10(log10_s, 3))
+    } else if log10_s < 0.0 {
         format_si(10f64.powf(log10_s), "s")
     } else if log10_s < LOG10_HOUR {
         format!("{} s", format_log10(log10_s, 3))
@@ -234,5 +260,8 @@ mod tests {
         assert_eq!(format_log10(2.0 - 1e-12, 3), "100");
         assert_eq!(format_log10(5.0 + 0.99999999, 3), "1e6");
         assert_eq!(format_log10(f64::NAN, 3), "undefined");
+        assert_eq!(format_log10(4.343e19, 3), "10^(4.34e19)");
+        assert_eq!(format_log10(-4.343e19, 3), "10^(-4.34e19)");
+        assert_eq!(format_log10(999_999_999_999.5, 3), "3.16e999999999999");
     }
 }

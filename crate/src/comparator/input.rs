@@ -31,6 +31,8 @@ pub struct CompCase {
     pub gain_given: bool,
     /// Parameters given but not read by the chosen input model.
     pub unused: Vec<&'static str>,
+    /// Notes on values far outside their usual range.
+    pub notes: Vec<String>,
 }
 
 impl CompCase {
@@ -88,32 +90,22 @@ impl CompCase {
         let gain = r.optional(&GAIN, Ratio::positive);
         let input = read_input(&mut r);
         let fs = r.required(&FS, Frequency::positive);
-        let target_ber = r.optional(&TARGET_BER, |f, v| {
-            if v > 1.0 {
-                Err(ParamError::new(
-                    f,
-                    ParamErrorKind::OutOfRange {
-                        value: v,
-                        range: "above 0, at most 1",
-                    },
-                ))
-            } else {
-                positive_number(f, v)
-            }
-        });
+        // The field's limits keep it at most 1.
+        let target_ber = r.optional(&TARGET_BER, positive_number);
         let vin = r.optional(&VIN, Voltage::positive);
         let (Some((tau, tau_source)), Some(treg), Some(vmin), Some(input), Some(fs), false) =
             (tau, treg, vmin, input, fs, r.has_errors())
         else {
             return Err(r.into_errors());
         };
-        let Ok(tau) = Time::positive(TAU.name, tau) else {
+        let usable = tau >= TAU.limits.0 && tau <= TAU.limits.1;
+        let (Ok(tau), true) = (Time::positive(TAU.name, tau), usable) else {
             // cl / (gm - g0) overflowed or underflowed: say so on the inputs.
             r.push(ParamError::new(
                 CL.name,
                 ParamErrorKind::OutOfRange {
                     value: tau,
-                    range: "giving a finite, non-zero tau",
+                    range: "giving a tau from 1e-21 s to 1e6 s",
                 },
             ));
             return Err(r.into_errors());
@@ -139,6 +131,7 @@ impl CompCase {
                 vin,
                 gain_given,
                 unused: unused_fields(raw, input.name()),
+                notes: r.notes(),
             }),
             Err(e) => {
                 r.push(e);

@@ -94,7 +94,7 @@ pub fn evaluate(case: &CompCase) -> CompReport {
     let ln_rate = ln_p + case.fs.get().ln();
     let ln_target = case.target_ber.map(f64::ln);
     let sizing = ln_target.map(|t| c.size_for(t));
-    let mut warnings = Vec::new();
+    let mut warnings = case.notes.clone();
     let mut not_applicable = Vec::new();
     if ln_p >= -1e-12 {
         warnings.push("Every decision is at risk: vcrit is as large as the input spread, so the regeneration time is far too short.".into());

@@ -12,7 +12,7 @@ use super::fields::{
 use super::model::{SyncParts, Synchronizer, Window};
 
 /// A complete synchronizer case: the circuit, an optional target and an optional fleet.
-#[derive(Debug, Clone, Copy, PartialEq)]
+#[derive(Debug, Clone, PartialEq)]
 pub struct SyncCase {
     /// The circuit.
     pub sync: Synchronizer,
@@ -20,6 +20,8 @@ pub struct SyncCase {
     pub target: Option<Target>,
     /// The fleet, if any.
     pub fleet: Option<Fleet>,
+    /// Notes on values far outside their usual range.
+    pub notes: Vec<String>,
 }
 
 impl SyncCase {
@@ -108,6 +110,7 @@ impl SyncCase {
                 sync,
                 target,
                 fleet,
+                notes: r.notes(),
             }),
             Err(e) => {
                 r.push(e);

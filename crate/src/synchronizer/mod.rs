@@ -16,7 +16,7 @@ use crate::params::{FieldSpec, RawInputs};
 
 pub use fields::FIELDS;
 pub use input::SyncCase;
-pub use model::{StagesNeeded, SyncParts, Synchronizer, TauLimit, Window};
+pub use model::{ClockLimit, StagesNeeded, SyncParts, Synchronizer, TauLimit, Window};
 pub use report::{evaluate, SyncReport};
 
 /// The synchronizer calculator (`latchwise sync`, `index.html`).

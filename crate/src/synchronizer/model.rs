@@ -81,13 +81,33 @@ pub struct Synchronizer {
     tr: Option<Time>,
 }
 
+/// The most stages the depth solver reports as a number; beyond, the hop is too short
+/// for any chain to be the answer.
+pub const MAX_STAGES_ANSWER: u64 = 1_000_000;
+
 /// How many stages a target needs.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 #[serde(tag = "status", content = "stages", rename_all = "snake_case")]
 pub enum StagesNeeded {
     /// This many flip-flops (at least 1) meet the target.
     Stages(u64),
+    /// More than [`MAX_STAGES_ANSWER`] would be needed.
+    TooMany,
     /// The resolution time was given explicitly, so the chain length does not apply.
+    NotApplicable,
+}
+
+/// The highest sampling clock that meets a target.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(tag = "status", content = "hz", rename_all = "snake_case")]
+pub enum ClockLimit {
+    /// Any clock up to this frequency (Hz) meets the target.
+    Max(f64),
+    /// Every clock the model accepts meets it.
+    Any,
+    /// No clock the model accepts meets it.
+    None,
+    /// The resolution time was given explicitly and does not follow the clock.
     NotApplicable,
 }
 
@@ -266,16 +286,12 @@ impl Synchronizer {
         if needed <= 0.0 {
             return StagesNeeded::Stages(1);
         }
-        if hop <= 0.0 {
-            return StagesNeeded::NotApplicable;
-        }
         // The tiny tolerance keeps a case that meets the target exactly from rounding up.
         let hops = (needed / hop * (1.0 - 1e-12)).ceil();
-        StagesNeeded::Stages(if hops >= 1e18 {
-            u64::MAX
-        } else {
-            1 + hops as u64
-        })
+        if !(hops < MAX_STAGES_ANSWER as f64) {
+            return StagesNeeded::TooMany;
+        }
+        StagesNeeded::Stages(1 + hops as u64)
     }
 
     /// The highest clock below which a chain of `stages` flip-flops keeps a positive hop
@@ -291,34 +307,38 @@ impl Synchronizer {
         (busy > 0.0).then(|| 1.0 / busy)
     }
 
-    /// Highest clock frequency at which `stages` flip-flops still meet the target, or
-    /// `None` if none does. With an explicit `tr`, the resolution time is held fixed.
-    pub fn max_fclk(&self, stages: u32, log10_max_rate: f64) -> Option<f64> {
+    /// Highest clock frequency, within the clocks the model accepts, at which `stages`
+    /// flip-flops still meet the target.
+    ///
+    /// # Formula
+    /// Bisection on ln fclk of `rate(fclk) <= rate_max`, the rate rising with the clock
+    /// while the hop time stays positive; the search ends where the hop time runs out.
+    pub fn max_fclk(&self, stages: u32, log10_max_rate: f64) -> ClockLimit {
+        if self.tr.is_some() {
+            return ClockLimit::NotApplicable;
+        }
         let rate_at = |f: f64| {
-            let tr = match self.tr {
-                Some(t) => t.get(),
-                None => {
-                    f64::from(stages.max(1) - 1)
-                        * hop_time(f, self.tsu.get(), self.tcq.get(), self.window)
-                }
-            };
+            let tr = f64::from(stages.max(1) - 1)
+                * hop_time(f, self.tsu.get(), self.tcq.get(), self.window);
             self.log10_rate_with(self.tau.get(), f, tr)
         };
-        // The rate rises monotonically with fclk while the hop time stays positive.
-        let hi = match self.fclk_ceiling(stages) {
-            Some(f) => f.ln(),
-            None => 300.0 * LN_10,
-        };
-        let lo = -300.0 * LN_10;
-        if rate_at(lo.exp()) > log10_max_rate {
-            return None;
+        let (lo, limit) = FCLK.limits;
+        let ceiling = self.fclk_ceiling(stages).map(|c| c * (1.0 - 1e-12));
+        let top = ceiling.map_or(limit, |c| c.min(limit));
+        if top <= lo || rate_at(lo) > log10_max_rate {
+            return ClockLimit::None;
         }
-        let top = hi.exp() * (1.0 - 1e-12);
         if rate_at(top) <= log10_max_rate {
-            return Some(top);
+            return if top < limit {
+                ClockLimit::Max(top)
+            } else {
+                ClockLimit::Any
+            };
         }
-        let ln_f = bisect_last(lo, hi, 0.0, 200, |x| rate_at(x.exp()) <= log10_max_rate);
-        Some(ln_f.exp())
+        let ln_f = bisect_last(lo.ln(), top.ln(), 0.0, 200, |x| {
+            rate_at(x.exp()) <= log10_max_rate
+        });
+        ClockLimit::Max(ln_f.exp())
     }
 
     /// Largest tau that meets the target at this resolution time.
@@ -398,7 +418,9 @@ mod tests {
     fn max_fclk_and_max_tau_sit_on_the_target() {
         let c = case("tau=20p&tw=40p&fclk=1G&fdata=100M&stages=3&tsu=30p&tcq=50p");
         let m = Target::MtbfYears(1e6).log10_max_rate();
-        let f = c.sync.max_fclk(3, m).unwrap();
+        let ClockLimit::Max(f) = c.sync.max_fclk(3, m) else {
+            panic!()
+        };
         let at = c
             .sync
             .with_fclk(Frequency::positive("fclk", f).unwrap())

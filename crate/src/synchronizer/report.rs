@@ -10,7 +10,7 @@ use crate::reliability::{fleet_outcome, FleetOutcome, Target, CAUTION, YEAR_DAYS
 use crate::units::{format_duration_log10, format_log10, format_si};
 
 use super::input::SyncCase;
-use super::model::{StagesNeeded, TauLimit, Window};
+use super::model::{ClockLimit, StagesNeeded, TauLimit, Window, MAX_STAGES_ANSWER};
 use super::sweep::{mtbf_vs_fclk, mtbf_vs_stages, mtbf_vs_tau};
 
 /// Everything a synchronizer case yields, ready to print or to serialise.
@@ -79,17 +79,38 @@ pub fn evaluate(case: &SyncCase) -> SyncReport {
     let mut reason = |key: &'static str, why: &str| not_applicable.push((key, why.to_string()));
     let min_stages = target_max.map(|m| match s.min_stages(m) {
         StagesNeeded::Stages(n) => Some(n),
+        StagesNeeded::TooMany => {
+            reason(
+                "min_stages",
+                &format!(
+                    "more than {MAX_STAGES_ANSWER}: the time per stage is far too short \
+                     for this target"
+                ),
+            );
+            None
+        }
         StagesNeeded::NotApplicable => {
             reason("min_stages", "tr given: no chain to size");
             None
         }
     });
-    let max_fclk_hz = target_max.map(|m| {
-        let f = s.max_fclk(s.stages(), m);
-        if f.is_none() {
-            reason("max_fclk_hz", "no clock meets the target at this depth");
+    let max_fclk_hz = target_max.map(|m| match s.max_fclk(s.stages(), m) {
+        ClockLimit::Max(f) => Some(f),
+        ClockLimit::Any => {
+            reason("max_fclk_hz", "any clock up to 1 EHz meets the target");
+            None
         }
-        f
+        ClockLimit::None => {
+            reason("max_fclk_hz", "no clock meets the target at this depth");
+            None
+        }
+        ClockLimit::NotApplicable => {
+            reason(
+                "max_fclk_hz",
+                "tr given: the resolution time does not follow the clock",
+            );
+            None
+        }
     });
     let max_tau_s = target_max.map(|m| match s.max_tau(m) {
         TauLimit::Max(t) => Some(t),
@@ -131,7 +152,15 @@ pub fn evaluate(case: &SyncCase) -> SyncReport {
 
 fn warnings(case: &SyncCase, log10_p: f64) -> Vec<String> {
     let s = &case.sync;
-    let mut w = Vec::new();
+    let mut w = case.notes.clone();
+    if s.fdata().get() < s.fclk().get() * 1e-9 {
+        w.push(format!(
+            "fdata = {} on a {} clock is an unusually low data rate: fdata counts data \
+             edges per second, not a clock.",
+            s.fdata().display(),
+            s.fclk().display()
+        ));
+    }
     if s.fdata().get() > s.fclk().get() {
         w.push(format!(
             "fdata ({}) exceeds fclk ({}): a plain synchronizer cannot pass every value; \
