@@ -25,9 +25,14 @@ fn run(args: &[&str]) -> Run {
     }
 }
 
+/// `latchwise sync` with the demo case, options in `extra` replacing the demo's own.
 fn sync(extra: &[&str]) -> Run {
     let mut a = vec!["sync"];
-    a.extend_from_slice(DEMO);
+    for pair in DEMO.chunks(2) {
+        if !extra.contains(&pair[0]) {
+            a.extend_from_slice(pair);
+        }
+    }
     a.extend_from_slice(extra);
     run(&a)
 }
@@ -203,7 +208,8 @@ fn from_url_reads_a_bookmark_and_options_override_it() {
     let r = run(&["sync", "--from-url", url, "--json"]);
     assert_eq!(r.code, 0, "{}", r.stderr);
     assert!(
-        r.stderr.contains("ignored unknown parameter 'colour'"),
+        r.stderr
+            .contains("ignored unknown parameters in --from-url: 'colour'"),
         "{}",
         r.stderr
     );

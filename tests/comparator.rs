@@ -323,8 +323,14 @@ fn cli_json_keys_exit_statuses_and_bad_input() {
         "--tau", "15ps", "--treg", "80ps", "--vmin", "0.4", "--gain", "4", "--input", "uniform",
         "--lsb", "1mV", "--fs", "5GHz",
     ];
+    // The base case with the options in `extra` replacing its own.
     let with = |extra: &[&'static str]| {
-        let mut a = base.to_vec();
+        let mut a: Vec<&str> = base
+            .chunks(2)
+            .filter(|p| !extra.contains(&p[0]))
+            .flatten()
+            .copied()
+            .collect();
         a.extend_from_slice(extra);
         cli(&a)
     };

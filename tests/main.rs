@@ -3,6 +3,7 @@
 
 mod cli;
 mod comparator;
+mod links;
 mod plot;
 mod properties;
 mod readme;

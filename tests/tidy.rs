@@ -16,7 +16,7 @@ use serde_json::Value;
 fn coverage(name: &str) -> &'static [&'static str] {
     match name {
         "sync" => &[
-            "tau=20ps&tw=40ps&fclk=1GHz&fdata=100MHz&stages=2&tsu=30ps&tcq=50ps&target-years=1e6&units=1e6&service-years=10",
+            "tau=20ps&tw=40ps&fclk=1GHz&fdata=100MHz&stages=2&tsu=30ps&tcq=50ps&target-years=1e6&devices=1e6&service-years=10",
             "tau=20ps&tw=40ps&fclk=1GHz&fdata=100MHz&tr=900ps&target-fit=1",
             "tau=20ps&tw=40ps&fclk=1GHz&fdata=1&stages=2&tsu=30ps&tcq=50ps&target-years=1e-7",
         ],

@@ -2,6 +2,9 @@
 
 use latchwise::params::{FieldSpec, RawInputs};
 
+/// The most unknown link parameters named in a note; the rest are counted.
+pub const MOST_IGNORED_NAMED: usize = 10;
+
 /// Options common to every calculator command, besides its fields.
 #[derive(Debug, Default)]
 pub struct Parsed {
@@ -11,15 +14,21 @@ pub struct Parsed {
     pub json: bool,
     /// `--help` was given.
     pub help: bool,
-    /// Keys of `--from-url` that no field knows.
+    /// Keys of `--from-url` that no field knows (the first few).
     pub ignored: Vec<String>,
+    /// How many distinct unknown keys `--from-url` had in all.
+    pub ignored_total: usize,
 }
 
-/// Parses `args` against `fields`.
+/// Parses `args` against `fields`, reading old names as `aliases` say.
 ///
 /// # Errors
-/// A message for an unknown option, a missing value or a repeated `--from-url`.
-pub fn parse(args: &[String], fields: &[FieldSpec]) -> Result<Parsed, String> {
+/// A message for an unknown option, a missing value, or an option given twice.
+pub fn parse(
+    args: &[String],
+    fields: &[FieldSpec],
+    aliases: &[(&str, &str)],
+) -> Result<Parsed, String> {
     let mut out = Parsed::default();
     let mut url: Option<RawInputs> = None;
     let mut explicit: Vec<(String, String)> = Vec::new();
@@ -30,10 +39,14 @@ pub fn parse(args: &[String], fields: &[FieldSpec]) -> Result<Parsed, String> {
         let Some(body) = a.strip_prefix("--") else {
             return Err(format!("unexpected argument '{a}' (options start with --)"));
         };
-        let (name, inline) = match body.split_once('=') {
+        let (given, inline) = match body.split_once('=') {
             Some((n, v)) => (n, Some(v.to_string())),
             None => (body, None),
         };
+        let name = aliases
+            .iter()
+            .find(|(old, _)| *old == given)
+            .map_or(given, |(_, new)| new);
         match name {
             "json" | "help" if inline.is_some() => {
                 return Err(format!("--{name} takes no value"));
@@ -55,8 +68,12 @@ pub fn parse(args: &[String], fields: &[FieldSpec]) -> Result<Parsed, String> {
                     if url.is_some() {
                         return Err("--from-url given twice".into());
                     }
-                    url = Some(RawInputs::from_query(&value));
+                    url = Some(RawInputs::from_query(&value).renamed(aliases));
                 } else if fields.iter().any(|f| f.name == name) {
+                    // A second value would silently win over the first: refuse it.
+                    if explicit.iter().any(|(k, _)| k == name) {
+                        return Err(format!("--{name} given twice"));
+                    }
                     explicit.push((name.to_string(), value));
                 } else {
                     return Err(format!(
@@ -73,7 +90,7 @@ pub fn parse(args: &[String], fields: &[FieldSpec]) -> Result<Parsed, String> {
     }
     let mut pairs: Vec<(String, String)> = Vec::new();
     if let Some(u) = url {
-        out.ignored = u.unknown_keys(fields);
+        (out.ignored, out.ignored_total) = u.unknown_keys(fields, MOST_IGNORED_NAMED);
         pairs.extend(
             u.pairs()
                 .iter()

@@ -1,6 +1,7 @@
 //! The one driver of every calculator command: options, help, errors, the text report
 //! printed from the core's readouts (the labels the pages show), JSON, and exit status.
 
+use std::io::Write;
 use std::process::ExitCode;
 
 use latchwise::calculator::{Calculator, Outcome, Visit};
@@ -50,25 +51,39 @@ pub fn help<C: Calculator>() -> String {
 /// Runs calculator `C`: options, help, notes, errors, output and exit status.
 pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
     let name = C::NAME;
-    let parsed = match parse(args, C::FIELDS) {
+    let parsed = match parse(args, C::FIELDS, C::ALIASES) {
         Ok(p) => p,
         Err(msg) => {
-            eprintln!("latchwise {name}: {msg}");
+            complain(&format!("latchwise {name}: {msg}"));
             return ExitCode::from(EXIT_BAD_INPUT);
         }
     };
     if parsed.help {
-        print!("{}", help::<C>());
+        say(&help::<C>());
         return ExitCode::SUCCESS;
     }
-    for k in &parsed.ignored {
-        eprintln!("latchwise {name}: note: ignored unknown parameter '{k}' in --from-url");
+    if !parsed.ignored.is_empty() {
+        let more = parsed.ignored_total - parsed.ignored.len();
+        complain(&format!(
+            "latchwise {name}: note: ignored unknown parameters in --from-url: {}{}",
+            parsed
+                .ignored
+                .iter()
+                .map(|k| format!("'{k}'"))
+                .collect::<Vec<_>>()
+                .join(", "),
+            if more > 0 {
+                format!(" and {more} more")
+            } else {
+                String::new()
+            }
+        ));
     }
     let case = match C::read(&parsed.raw) {
         Ok(c) => c,
         Err(errs) => {
             for e in &errs.0 {
-                eprintln!("latchwise {name}: {e}");
+                complain(&format!("latchwise {name}: {e}"));
             }
             return ExitCode::from(EXIT_BAD_INPUT);
         }
@@ -77,20 +92,49 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
     let outcome = C::outcome(&report);
     if parsed.json {
         match serde_json::to_string_pretty(&report) {
-            Ok(s) => println!("{s}"),
+            Ok(s) => say(&format!("{s}\n")),
             Err(e) => {
-                eprintln!("latchwise {name}: cannot write JSON: {e}");
+                complain(&format!("latchwise {name}: cannot write JSON: {e}"));
                 return ExitCode::from(EXIT_BAD_INPUT);
             }
         }
     } else {
-        print!("{}", text_report(C::TITLE, &outcome));
+        say(&text_report(C::TITLE, &outcome));
     }
     if outcome.target_missed {
         ExitCode::from(EXIT_TARGET_MISSED)
     } else {
         ExitCode::SUCCESS
     }
+}
+
+/// `text` with every control character other than line breaks and tabs written as an
+/// escape, so that nothing taken from a link can drive the terminal.
+pub fn clean(text: &str) -> String {
+    text.chars()
+        .map(|c| match c {
+            '\n' | '\t' => c.to_string(),
+            c if c.is_control() => c.escape_unicode().to_string(),
+            c => c.to_string(),
+        })
+        .collect()
+}
+
+/// Writes to standard output; a reader that has gone away (a closed pipe) ends the
+/// output quietly instead of aborting.
+pub fn say(text: &str) {
+    let mut out = std::io::stdout().lock();
+    // A closed pipe is the reader's choice; any other failure has nowhere to be told.
+    let _ = out
+        .write_all(clean(text).as_bytes())
+        .and_then(|()| out.flush());
+}
+
+/// Writes one message line to standard error, every control character escaped (a line
+/// break inside a message too).
+pub fn complain(line: &str) {
+    let one = clean(line).replace('\n', "\\n");
+    let _ = writeln!(std::io::stderr().lock(), "{one}");
 }
 
 /// The human-readable report: inputs as understood, results, notes, warnings, caution.

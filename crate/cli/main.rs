@@ -4,6 +4,7 @@
 mod args;
 mod drive;
 
+use std::io::Write;
 use std::process::ExitCode;
 
 use latchwise::registry::{self, ALL};
@@ -44,9 +45,22 @@ Caution: {CAUTION}
 }
 
 fn main() -> ExitCode {
-    let argv: Vec<String> = std::env::args().skip(1).collect();
+    let mut argv: Vec<String> = Vec::new();
+    for (i, a) in std::env::args_os().skip(1).enumerate() {
+        match a.into_string() {
+            Ok(s) => argv.push(s),
+            Err(bad) => {
+                drive::complain(&format!(
+                    "latchwise: argument {} is not valid UTF-8: {}",
+                    i + 1,
+                    bad.to_string_lossy()
+                ));
+                return ExitCode::from(EXIT_BAD_INPUT);
+            }
+        }
+    }
     let Some((cmd, rest)) = argv.split_first() else {
-        eprint!("{}", usage());
+        let _ = std::io::stderr().write_all(usage().as_bytes());
         return ExitCode::from(EXIT_BAD_INPUT);
     };
     if let Some(code) = registry::dispatch(cmd, drive::Run(rest)) {
@@ -58,15 +72,17 @@ fn main() -> ExitCode {
                 .first()
                 .and_then(|c| registry::dispatch(c, drive::Help))
                 .unwrap_or_else(usage);
-            print!("{text}");
+            drive::say(&text);
             ExitCode::SUCCESS
         }
         "--version" | "-V" => {
-            println!("latchwise {}", env!("CARGO_PKG_VERSION"));
+            drive::say(&format!("latchwise {}\n", env!("CARGO_PKG_VERSION")));
             ExitCode::SUCCESS
         }
         other => {
-            eprintln!("latchwise: unknown command '{other}' (try: latchwise help)");
+            drive::complain(&format!(
+                "latchwise: unknown command '{other}' (try: latchwise help)"
+            ));
             ExitCode::from(EXIT_BAD_INPUT)
         }
     }

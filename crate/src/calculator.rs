@@ -28,6 +28,8 @@ pub trait Calculator {
     /// The command's help: usage, models and an example (the options table and the
     /// caution are added from `FIELDS` and the shared caution).
     const HELP: &'static str;
+    /// Old parameter names still read from links and options, as `(old, new)`.
+    const ALIASES: &'static [(&'static str, &'static str)] = &[];
 
     /// A validated case; evaluating it cannot fail.
     type Case;
@@ -96,6 +98,11 @@ impl About {
             help: C::HELP,
         }
     }
+}
+
+/// The raw inputs of a link's query for calculator `C`: old names read as their new ones.
+pub fn query_inputs<C: Calculator>(query: &str) -> RawInputs {
+    RawInputs::from_query(query).renamed(C::ALIASES)
 }
 
 /// Something to do with a calculator chosen by name at run time (see

@@ -69,6 +69,13 @@ pub enum ParamErrorKind {
         /// Whether the value is above the upper limit (else below the lower one).
         above: bool,
     },
+    /// A unit spelling whose prefix means one thing in lower case and another in upper.
+    Ambiguous {
+        /// The text as typed.
+        text: String,
+        /// The two readings, upper-case prefix first (`400MHz`, `400mHz`).
+        readings: [String; 2],
+    },
     /// A choice field got a value it does not know.
     UnknownChoice {
         /// The text as typed.
@@ -153,11 +160,22 @@ impl fmt::Display for ParamError {
                     d => format_si(*bound, d.symbol()),
                 };
                 if *above {
-                    write!(f, "'{text}' is too large: the largest the model can use is {b}")
+                    write!(
+                        f,
+                        "'{text}' is too large: the largest the model can use is {b}"
+                    )
                 } else {
-                    write!(f, "'{text}' is too small: the smallest the model can use is {b}")
+                    write!(
+                        f,
+                        "'{text}' is too small: the smallest the model can use is {b}"
+                    )
                 }
             }
+            Ambiguous { text, readings } => write!(
+                f,
+                "'{text}' is ambiguous: write {} for megahertz or {} for millihertz",
+                readings[0], readings[1]
+            ),
             UnknownChoice { text, choices } => {
                 write!(f, "'{text}' is not one of: {choices}")
             }

@@ -4,6 +4,8 @@
 //! calculator declares its fields as [`FieldSpec`]s and reads typed values from
 //! [`RawInputs`], which remembers every error so that all of them can be shown at once.
 
+use std::collections::HashSet;
+
 use serde::Serialize;
 
 use crate::error::{ParamError, ParamErrorKind, ParamErrors};
@@ -91,7 +93,9 @@ impl RawInputs {
     }
 
     /// Reads the query of a URL (`https://host/page?tau=20p&...`), a bare `?query` or a
-    /// bare `query`. The fragment is dropped; `+` is a space; `%XX` escapes are decoded.
+    /// bare `query`, as browsers read a page's query: the fragment is dropped, `+` is a
+    /// space, `%XX` escapes are decoded, a later `?` belongs to its value. The page and
+    /// the command line's `--from-url` both read links with this function.
     ///
     /// # Examples
     /// ```
@@ -101,11 +105,14 @@ impl RawInputs {
     /// assert_eq!(r.get("fclk"), Some("1GHz"));
     /// ```
     pub fn from_query(url: &str) -> Self {
-        let without_fragment = url.split('#').next().unwrap_or("");
-        let query = match without_fragment.split_once('?') {
-            Some((_, q)) => q,
-            None if without_fragment.contains('=') => without_fragment,
-            None => "",
+        let text = url.split('#').next().unwrap_or("");
+        // A '?' before any '=' ends a URL's path (or opens a bare '?query'); a '?' after
+        // an '=' is part of a value, as browsers read `tau=20ps?x` too.
+        let query = match (text.find('?'), text.find('=')) {
+            (Some(q), Some(e)) if q < e => &text[q + 1..],
+            (Some(q), None) => &text[q + 1..],
+            (_, Some(_)) => text,
+            (None, None) => "",
         };
         RawInputs::from_pairs(query.split('&').filter(|p| !p.is_empty()).map(|p| {
             match p.split_once('=') {
@@ -134,15 +141,28 @@ impl RawInputs {
         &self.pairs
     }
 
-    /// Keys that no field in `fields` knows, each once, in order of appearance.
-    pub fn unknown_keys(&self, fields: &[FieldSpec]) -> Vec<String> {
-        let mut out: Vec<String> = Vec::new();
+    /// Keys that no field in `fields` knows, each once, in order of appearance: the first
+    /// `most` of them, and how many there are in all. Linear in the number of pairs.
+    pub fn unknown_keys(&self, fields: &[FieldSpec], most: usize) -> (Vec<String>, usize) {
+        let mut seen: HashSet<&str> = HashSet::new();
+        let mut out = Vec::new();
         for (k, _) in &self.pairs {
-            if !fields.iter().any(|f| f.name == k) && !out.contains(k) {
+            if !fields.iter().any(|f| f.name == k) && seen.insert(k.as_str()) && out.len() < most {
                 out.push(k.clone());
             }
         }
-        out
+        (out, seen.len())
+    }
+
+    /// The same pairs with old parameter names replaced by their current ones
+    /// (`(old, new)` pairs, as a calculator's `ALIASES` lists them).
+    pub fn renamed(mut self, aliases: &[(&str, &str)]) -> Self {
+        for (k, _) in &mut self.pairs {
+            if let Some((_, new)) = aliases.iter().find(|(old, _)| old == k) {
+                *k = (*new).to_string();
+            }
+        }
+        self
     }
 }
 
@@ -327,10 +347,10 @@ pub fn echo_fields(raw: &RawInputs, fields: &[FieldSpec]) -> Vec<FieldEcho> {
             }
             let value = f.parse(&text).ok();
             let normalized = value.map(|v| match f.dim {
-                    Dim::Count if v.fract() == 0.0 && v.abs() < 1e15 => format!("{v:.0}"),
-                    Dim::Count | Dim::Ratio => units::format_number(v),
-                    d => units::format_si(v, d.symbol()),
-                });
+                Dim::Count if v.fract() == 0.0 && v.abs() < 1e15 => format!("{v:.0}"),
+                Dim::Count | Dim::Ratio => units::format_number(v),
+                d => units::format_si(v, d.symbol()),
+            });
             FieldEcho {
                 name: f.name,
                 text,

@@ -134,6 +134,14 @@ pub fn parse(field: &'static str, text: &str, dim: Dim) -> Result<f64, ParamErro
     }
     let (num, rest) = t.split_at(n);
     let suffix = rest.trim_start();
+    // An all-lower-case unit whose prefix changes meaning with case: `400mhz` is read as
+    // megahertz by many people and as millihertz by SI. Ask instead of guessing.
+    if suffix == "mhz" {
+        return Err(err(ParamErrorKind::Ambiguous {
+            text: t.to_string(),
+            readings: [format!("{num}MHz"), format!("{num}mHz")],
+        }));
+    }
     let Some((exp, unit)) = split_suffix(suffix) else {
         return Err(err(if suffix.starts_with(|c: char| c.is_ascii_digit()) {
             ParamErrorKind::NotANumber(t.to_string())
@@ -359,5 +367,11 @@ mod tests {
         bad("1 2", Dim::Time, "not a number");
         bad("1s", Dim::Conductance, "is a time, expected a conductance");
         bad("1u", Dim::Count, "not a whole number");
+        bad(
+            "400mhz",
+            Dim::Frequency,
+            "'400mhz' is ambiguous: write 400MHz for megahertz or 400mHz for millihertz",
+        );
+        bad("400 mhz", Dim::Frequency, "write 400MHz for megahertz");
     }
 }

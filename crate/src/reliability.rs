@@ -45,7 +45,7 @@ impl Target {
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct Fleet {
     /// Number of devices.
-    pub units: u64,
+    pub devices: u64,
     /// Operating years of each device.
     pub years: f64,
 }
@@ -64,7 +64,8 @@ pub struct FleetOutcome {
 /// # Formula
 /// `m = rate * units * years * YEAR_S`; `P(at least one) = 1 - exp(-m)` (Poisson).
 pub fn fleet_outcome(log10_rate: f64, fleet: Fleet) -> FleetOutcome {
-    let log10_m = log10_rate + (fleet.units as f64).log10() + fleet.years.log10() + YEAR_S.log10();
+    let log10_m =
+        log10_rate + (fleet.devices as f64).log10() + fleet.years.log10() + YEAR_S.log10();
     FleetOutcome {
         log10_expected_failures: log10_m,
         log10_p_any_failure: log10_one_minus_exp_neg(log10_m),

@@ -9,9 +9,9 @@ use wasm_bindgen::prelude::*;
 use wasm_bindgen::JsCast;
 use web_sys::HtmlCanvasElement;
 
-use crate::calculator::{Calculator, Visit};
+use crate::calculator::{query_inputs, Calculator, Visit};
 use crate::chart::{draw as draw_chart, Plot};
-use crate::params::{echo_fields, FieldEcho, RawInputs};
+use crate::params::{echo_fields, FieldEcho};
 use crate::readout::Readout;
 use crate::registry::dispatch;
 use crate::reliability::CAUTION;
@@ -40,9 +40,13 @@ struct PageState {
     facts: Vec<String>,
     warnings: Vec<String>,
     ignored: Vec<String>,
+    ignored_total: usize,
     unused: Vec<&'static str>,
     caution: &'static str,
 }
+
+/// The most unknown link parameters the page names; the rest are counted.
+const MOST_IGNORED_NAMED: usize = 10;
 
 fn to_js<T: Serialize>(v: &T) -> Result<JsValue, JsError> {
     v.serialize(&serde_wasm_bindgen::Serializer::json_compatible())
@@ -59,7 +63,7 @@ impl Visit for Page<'_> {
     type Out = PageState;
 
     fn visit<C: Calculator>(self) -> PageState {
-        let raw = RawInputs::from_query(self.0);
+        let raw = query_inputs::<C>(self.0);
         let result = C::read(&raw).map(|case| C::outcome(&C::evaluate(&case)));
         let errors = result
             .as_ref()
@@ -76,13 +80,15 @@ impl Visit for Page<'_> {
                 echo,
             })
             .collect();
+        let (ignored, ignored_total) = raw.unknown_keys(C::FIELDS, MOST_IGNORED_NAMED);
         let mut state = PageState {
             ok: result.is_ok(),
             fields,
             readouts: Vec::new(),
             facts: Vec::new(),
             warnings: Vec::new(),
-            ignored: raw.unknown_keys(C::FIELDS),
+            ignored,
+            ignored_total,
             unused: Vec::new(),
             caution: CAUTION,
         };
@@ -102,10 +108,31 @@ impl Visit for Plots<'_> {
     type Out = Vec<Plot>;
 
     fn visit<C: Calculator>(self) -> Vec<Plot> {
-        C::read(&RawInputs::from_query(self.0))
+        C::read(&query_inputs::<C>(self.0))
             .map(|case| C::plots(&case))
             .unwrap_or_default()
     }
+}
+
+struct Read<'a>(&'a str);
+
+impl Visit for Read<'_> {
+    type Out = Vec<(String, String)>;
+
+    fn visit<C: Calculator>(self) -> Vec<(String, String)> {
+        query_inputs::<C>(self.0).pairs().to_vec()
+    }
+}
+
+/// The name/value pairs of a link's query as calculator `name` reads them (the same
+/// reader as the command line's `--from-url`, old names read as their new ones), so that
+/// the page fills its fields exactly as the core will read them.
+///
+/// # Errors
+/// An unknown calculator, or an answer that cannot be converted to a JS value.
+#[wasm_bindgen]
+pub fn read_query(name: &str, query: &str) -> Result<JsValue, JsError> {
+    to_js(&dispatch(name, Read(query)).ok_or_else(|| unknown(name))?)
 }
 
 /// Evaluates the query of calculator `name`'s page: field states (text, echo, error),

@@ -7,7 +7,8 @@ use crate::reliability::{Fleet, Target};
 use crate::units::{format_number, format_si};
 
 use super::fields::{
-    FCLK, FDATA, SERVICE_YEARS, STAGES, T0, TARGET_FIT, TARGET_YEARS, TAU, TCQ, TR, TSU, TW, UNITS,
+    DEVICES, FCLK, FDATA, SERVICE_YEARS, STAGES, T0, TARGET_FIT, TARGET_YEARS, TAU, TCQ, TR, TSU,
+    TW,
 };
 use super::model::{SyncParts, Synchronizer, Window};
 
@@ -73,16 +74,16 @@ impl SyncCase {
             (false, true) => r.optional(&TARGET_FIT, positive_number).map(Target::Fit),
             (false, false) => None,
         };
-        let fleet = match (r.has(&UNITS), r.has(&SERVICE_YEARS)) {
+        let fleet = match (r.has(&DEVICES), r.has(&SERVICE_YEARS)) {
             (false, false) => None,
             _ => {
-                let units = r.required(&UNITS, |f, v| {
+                let devices = r.required(&DEVICES, |f, v| {
                     whole(f, v, 1, 1_000_000_000_000, "1 to 1e12")
                 });
                 let years = r.required(&SERVICE_YEARS, positive_number);
-                units
+                devices
                     .zip(years)
-                    .map(|(units, years)| Fleet { units, years })
+                    .map(|(devices, years)| Fleet { devices, years })
             }
         };
         let (Some(tau), Some(window), Some(fclk), Some(fdata), false) =
@@ -144,7 +145,7 @@ impl SyncCase {
             None => {}
         }
         if let Some(f) = self.fleet {
-            v.push((UNITS.name, f.units.to_string()));
+            v.push((DEVICES.name, f.devices.to_string()));
             v.push((SERVICE_YEARS.name, format_number(f.years)));
         }
         v

@@ -41,6 +41,9 @@ Example:
                  --tsu 30ps --tcq 50ps --target-years 1e6
 ";
 
+    // The fleet size was called `units` before; old links still carry it.
+    const ALIASES: &'static [(&'static str, &'static str)] = &[("units", "devices")];
+
     type Case = SyncCase;
     type Report = SyncReport;
 

@@ -288,7 +288,7 @@ impl Synchronizer {
         }
         // The tiny tolerance keeps a case that meets the target exactly from rounding up.
         let hops = (needed / hop * (1.0 - 1e-12)).ceil();
-        if !(hops < MAX_STAGES_ANSWER as f64) {
+        if hops >= MAX_STAGES_ANSWER as f64 {
             return StagesNeeded::TooMany;
         }
         StagesNeeded::Stages(1 + hops as u64)

@@ -1,0 +1,160 @@
+//! Links: the core's reader of a link's query (what `--from-url` and the page use) on a
+//! table of odd queries shared with the browser tests, and the command line's handling of
+//! what a link or a shell can hand it.
+
+use std::process::{Command, Stdio};
+
+use latchwise::calculator::{query_inputs, Calculator, Visit};
+use latchwise::registry::dispatch;
+
+struct Pairs<'a>(&'a str);
+
+impl Visit for Pairs<'_> {
+    type Out = Vec<(String, String)>;
+    fn visit<C: Calculator>(self) -> Self::Out {
+        query_inputs::<C>(self.0).pairs().to_vec()
+    }
+}
+
+#[test]
+fn odd_queries_read_as_browsers_read_them() {
+    let table: serde_json::Value =
+        serde_json::from_str(include_str!("fixtures/odd_queries.json")).unwrap();
+    let cases = table["cases"].as_array().unwrap();
+    assert!(cases.len() >= 10);
+    for c in cases {
+        let q = c["query"].as_str().unwrap();
+        let want: Vec<(String, String)> = c["pairs"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .map(|p| {
+                (
+                    p[0].as_str().unwrap().to_string(),
+                    p[1].as_str().unwrap().to_string(),
+                )
+            })
+            .collect();
+        let calc = c["calculator"].as_str().unwrap();
+        assert_eq!(dispatch(calc, Pairs(q)).unwrap(), want, "{q}");
+        // A URL around the same query reads the same.
+        let url = format!("file:///x/dist/index.html?{q}");
+        assert_eq!(dispatch(calc, Pairs(&url)).unwrap(), want, "{url}");
+    }
+}
+
+fn latchwise(args: &[&str]) -> std::process::Output {
+    Command::new(env!("CARGO_BIN_EXE_latchwise"))
+        .args(args)
+        .output()
+        .unwrap()
+}
+
+const DEMO: &[&str] = &[
+    "sync", "--tau", "20ps", "--tw", "40ps", "--fclk", "1GHz", "--fdata", "100MHz", "--stages",
+    "2", "--tsu", "30ps", "--tcq", "50ps",
+];
+
+#[test]
+fn a_repeated_option_is_refused() {
+    let mut a = DEMO.to_vec();
+    a.extend(["--tau", "25ps"]);
+    let out = latchwise(&a);
+    assert_eq!(out.status.code(), Some(2));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("--tau given twice"));
+}
+
+#[test]
+fn control_characters_from_a_link_are_escaped() {
+    let out = latchwise(&["sync", "--from-url", "?tau=%1B%5B31mred%07&tw=40ps%0Afake"]);
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(2));
+    assert!(!err.contains('\u{1b}') && !err.contains('\u{7}'), "{err:?}");
+    assert!(err.contains("\\u{1b}[31mred\\u{7}"), "{err}");
+    // A line break inside a value stays inside its message line.
+    assert!(
+        err.lines()
+            .any(|l| l.contains("tw: unknown unit or prefix 'ps\\nfake'")),
+        "{err}"
+    );
+}
+
+#[cfg(unix)]
+#[test]
+fn a_non_utf8_argument_is_an_error_not_an_abort() {
+    use std::os::unix::ffi::OsStrExt;
+    let bad = std::ffi::OsStr::from_bytes(b"20p\xffs");
+    let out = Command::new(env!("CARGO_BIN_EXE_latchwise"))
+        .args(["sync", "--tau"])
+        .arg(bad)
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(err.contains("argument 3 is not valid UTF-8"), "{err}");
+    assert!(!err.contains("panicked"), "{err}");
+}
+
+#[test]
+fn a_closed_pipe_ends_quietly() {
+    let mut child = Command::new(env!("CARGO_BIN_EXE_latchwise"))
+        .args(["sync", "--help"])
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .unwrap();
+    // Close the reading end before the command writes.
+    drop(child.stdout.take());
+    let out = child.wait_with_output().unwrap();
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        !err.contains("panicked") && !err.contains("Broken pipe"),
+        "{err}"
+    );
+    assert_eq!(out.status.code(), Some(0));
+}
+
+#[test]
+fn ambiguous_units_and_old_names() {
+    let mut a: Vec<&str> = DEMO
+        .iter()
+        .copied()
+        .filter(|s| *s != "1GHz" && *s != "--fclk")
+        .collect();
+    a.extend(["--fclk", "400mhz"]);
+    let out = latchwise(&a);
+    assert_eq!(out.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        err.contains(
+            "fclk: '400mhz' is ambiguous: write 400MHz for megahertz or 400mHz for millihertz"
+        ),
+        "{err}"
+    );
+    // The fleet size was `units` once: old links and options still read as devices.
+    let mut a = DEMO.to_vec();
+    a.extend(["--json", "--from-url", "?units=1000&service-years=5"]);
+    let out = latchwise(&a);
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["inputs"]["devices"], "1000", "{v}");
+    let mut a = DEMO.to_vec();
+    a.extend(["--json", "--units", "1000", "--service-years", "5"]);
+    let v: serde_json::Value = serde_json::from_slice(&latchwise(&a).stdout).unwrap();
+    assert_eq!(v["inputs"]["devices"], "1000", "{v}");
+}
+
+#[test]
+fn many_unknown_link_keys_are_counted_not_listed() {
+    let q: String = (0..10_000).map(|i| format!("k{i}=1&")).collect();
+    let mut a = DEMO.to_vec();
+    let url = format!("?{q}");
+    a.extend(["--from-url", &url]);
+    let out = latchwise(&a);
+    assert_eq!(out.status.code(), Some(0));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        err.contains("'k0', 'k1'") && err.contains("and 9990 more"),
+        "{err}"
+    );
+    assert!(err.len() < 400, "the note is capped: {} bytes", err.len());
+}
