@@ -297,3 +297,32 @@ fn results_that_do_not_apply_are_null_with_a_reason() {
         .unwrap()
         .starts_with("any tau"));
 }
+
+#[test]
+fn both_targets_are_one_clear_message() {
+    let r = sync(&["--target-years", "1e5", "--target-fit", "10"]);
+    assert_eq!(r.code, 2);
+    assert_eq!(
+        r.stderr.trim(),
+        "latchwise sync: target-years: give either target-years or target-fit, not both"
+    );
+    assert!(r.stdout.is_empty());
+}
+
+#[test]
+fn with_tr_given_the_chain_inputs_are_reported_unused() {
+    let r = sync(&["--json", "--tr", "900p", "--target-years", "1e5"]);
+    let v: serde_json::Value = serde_json::from_str(&r.stdout).unwrap();
+    assert_eq!(v["unused"], serde_json::json!(["stages", "tsu", "tcq"]));
+    assert!(v["max_fclk_hz"].is_null());
+    assert!(v["not_applicable"]["max_fclk_hz"]
+        .as_str()
+        .unwrap()
+        .contains("does not follow the clock"));
+    let r = sync(&["--tr", "900p"]);
+    assert!(
+        r.stdout.contains("Not used by this case: stages, tsu, tcq"),
+        "{}",
+        r.stdout
+    );
+}

@@ -123,6 +123,7 @@ impl Visit for Vocabulary {
         // Readouts: JSON key, page output and label agree, over cases that show them all.
         let outputs: BTreeSet<String> = attr_values(&page, "output", "name").into_iter().collect();
         let mut shown = BTreeSet::new();
+        let mut labelled: BTreeSet<String> = BTreeSet::new();
         for q in coverage(C::NAME) {
             let case = C::read(&RawInputs::from_query(q)).unwrap_or_else(|e| panic!("{q}: {e}"));
             let report = C::evaluate(&case);
@@ -152,13 +153,19 @@ impl Visit for Vocabulary {
                     "{q}: {key} has no <output> on {}",
                     C::PAGE
                 );
-                assert_eq!(
-                    page_label(&page, key).as_deref(),
-                    Some(r.label),
-                    "{}: the page's label of {key}",
-                    C::PAGE
-                );
+                // The page's static label is the one its first case shows; the page's
+                // script relabels from the readouts when a case words it otherwise
+                // (a PAM4 symbol error ratio).
+                if !labelled.contains(key) {
+                    assert_eq!(
+                        page_label(&page, key).as_deref(),
+                        Some(r.label),
+                        "{}: the page's label of {key}",
+                        C::PAGE
+                    );
+                }
             }
+            labelled.extend(outcome.readouts.iter().map(|r| r.name.to_string()));
             // The command prints the same readouts with the same labels.
             let args: Vec<String> = RawInputs::from_query(q)
                 .pairs()

@@ -88,6 +88,13 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
             return ExitCode::from(EXIT_BAD_INPUT);
         }
     };
+    let conflicts = C::conflicts(&case);
+    if !conflicts.is_empty() {
+        for e in &conflicts {
+            complain(&format!("latchwise {name}: {e}"));
+        }
+        return ExitCode::from(EXIT_BAD_INPUT);
+    }
     let report = C::evaluate(&case);
     let outcome = C::outcome(&report);
     if parsed.json {

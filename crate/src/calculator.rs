@@ -6,7 +6,7 @@
 use serde::Serialize;
 
 use crate::chart::Plot;
-use crate::error::ParamErrors;
+use crate::error::{ParamError, ParamErrors};
 use crate::params::{FieldSpec, RawInputs};
 use crate::readout::Readout;
 
@@ -41,6 +41,13 @@ pub trait Calculator {
     /// # Errors
     /// Every field error found, each naming its field.
     fn read(raw: &RawInputs) -> Result<Self::Case, ParamErrors>;
+
+    /// Conflicts among the inputs that still leave a usable case (both of two
+    /// alternative targets given). The command refuses the case; the page shows the
+    /// message beside the results it can still give.
+    fn conflicts(_case: &Self::Case) -> Vec<ParamError> {
+        Vec::new()
+    }
 
     /// Evaluates a case.
     fn evaluate(case: &Self::Case) -> Self::Report;

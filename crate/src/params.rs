@@ -198,6 +198,7 @@ pub struct FieldReader<'a> {
     raw: &'a RawInputs,
     errors: Vec<ParamError>,
     notes: Vec<String>,
+    conflicts: Vec<ParamError>,
 }
 
 impl<'a> FieldReader<'a> {
@@ -207,6 +208,7 @@ impl<'a> FieldReader<'a> {
             raw,
             errors: Vec::new(),
             notes: Vec::new(),
+            conflicts: Vec::new(),
         }
     }
 
@@ -264,6 +266,18 @@ impl<'a> FieldReader<'a> {
     /// Finishes: every error recorded, in the order found.
     pub fn into_errors(self) -> ParamErrors {
         ParamErrors(self.errors)
+    }
+
+    /// Records a conflict that leaves the rest of the case usable (both of two
+    /// alternative targets given): the case is still built, without either, and the
+    /// adapters show the message beside the results (the command exits 2).
+    pub fn conflict(&mut self, e: ParamError) {
+        self.conflicts.push(e);
+    }
+
+    /// The conflicts recorded with [`FieldReader::conflict`].
+    pub fn conflicts(&self) -> Vec<ParamError> {
+        self.conflicts.clone()
     }
 
     /// The notes on values far outside their usual range, in the order read.

@@ -49,6 +49,27 @@ impl Readout {
         .judged(met)
     }
 
+    /// A result that may not apply: its number formatted by `text`, or else the reason
+    /// that `not_applicable` gives for `name`.
+    pub fn maybe(
+        name: &'static str,
+        label: &'static str,
+        value: Option<f64>,
+        text: impl Fn(f64) -> String,
+        not_applicable: &[(&'static str, String)],
+    ) -> Self {
+        match value {
+            Some(v) => Readout::new(name, label, text(v), Some(v)),
+            None => {
+                let why = not_applicable
+                    .iter()
+                    .find(|(k, _)| *k == name)
+                    .map_or_else(|| "does not apply".to_string(), |(_, w)| w.clone());
+                Readout::new(name, label, why, None)
+            }
+        }
+    }
+
     /// The margin against a target under the key `margin_decades`: "+0.88 decades".
     pub fn margin(margin_decades: f64) -> Self {
         Readout::new(

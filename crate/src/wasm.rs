@@ -64,12 +64,12 @@ impl Visit for Page<'_> {
 
     fn visit<C: Calculator>(self) -> PageState {
         let raw = query_inputs::<C>(self.0);
-        let result = C::read(&raw).map(|case| C::outcome(&C::evaluate(&case)));
-        let errors = result
-            .as_ref()
-            .err()
-            .map(|e| e.0.clone())
-            .unwrap_or_default();
+        let result =
+            C::read(&raw).map(|case| (C::conflicts(&case), C::outcome(&C::evaluate(&case))));
+        let errors = match &result {
+            Ok((conflicts, _)) => conflicts.clone(),
+            Err(e) => e.0.clone(),
+        };
         let fields = echo_fields(&raw, C::FIELDS)
             .into_iter()
             .map(|echo| FieldState {
@@ -92,7 +92,7 @@ impl Visit for Page<'_> {
             unused: Vec::new(),
             caution: CAUTION,
         };
-        if let Ok(o) = result {
+        if let Ok((_, o)) = result {
             state.readouts = o.readouts;
             state.facts = o.facts;
             state.warnings = o.warnings;

@@ -119,7 +119,7 @@ pub const MEAN: FieldSpec = FieldSpec {
 pub const FS: FieldSpec = FieldSpec {
     name: "fs",
     dim: Dim::Frequency,
-    help: "decisions per second",
+    help: "decisions per second (symbols per second for pam4)",
     limits: (1e-9, 1e18),
     usual: (1e3, 2e11),
 };

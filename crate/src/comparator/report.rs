@@ -10,7 +10,7 @@ use crate::numeric::normal::ln_sum_exp;
 use crate::params::serialize_pairs;
 use crate::readout::Readout;
 use crate::reliability::{CAUTION, YEAR_S};
-use crate::units::{format_duration_log10, format_log10, format_si};
+use crate::units::{format_decades, format_duration_log10, format_log10, format_si};
 
 use super::input::CompCase;
 use super::model::{decision_time, InputModel, TauSource};
@@ -30,8 +30,8 @@ pub struct CompReport {
     pub tau_source: TauSource,
     /// Total regeneration time including extra stages, s.
     pub treg_total_s: f64,
-    /// Critical input, V (0 when below the smallest f64; see `log10_vcrit_v`).
-    pub vcrit_v: f64,
+    /// Critical input, V (null below the smallest normal f64; see `log10_vcrit_v`).
+    pub vcrit_v: Option<f64>,
     /// log10 of the critical input in volts.
     pub log10_vcrit_v: f64,
     /// log10 of the metastability error probability per decision.
@@ -48,18 +48,19 @@ pub struct CompReport {
     /// The target error ratio.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub target_ber: Option<f64>,
-    /// Whether the metastability error probability meets the target.
+    /// Whether the total error ratio (metastability plus noise) meets the target.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub meets_target: Option<bool>,
-    /// Decades of margin (negative: missed).
+    /// Decades by which the total meets the target (negative: missed).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub margin_decades: Option<f64>,
-    /// Whether the total error ratio (with noise) meets the target.
+    /// Decades by which metastability alone meets the target (negative: missed).
     #[serde(skip_serializing_if = "Option::is_none")]
-    pub total_meets_target: Option<bool>,
-    /// Total regeneration time needed for the target, s.
+    pub metastability_margin_decades: Option<f64>,
+    /// Total regeneration time needed for the target, noise included, s (null: see
+    /// `not_applicable`).
     #[serde(skip_serializing_if = "Option::is_none")]
-    pub treg_needed_s: Option<f64>,
+    pub treg_needed_s: Option<Option<f64>>,
     /// Largest tau meeting the target at this regeneration time, s (null: see
     /// `not_applicable`).
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -93,9 +94,25 @@ pub fn evaluate(case: &CompCase) -> CompReport {
     };
     let ln_rate = ln_p + case.fs.get().ln();
     let ln_target = case.target_ber.map(f64::ln);
-    let sizing = ln_target.map(|t| c.size_for(t));
     let mut warnings = case.notes.clone();
     let mut not_applicable = Vec::new();
+    // What the target leaves for metastability once noise has taken its share.
+    let budget = ln_target.map(|t| match ln_noise {
+        Some(n) if n >= t => None,
+        Some(n) => Some(t + ln_one_minus_exp(n - t)),
+        None => Some(t),
+    });
+    if let (Some(None), Some(n)) = (budget, ln_noise) {
+        warnings.push(format!(
+            "Noise alone (error ratio {}) misses the target: no regeneration time or tau \
+             meets it; the signal-to-noise ratio amp/sigma must rise first.",
+            format_log10(n / LN_10, 3)
+        ));
+        for key in ["treg_needed_s", "max_tau_s", "extra_stages_needed"] {
+            not_applicable.push((key, "noise alone misses the target".to_string()));
+        }
+    }
+    let sizing = budget.map(|b| b.map(|b| c.size_for(b)));
     if ln_p >= -1e-12 {
         warnings.push("Every decision is at risk: vcrit is as large as the input spread, so the regeneration time is far too short.".into());
     }
@@ -116,25 +133,15 @@ pub fn evaluate(case: &CompCase) -> CompReport {
     if !case.gain_given {
         warnings.push("gain not given: taken as 1 (a bare latch with no preamplifier).".into());
     }
-    CompReport {
-        inputs: case.echo(),
-        input_model: c.input().name(),
-        tau_s: c.tau().get(),
-        tau_source: c.tau_source(),
-        treg_total_s: c.treg_total(),
-        vcrit_v: ln_vc.exp(),
-        log10_vcrit_v: ln_vc / LN_10,
-        log10_p_error: ln_p / LN_10,
-        log10_errors_per_s: ln_rate / LN_10,
-        log10_mean_time_between_errors_s: -ln_rate / LN_10,
-        log10_p_noise: ln_noise.map(|n| n / LN_10),
-        log10_p_total: ln_total / LN_10,
-        target_ber: case.target_ber,
-        meets_target: ln_target.map(|t| ln_p <= t),
-        margin_decades: ln_target.map(|t| (t - ln_p) / LN_10),
-        total_meets_target: ln_target.map(|t| ln_total <= t),
-        treg_needed_s: sizing.map(|z| z.treg_needed_s),
-        max_tau_s: sizing.map(|z| {
+    let vcrit_v = Some(ln_vc.exp()).filter(|v| v.is_normal());
+    if vcrit_v.is_none() {
+        not_applicable.push((
+            "vcrit_v",
+            "below the smallest normal f64: see log10_vcrit_v".to_string(),
+        ));
+    }
+    let max_tau_s = sizing.map(|z| {
+        z.and_then(|z| {
             z.max_tau_s.or_else(|| {
                 not_applicable.push((
                     "max_tau_s",
@@ -142,13 +149,36 @@ pub fn evaluate(case: &CompCase) -> CompReport {
                 ));
                 None
             })
-        }),
-        extra_stages_needed: sizing.map(|z| {
+        })
+    });
+    let extra_stages_needed = sizing.map(|z| {
+        z.and_then(|z| {
             z.extra_stages.or_else(|| {
                 not_applicable.push(("extra_stages_needed", "give stage-time".to_string()));
                 None
             })
-        }),
+        })
+    });
+    CompReport {
+        inputs: case.echo(),
+        input_model: c.input().name(),
+        tau_s: c.tau().get(),
+        tau_source: c.tau_source(),
+        treg_total_s: c.treg_total(),
+        vcrit_v,
+        log10_vcrit_v: ln_vc / LN_10,
+        log10_p_error: ln_p / LN_10,
+        log10_errors_per_s: ln_rate / LN_10,
+        log10_mean_time_between_errors_s: -ln_rate / LN_10,
+        log10_p_noise: ln_noise.map(|n| n / LN_10),
+        log10_p_total: ln_total / LN_10,
+        target_ber: case.target_ber,
+        meets_target: ln_target.map(|t| ln_total <= t),
+        margin_decades: ln_target.map(|t| (t - ln_total) / LN_10),
+        metastability_margin_decades: ln_target.map(|t| (t - ln_p) / LN_10),
+        treg_needed_s: sizing.map(|z| z.map(|z| z.treg_needed_s)),
+        max_tau_s,
+        extra_stages_needed,
         decision_time_s: case
             .vin
             .map(|v| decision_time(c.tau().get(), c.vmin().get(), c.gain(), v.get())),
@@ -159,9 +189,22 @@ pub fn evaluate(case: &CompCase) -> CompReport {
     }
 }
 
+/// ln(1 - e^x) for x < 0, accurate at both ends.
+fn ln_one_minus_exp(x: f64) -> f64 {
+    if x > -std::f64::consts::LN_2 {
+        (-x.exp_m1()).ln()
+    } else {
+        (-x.exp()).ln_1p()
+    }
+}
+
 impl CompReport {
     /// The results as named readouts; keys equal the JSON keys.
     pub fn readouts(&self) -> Vec<Readout> {
+        // A PAM4 decision is a symbol, made by three slicers at once: say so.
+        let pam4 = self.input_model == "pam4";
+        let pick = |plain: &'static str, symbol: &'static str| if pam4 { symbol } else { plain };
+        let na = &self.not_applicable;
         let mut v = vec![
             Readout::new("tau_s", "tau", format_si(self.tau_s, "s"), Some(self.tau_s)),
             Readout::new(
@@ -178,13 +221,19 @@ impl CompReport {
             ),
             Readout::new(
                 "log10_p_error",
-                "metastability error probability",
+                pick(
+                    "metastability error probability",
+                    "metastability symbol error probability",
+                ),
                 format_log10(self.log10_p_error, 3),
                 Some(self.log10_p_error),
             ),
             Readout::new(
                 "log10_errors_per_s",
-                "metastability errors per second",
+                pick(
+                    "metastability errors per second",
+                    "metastability symbol errors per second",
+                ),
                 format!("{} /s", format_log10(self.log10_errors_per_s, 3)),
                 Some(self.log10_errors_per_s),
             ),
@@ -198,14 +247,14 @@ impl CompReport {
         if let Some(n) = self.log10_p_noise {
             v.push(Readout::new(
                 "log10_p_noise",
-                "noise-only error ratio",
+                pick("noise-only error ratio", "noise-only symbol error ratio"),
                 format_log10(n, 3),
                 Some(n),
             ));
         }
         v.push(Readout::new(
             "log10_p_total",
-            "total error ratio",
+            pick("total error ratio", "total symbol error ratio"),
             format_log10(self.log10_p_total, 3),
             Some(self.log10_p_total),
         ));
@@ -213,56 +262,43 @@ impl CompReport {
             v.push(Readout::verdict(met, m));
             v.push(Readout::margin(m));
         }
-        if let Some(t) = self.total_meets_target {
+        if let Some(m) = self.metastability_margin_decades {
             v.push(
                 Readout::new(
-                    "total_meets_target",
-                    "total against the target",
-                    if t { "met".into() } else { "missed".into() },
-                    Some(if t { 1.0 } else { 0.0 }),
+                    "metastability_margin_decades",
+                    "margin of metastability alone",
+                    format!("{} decades", format_decades(m)),
+                    Some(m),
                 )
-                .judged(t),
+                .judged(m >= 0.0),
             );
         }
         if let Some(t) = self.treg_needed_s {
-            v.push(Readout::new(
+            v.push(Readout::maybe(
                 "treg_needed_s",
                 "regeneration time needed",
-                format_si(t, "s"),
-                Some(t),
+                t,
+                |t| format_si(t, "s"),
+                na,
             ));
         }
         if let Some(t) = self.max_tau_s {
-            v.push(match t {
-                Some(t) => Readout::new(
-                    "max_tau_s",
-                    "largest tau allowed",
-                    format_si(t, "s"),
-                    Some(t),
-                ),
-                None => Readout::new(
-                    "max_tau_s",
-                    "largest tau allowed",
-                    self.why("max_tau_s"),
-                    None,
-                ),
-            });
+            v.push(Readout::maybe(
+                "max_tau_s",
+                "largest tau allowed",
+                t,
+                |t| format_si(t, "s"),
+                na,
+            ));
         }
         if let Some(n) = self.extra_stages_needed {
-            v.push(match n {
-                Some(n) => Readout::new(
-                    "extra_stages_needed",
-                    "extra stages needed",
-                    n.to_string(),
-                    Some(n as f64),
-                ),
-                None => Readout::new(
-                    "extra_stages_needed",
-                    "extra stages needed",
-                    self.why("extra_stages_needed"),
-                    None,
-                ),
-            });
+            v.push(Readout::maybe(
+                "extra_stages_needed",
+                "extra stages needed",
+                n.map(|n| n as f64),
+                |n| format!("{n:.0}"),
+                na,
+            ));
         }
         if let Some(t) = self.decision_time_s {
             v.push(Readout::new(
@@ -275,23 +311,23 @@ impl CompReport {
         v
     }
 
-    fn why(&self, name: &str) -> String {
-        self.not_applicable
-            .iter()
-            .find(|(k, _)| *k == name)
-            .map_or_else(|| "n/a".to_string(), |(_, w)| w.clone())
-    }
-
     /// What a person reads of the report.
     pub fn outcome(&self) -> Outcome {
         let mut facts = vec![format!(
             "Input model: {}. Probabilities are per decision.",
             self.input_model
         )];
-        if self.log10_p_noise.is_some() {
+        if self.input_model == "pam4" {
             facts.push(
-                "For a receiver the probabilities are bit-error ratios; the noise-only ratio \
-                 is shown beside the metastability one."
+                "PAM4: a decision is one symbol, made by three slicers at once; fs counts \
+                 symbols per second and the ratios are symbol error ratios (with Gray \
+                 coding a symbol error is about one bit error in two bits)."
+                    .to_string(),
+            );
+        } else if self.log10_p_noise.is_some() {
+            facts.push(
+                "For a receiver the probabilities are bit-error ratios; the target is met by \
+                 the total, metastability plus noise."
                     .to_string(),
             );
         }

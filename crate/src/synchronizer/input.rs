@@ -23,6 +23,10 @@ pub struct SyncCase {
     pub fleet: Option<Fleet>,
     /// Notes on values far outside their usual range.
     pub notes: Vec<String>,
+    /// Parameters given that this case does not use (the chain's with `tr` given).
+    pub unused: Vec<&'static str>,
+    /// Conflicts that leave the rest of the case usable (both targets given).
+    pub conflicts: Vec<ParamError>,
 }
 
 impl SyncCase {
@@ -62,7 +66,7 @@ impl SyncCase {
         let tcq = read_time(&mut r, &TCQ, chain_needed && uses_tcq);
         let target = match (r.has(&TARGET_YEARS), r.has(&TARGET_FIT)) {
             (true, true) => {
-                r.push(ParamError::new(
+                r.conflict(ParamError::new(
                     TARGET_YEARS.name,
                     ParamErrorKind::Conflict(TARGET_FIT.name),
                 ));
@@ -86,6 +90,18 @@ impl SyncCase {
                     .map(|(devices, years)| Fleet { devices, years })
             }
         };
+        // With tr given, the chain's inputs are not used; with t0, tcq is not.
+        let mut unused: Vec<&'static str> = Vec::new();
+        if !chain_needed {
+            unused.extend(
+                [&STAGES, &TSU, &TCQ]
+                    .iter()
+                    .filter(|f| r.has(f))
+                    .map(|f| f.name),
+            );
+        } else if !uses_tcq && r.has(&TCQ) {
+            unused.push(TCQ.name);
+        }
         let (Some(tau), Some(window), Some(fclk), Some(fdata), false) =
             (tau, window, fclk, fdata, r.has_errors())
         else {
@@ -112,6 +128,8 @@ impl SyncCase {
                 target,
                 fleet,
                 notes: r.notes(),
+                unused,
+                conflicts: r.conflicts(),
             }),
             Err(e) => {
                 r.push(e);

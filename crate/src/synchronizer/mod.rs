@@ -11,7 +11,7 @@ pub mod sweep;
 
 use crate::calculator::{Calculator, Outcome};
 use crate::chart::Plot;
-use crate::error::ParamErrors;
+use crate::error::{ParamError, ParamErrors};
 use crate::params::{FieldSpec, RawInputs};
 
 pub use fields::FIELDS;
@@ -49,6 +49,10 @@ Example:
 
     fn read(raw: &RawInputs) -> Result<SyncCase, ParamErrors> {
         SyncCase::from_inputs(raw)
+    }
+
+    fn conflicts(case: &SyncCase) -> Vec<ParamError> {
+        case.conflicts.clone()
     }
 
     fn evaluate(case: &SyncCase) -> SyncReport {

@@ -63,6 +63,8 @@ pub struct SyncReport {
     /// For each result that is null: why it does not apply.
     #[serde(serialize_with = "serialize_pairs")]
     pub not_applicable: Vec<(&'static str, String)>,
+    /// Parameters given that this case does not use.
+    pub unused: Vec<&'static str>,
     /// Suspicious but legal inputs.
     pub warnings: Vec<String>,
     /// The standing caution.
@@ -145,6 +147,7 @@ pub fn evaluate(case: &SyncCase) -> SyncReport {
         max_tau_s,
         fleet: case.fleet.map(|f| fleet_outcome(log10_rate, f)),
         not_applicable,
+        unused: case.unused.clone(),
         warnings: warnings(case, log10_p),
         caution: CAUTION,
     }
@@ -197,27 +200,6 @@ fn warnings(case: &SyncCase, log10_p: f64) -> Vec<String> {
         ));
     }
     w
-}
-
-/// A readout for a result that may not apply: its number, or the reason in words.
-fn maybe(
-    r: &SyncReport,
-    name: &'static str,
-    label: &'static str,
-    value: Option<f64>,
-    text: impl Fn(f64) -> String,
-) -> Readout {
-    match value {
-        Some(v) => Readout::new(name, label, text(v), Some(v)),
-        None => {
-            let why = r
-                .not_applicable
-                .iter()
-                .find(|(k, _)| *k == name)
-                .map_or_else(|| "n/a".to_string(), |(_, w)| w.clone());
-            Readout::new(name, label, why, None)
-        }
-    }
 }
 
 impl SyncReport {
@@ -276,27 +258,31 @@ impl SyncReport {
             v.push(Readout::margin(margin));
         }
         if let Some(n) = self.min_stages {
-            v.push(maybe(
-                self,
+            v.push(Readout::maybe(
                 "min_stages",
                 "smallest stage count for the target",
                 n.map(|n| n as f64),
                 |n| format!("{n:.0}"),
+                &self.not_applicable,
             ));
         }
         if let Some(f) = self.max_fclk_hz {
-            v.push(maybe(
-                self,
+            v.push(Readout::maybe(
                 "max_fclk_hz",
                 "highest fclk at this depth",
                 f,
                 |f| format_si(f, "Hz"),
+                &self.not_applicable,
             ));
         }
         if let Some(t) = self.max_tau_s {
-            v.push(maybe(self, "max_tau_s", "largest tau at this tr", t, |t| {
-                format_si(t, "s")
-            }));
+            v.push(Readout::maybe(
+                "max_tau_s",
+                "largest tau at this tr",
+                t,
+                |t| format_si(t, "s"),
+                &self.not_applicable,
+            ));
         }
         if let Some(f) = self.fleet {
             v.push(Readout::new(
@@ -333,7 +319,7 @@ impl SyncReport {
                 ),
             ],
             warnings: self.warnings.clone(),
-            unused: Vec::new(),
+            unused: self.unused.clone(),
             target_missed: self.meets_target == Some(false),
         }
     }
