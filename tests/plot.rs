@@ -5,7 +5,7 @@ use latchwise::chart::{draw, Plot};
 use latchwise::comparator::ComparatorCalculator;
 use latchwise::params::RawInputs;
 use latchwise::synchronizer::sweep::{mtbf_vs_fclk, mtbf_vs_stages, mtbf_vs_tau, mtbf_vs_tr};
-use latchwise::synchronizer::{SyncCase, Synchronizer};
+use latchwise::synchronizer::{SyncCalculator, SyncCase, Synchronizer};
 use plotters::prelude::*;
 
 fn sync(q: &str) -> Synchronizer {
@@ -96,7 +96,7 @@ fn every_sweep_draws_finite_points() {
             .points()
             .iter()
             .all(|p| p.0.is_finite() && p.1.is_finite()));
-        let csv = series.to_csv();
+        let csv = series.to_csv(&[]);
         assert_eq!(csv.lines().count(), 121, "{}", series.id);
     }
 }
@@ -158,6 +158,116 @@ fn comparator_charts_render_natively_with_their_lines() {
     let (out, _) = svg(growth, Some(0.4f64.log10()));
     let labels = texts(&out);
     assert!(labels.iter().any(|l| l == "treg"), "{labels:?}");
-    let csv = growth.to_csv();
+    let csv = growth.to_csv(&[]);
     assert!(csv.starts_with("curve,t_s,log10_dv_v\n"), "{csv}");
+}
+
+/// Every plot of a case, drawn to SVG: what the page would draw.
+fn draw_all<C: Calculator>(q: &str) -> Vec<(Plot, latchwise::chart::Drawn)> {
+    let case = C::read(&RawInputs::from_query(q)).unwrap_or_else(|e| panic!("{q}: {e}"));
+    C::plots(&case)
+        .into_iter()
+        .map(|p| {
+            let mut out = String::new();
+            let drawn = {
+                let root = SVGBackend::with_string(&mut out, (640, 360)).into_drawing_area();
+                draw(&root, &p, 2.0).unwrap()
+            };
+            (p, drawn)
+        })
+        .collect()
+}
+
+#[test]
+fn flat_curves_at_huge_values_draw_with_few_ticks() {
+    // tr/tau = 1e18: every curve sits near 4.3e17 decades and is flat to f64 precision.
+    // Tick generation once looped forever here; it must end with a handful of ticks.
+    for (p, drawn) in draw_all::<SyncCalculator>("tau=1as&tw=40ps&fclk=1GHz&fdata=100MHz&tr=1") {
+        assert!(drawn.y_ticks.len() <= 9, "{}: {:?}", p.id, drawn.y_ticks);
+        assert!(drawn.y_range.0 < drawn.y_range.1, "{}", p.id);
+    }
+}
+
+#[test]
+fn plots_reach_the_answer_and_clip_to_a_readable_span() {
+    // The demo chain needs 3 stages for 1e6 years; a target of 1e100 years needs more
+    // than the default six-stage plot shows.
+    let case = SyncCalculator::read(&RawInputs::from_query(&format!(
+        "{DEMO}&target-years=1e100"
+    )))
+    .unwrap();
+    let need = match case
+        .sync
+        .min_stages(-100.0 - latchwise::reliability::YEAR_S.log10())
+    {
+        latchwise::synchronizer::StagesNeeded::Stages(n) => n as f64,
+        other => panic!("{other:?}"),
+    };
+    let stages = &SyncCalculator::plots(&case)[0];
+    assert!(
+        stages.points().last().unwrap().0 > need,
+        "plot ends before {need} stages"
+    );
+    // The comparator's regeneration-time plot reaches past the regeneration time needed.
+    let q = "tau=15ps&treg=80ps&vmin=0.4&gain=4&input=uniform&lsb=1mV&fs=5GHz&target-ber=1e-15";
+    let report = ComparatorCalculator::evaluate(
+        &ComparatorCalculator::read(&RawInputs::from_query(q)).unwrap(),
+    );
+    let needed = report.treg_needed_s.unwrap().unwrap();
+    let plots = draw_all::<ComparatorCalculator>(q);
+    let (treg, _) = &plots[0];
+    assert!(
+        treg.points().last().unwrap().0 > needed,
+        "treg plot ends before {needed:e}"
+    );
+    // A latch with 4.4 ns: p = 1e-125 at this tau, 1e-500 at a quarter of it. The tau
+    // plot keeps the case and the target in view instead of spanning 500 decades.
+    let q = "tau=15ps&treg=4.4ns&vmin=0.4&gain=4&input=uniform&lsb=1mV&fs=5GHz&target-ber=1e-10";
+    let plots = draw_all::<ComparatorCalculator>(q);
+    let (tau, drawn) = &plots[1];
+    assert_eq!(tau.id, "plot-ctau");
+    assert!(tau.points().iter().any(|p| p.1 < -450.0));
+    assert!(
+        drawn.y_range.1 - drawn.y_range.0 < 200.0,
+        "{:?}",
+        drawn.y_range
+    );
+    let marker = tau.marker.unwrap().1;
+    assert!(
+        drawn.y_range.0 < marker && drawn.y_range.1 > -10.0,
+        "{:?}",
+        drawn.y_range
+    );
+}
+
+#[test]
+fn csv_opens_with_the_case_and_writes_plain_numbers() {
+    let raw = RawInputs::from_query(&format!("{DEMO}&target-years=1e5"));
+    let csv = latchwise::calculator::plot_csv::<SyncCalculator>(
+        &raw,
+        "plot-stages",
+        "file:///x/index.html?q",
+    )
+    .unwrap();
+    let lines: Vec<&str> = csv.lines().collect();
+    assert_eq!(
+        lines[0],
+        "# latchwise sync: MTBF against synchronizer depth"
+    );
+    assert!(
+        lines.contains(&"# tau = 20 ps") && lines.contains(&"# fclk = 1 GHz"),
+        "{csv}"
+    );
+    assert!(lines.contains(&"# link: file:///x/index.html?q"), "{csv}");
+    let header = lines.iter().position(|l| !l.starts_with('#')).unwrap();
+    assert_eq!(lines[header], "stages,log10_mtbf_years");
+    // Stage counts as integers, values in scientific notation that parse back exactly.
+    let (x, y) = lines[header + 1].split_once(',').unwrap();
+    assert_eq!(x, "1");
+    assert!(y.contains('e') && y.parse::<f64>().is_ok(), "{y}");
+    assert!(
+        !csv.contains("0.0000"),
+        "no long fixed-point fractions: {csv}"
+    );
+    assert!(latchwise::calculator::plot_csv::<SyncCalculator>(&raw, "plot-nothing", "").is_none());
 }

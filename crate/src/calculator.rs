@@ -112,6 +112,23 @@ pub fn query_inputs<C: Calculator>(query: &str) -> RawInputs {
     RawInputs::from_query(query).renamed(C::ALIASES)
 }
 
+/// The CSV of plot `plot` (its canvas id) of the case `raw` describes, opening with the
+/// case itself: the calculator, the plot's title, every input as understood with its
+/// unit, the link to the case (when given) and what the y column holds. `None` when
+/// the inputs are not valid or there is no such plot.
+pub fn plot_csv<C: Calculator>(raw: &RawInputs, plot: &str, link: &str) -> Option<String> {
+    let case = C::read(raw).ok()?;
+    let p = C::plots(&case).into_iter().find(|p| p.id == plot)?;
+    let outcome = C::outcome(&C::evaluate(&case));
+    let mut preface = vec![format!("latchwise {}: {}", C::NAME, p.title)];
+    preface.extend(outcome.inputs.iter().map(|(k, v)| format!("{k} = {v}")));
+    if !link.is_empty() {
+        preface.push(format!("link: {link}"));
+    }
+    preface.push(format!("{} is log10 of {}", p.y_name, p.y_label));
+    Some(p.to_csv(&preface))
+}
+
 /// Something to do with a calculator chosen by name at run time (see
 /// `registry::dispatch`): each adapter writes its work once, generic over the calculator.
 pub trait Visit {

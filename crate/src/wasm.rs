@@ -9,7 +9,7 @@ use wasm_bindgen::prelude::*;
 use wasm_bindgen::JsCast;
 use web_sys::HtmlCanvasElement;
 
-use crate::calculator::{query_inputs, Calculator, Visit};
+use crate::calculator::{plot_csv, query_inputs, Calculator, Visit};
 use crate::chart::{draw as draw_chart, Plot};
 use crate::params::{echo_fields, FieldEcho};
 use crate::readout::Readout;
@@ -163,18 +163,29 @@ pub fn draw(name: &str, query: &str, scale: f64) -> Result<Vec<String>, JsError>
     Ok(drawn)
 }
 
-/// The CSV of calculator `name`'s plot `plot` (a canvas id), or "" when the inputs are
-/// not valid or there is no such plot.
+struct Csv<'a> {
+    query: &'a str,
+    plot: &'a str,
+    link: &'a str,
+}
+
+impl Visit for Csv<'_> {
+    type Out = Option<String>;
+
+    fn visit<C: Calculator>(self) -> Option<String> {
+        plot_csv::<C>(&query_inputs::<C>(self.query), self.plot, self.link)
+    }
+}
+
+/// The CSV of calculator `name`'s plot `plot` (a canvas id), opening with the case and
+/// `link`; "" when the inputs are not valid or there is no such plot.
 ///
 /// # Errors
 /// An unknown calculator.
 #[wasm_bindgen]
-pub fn csv(name: &str, query: &str, plot: &str) -> Result<String, JsError> {
-    Ok(dispatch(name, Plots(query))
+pub fn csv(name: &str, query: &str, plot: &str, link: &str) -> Result<String, JsError> {
+    Ok(dispatch(name, Csv { query, plot, link })
         .ok_or_else(|| unknown(name))?
-        .into_iter()
-        .find(|p| p.id == plot)
-        .map(|p| p.to_csv())
         .unwrap_or_default())
 }
 

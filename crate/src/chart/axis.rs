@@ -50,23 +50,39 @@ pub fn decade_label(e: f64) -> String {
     }
 }
 
+/// The most ticks an axis gets, whatever its data.
+const MAX_TICKS: usize = 24;
+
+/// Multiples of `step` from `lo` to `hi`, each computed from its index so that no step
+/// is lost to rounding at large magnitudes, at most `cap` of them and none repeated.
+fn ladder(lo: f64, hi: f64, step: f64, cap: usize) -> Vec<f64> {
+    if !(step > 0.0 && lo.is_finite() && hi.is_finite() && hi >= lo) {
+        return Vec::new();
+    }
+    let first = (lo / step).ceil();
+    let last = (hi / step + 1e-9).floor();
+    if last < first {
+        return Vec::new();
+    }
+    let count = (last - first).min(cap as f64) as usize + 1;
+    let mut v: Vec<f64> = (0..count.min(cap))
+        .map(|k| (first + k as f64) * step)
+        .collect();
+    v.dedup();
+    v
+}
+
 /// Integer decades from `lo` to `hi` with a step chosen to give at most `max` ticks.
 pub fn decade_ticks(lo: f64, hi: f64, max: usize) -> Vec<f64> {
     let span = (hi - lo).max(1.0);
     let mut step = 1.0;
     let mut k = 0;
-    while span / step > max as f64 {
+    // The step grows geometrically, so this ends for any finite span.
+    while span / step > max as f64 && step.is_finite() {
         step *= [2.0, 2.5, 2.0][k % 3];
         k += 1;
     }
-    let first = (lo / step).ceil() * step;
-    let mut v = Vec::new();
-    let mut t = first;
-    while t <= hi + 1e-9 {
-        v.push(t);
-        t += step;
-    }
-    v
+    ladder(lo, hi, step, max + 1)
 }
 
 /// Tick positions on an x axis of the given spacing (log axes in log10 units).
@@ -74,14 +90,10 @@ pub(super) fn x_ticks(spacing: Spacing, lo: f64, hi: f64) -> Vec<f64> {
     match spacing {
         Spacing::Integer => {
             let step = nice_step((hi - lo).max(1.0) / 8.0).max(1.0);
-            let mut v = Vec::new();
-            let mut t = (lo / step).ceil() * step;
-            while t <= hi {
-                if t >= 1.0 {
-                    v.push(t);
-                }
-                t += step;
-            }
+            let mut v: Vec<f64> = ladder(lo, hi, step, MAX_TICKS)
+                .into_iter()
+                .filter(|t| *t >= 1.0)
+                .collect();
             // Always label the single flip-flop when it is shown, unless a tick crowds it.
             let room = v.first().map_or(true, |&f| f - 1.0 > step / 2.0);
             if room && lo < 1.0 {
@@ -90,34 +102,16 @@ pub(super) fn x_ticks(spacing: Spacing, lo: f64, hi: f64) -> Vec<f64> {
             v
         }
         Spacing::Log => {
-            let mut v = Vec::new();
             let dense = hi - lo < 2.5;
-            let mut d = lo.floor();
-            while d <= hi {
-                for m in if dense {
-                    &[1.0, 2.0, 5.0][..]
-                } else {
-                    &[1.0][..]
-                } {
-                    let t = d + f64::log10(*m);
-                    if t >= lo - 1e-9 && t <= hi + 1e-9 {
-                        v.push(t);
-                    }
-                }
-                d += 1.0;
-            }
-            v
+            let mantissas: &[f64] = if dense { &[1.0, 2.0, 5.0] } else { &[1.0] };
+            let step = nice_step((hi - lo).max(1.0) / 8.0).max(1.0);
+            ladder(lo.floor(), hi, step, MAX_TICKS)
+                .into_iter()
+                .flat_map(|d| mantissas.iter().map(move |m| d + m.log10()))
+                .filter(|t| *t >= lo - 1e-9 && *t <= hi + 1e-9)
+                .collect()
         }
-        Spacing::Linear => {
-            let step = nice_step((hi - lo) / 6.0);
-            let mut v = Vec::new();
-            let mut t = (lo / step).ceil() * step;
-            while t <= hi + step * 1e-9 {
-                v.push(t);
-                t += step;
-            }
-            v
-        }
+        Spacing::Linear => ladder(lo, hi, nice_step((hi - lo) / 6.0), MAX_TICKS),
     }
 }
 
@@ -142,6 +136,27 @@ mod tests {
         assert_eq!(decade_label(-2.0), "0.01");
         assert_eq!(decade_label(412.0), "1e412");
         assert_eq!(decade_label(-7.0), "1e-7");
+    }
+
+    #[test]
+    fn ticks_stay_few_for_any_range() {
+        // Flat curves at huge values, tiny spans, and ranges beyond any plot: bounded.
+        for (lo, hi) in [
+            (4.3e17, 4.3e17 + 1.0),
+            (4.3e17 - 0.5, 4.3e17 + 0.5),
+            (-1e300, 1e300),
+            (1e-300, 2e-300),
+            (0.0, 0.0),
+            (5.0, 4.0),
+        ] {
+            assert!(decade_ticks(lo, hi, 8).len() <= 9, "{lo} {hi}");
+            for sp in [Spacing::Integer, Spacing::Log, Spacing::Linear] {
+                assert!(
+                    x_ticks(sp, lo, hi).len() <= 3 * MAX_TICKS,
+                    "{sp:?} {lo} {hi}"
+                );
+            }
+        }
     }
 
     #[test]

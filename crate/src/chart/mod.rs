@@ -43,6 +43,14 @@ pub struct Drawn {
     pub points: usize,
 }
 
+/// Padding around a range: a share of its span, and never less than the rounding of an
+/// f64 at that magnitude, so that a flat curve at 1e17 still has a range to draw in.
+fn pad(lo: f64, hi: f64, share: f64) -> f64 {
+    ((hi - lo) * share)
+        .max(0.5)
+        .max(lo.abs().max(hi.abs()) * 1e-12)
+}
+
 fn y_range(spec: &Plot) -> (f64, f64) {
     let mut lo = f64::INFINITY;
     let mut hi = f64::NEG_INFINITY;
@@ -55,17 +63,33 @@ fn y_range(spec: &Plot) -> (f64, f64) {
     for c in &spec.curves {
         c.points.iter().for_each(|p| see(p.1));
     }
-    if let Some((y, _)) = &spec.hline {
-        see(*y);
-    }
-    if let Some((_, y)) = spec.marker {
-        see(y);
-    }
+    let keys: Vec<f64> = spec
+        .hline
+        .iter()
+        .map(|h| h.0)
+        .chain(spec.marker.map(|m| m.1))
+        .filter(|y| y.is_finite())
+        .collect();
+    keys.iter().for_each(|y| see(*y));
     if !lo.is_finite() {
         return (0.0, 1.0);
     }
-    let pad = ((hi - lo) * 0.06).max(0.5);
-    (lo - pad, hi + pad)
+    if let (Some(max), false) = (spec.y_span_max, keys.is_empty()) {
+        if hi - lo > max {
+            // Keep the operating point and the reference line in view, centred, and
+            // let the far ends of the curves leave the plot.
+            let klo = keys.iter().copied().fold(f64::INFINITY, f64::min);
+            let khi = keys.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+            let span = max.max((khi - klo) * 1.25 + 2.0);
+            let mid = 0.5 * (klo + khi);
+            let new_lo = (mid - span / 2.0).max(lo);
+            let new_hi = (new_lo + span).min(hi);
+            lo = (new_hi - span).max(lo);
+            hi = new_hi;
+        }
+    }
+    let p = pad(lo, hi, 0.06);
+    (lo - p, hi + p)
 }
 
 fn x_range(spec: &Plot) -> (f64, f64) {
@@ -84,7 +108,10 @@ fn x_range(spec: &Plot) -> (f64, f64) {
     }
     match spec.spacing {
         Spacing::Integer => (lo - 0.5, hi + 0.5),
-        _ if hi - lo <= 0.0 => (lo - 0.5, hi + 0.5),
+        _ if hi - lo <= 0.0 => {
+            let p = pad(lo, hi, 0.0);
+            (lo - p, hi + p)
+        }
         _ => (lo, hi),
     }
 }

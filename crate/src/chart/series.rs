@@ -50,6 +50,9 @@ pub struct Plot {
     pub vline: Option<(f64, String)>,
     /// The case being evaluated, as (x, log10 y).
     pub marker: Option<(f64, f64)>,
+    /// The most decades the y axis may span: beyond, it shows the span around the
+    /// operating point and the reference line, and the curves leave the plot.
+    pub y_span_max: Option<f64>,
 }
 
 impl Plot {
@@ -67,7 +70,14 @@ impl Plot {
             hline: None,
             vline: None,
             marker: None,
+            y_span_max: None,
         }
+    }
+
+    /// The same plot with its y axis limited to `decades` (see [`Plot::y_span_max`]).
+    pub fn clip_y(mut self, decades: f64) -> Self {
+        self.y_span_max = Some(decades);
+        self
     }
 
     /// The same plot with its y axis named: CSV column and axis title.
@@ -92,9 +102,11 @@ impl Plot {
         self.curves.first().map_or(&[], |c| &c.points)
     }
 
-    /// The points as CSV with a header naming the columns and their units; with more
-    /// than one curve a first column names the curve.
-    pub fn to_csv(&self) -> String {
+    /// The points as CSV: `preface` lines first as `#` comments (the case, its link),
+    /// then a header naming the columns and their units; with more than one curve a first
+    /// column names the curve. Numbers are in plain scientific notation (`1.5e-13`),
+    /// whole-number x values (stage counts) as integers.
+    pub fn to_csv(&self, preface: &[String]) -> String {
         let unit = if self.x_unit.is_empty() {
             String::new()
         } else {
@@ -102,17 +114,25 @@ impl Plot {
         };
         let x_col = self.x_label.split(' ').next().unwrap_or("x");
         let many = self.curves.len() > 1;
-        let mut out = if many {
-            format!("curve,{x_col}{unit},{}\n", self.y_name)
-        } else {
-            format!("{x_col}{unit},{}\n", self.y_name)
-        };
+        let mut out = String::new();
+        for line in preface {
+            // A comment line stays one line whatever the text holds.
+            out.push_str(&format!("# {}\n", line.replace(['\n', '\r'], " ")));
+        }
+        if many {
+            out.push_str("curve,");
+        }
+        out.push_str(&format!("{x_col}{unit},{}\n", self.y_name));
         for c in &self.curves {
             for (x, y) in &c.points {
                 if many {
                     out.push_str(&format!("\"{}\",", c.label.replace('"', "\"\"")));
                 }
-                out.push_str(&format!("{x:e},{y}\n"));
+                if self.spacing == Spacing::Integer {
+                    out.push_str(&format!("{x:.0},{y:e}\n"));
+                } else {
+                    out.push_str(&format!("{x:e},{y:e}\n"));
+                }
             }
         }
         out

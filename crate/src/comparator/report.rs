@@ -347,7 +347,12 @@ impl CompReport {
 pub fn plots(case: &CompCase) -> Vec<Plot> {
     let c = &case.comp;
     let target = case.target_ber.map(|t| (t.log10(), "target".to_string()));
-    let mut v = vec![p_vs_treg(c, 200), p_vs_tau(c, 200), p_vs_spread(c, 60)];
+    let reach = evaluate(case).treg_needed_s.flatten();
+    let mut v = vec![
+        p_vs_treg(c, reach, 200),
+        p_vs_tau(c, 200),
+        p_vs_spread(c, 60),
+    ];
     for p in &mut v {
         p.hline.clone_from(&target);
     }

@@ -11,6 +11,8 @@ use super::model::{Comparator, InputModel};
 
 const Y_NAME: &str = "log10_p_error";
 const Y_LABEL: &str = "error probability per decision";
+/// The most decades a sweep's y axis spans around the case and its target.
+const Y_SPAN: f64 = 80.0;
 
 fn p(c: &Comparator) -> f64 {
     c.ln_p_error() / LN_10
@@ -23,10 +25,13 @@ fn at(c: &Comparator, tau: f64, treg: f64) -> Option<Comparator> {
     Some(c.with_tau_treg(tau, treg))
 }
 
-/// log10 p against the total regeneration time, from 0 to twice the case's.
-pub fn p_vs_treg(c: &Comparator, n: usize) -> Plot {
+/// log10 p against the total regeneration time, from 0 to twice the case's, or past
+/// `reach` (the regeneration time a target needs) when that is further.
+pub fn p_vs_treg(c: &Comparator, reach: Option<f64>, n: usize) -> Plot {
     let t = c.treg_total();
-    let span = (2.0 * t).max(10.0 * c.tau().get());
+    let span = (2.0 * t)
+        .max(10.0 * c.tau().get())
+        .max(reach.unwrap_or(0.0) * 1.15);
     let points = lin_space(span, n)
         .filter_map(|x| Some((x, p(&at(c, c.tau().get(), x)?))))
         .collect();
@@ -36,6 +41,7 @@ pub fn p_vs_treg(c: &Comparator, n: usize) -> Plot {
         ("treg (s)", "s", Spacing::Linear),
     )
     .y(Y_NAME, Y_LABEL)
+    .clip_y(Y_SPAN)
     .single(points, (t, p(c)))
 }
 
@@ -51,6 +57,7 @@ pub fn p_vs_tau(c: &Comparator, n: usize) -> Plot {
         ("tau (s)", "s", Spacing::Log),
     )
     .y(Y_NAME, Y_LABEL)
+    .clip_y(Y_SPAN)
     .single(points, (tau, p(c)))
 }
 
@@ -83,6 +90,7 @@ pub fn p_vs_spread(c: &Comparator, n: usize) -> Plot {
     let points = log_space(lo, hi, n).map(|x| (x, p(&with(x)))).collect();
     Plot::new("plot-spread", title, (label, "V", Spacing::Log))
         .y(Y_NAME, Y_LABEL)
+        .clip_y(Y_SPAN)
         .single(points, (x0, p(c)))
 }
 

@@ -10,7 +10,7 @@ use crate::reliability::{fleet_outcome, FleetOutcome, Target, CAUTION, YEAR_DAYS
 use crate::units::{format_duration_log10, format_log10, format_si};
 
 use super::input::SyncCase;
-use super::model::{ClockLimit, StagesNeeded, TauLimit, Window, MAX_STAGES_ANSWER};
+use super::model::{ClockLimit, StagesNeeded, TauLimit, Window, MAX_STAGES, MAX_STAGES_ANSWER};
 use super::sweep::{mtbf_vs_fclk, mtbf_vs_stages, mtbf_vs_tau};
 
 /// Everything a synchronizer case yields, ready to print or to serialise.
@@ -331,8 +331,20 @@ pub fn plots(case: &SyncCase) -> Vec<Plot> {
     let target = case
         .target
         .map(|t| (t.log10_mtbf_years(), "target".to_string()));
+    // The depth plot reaches past the depth the target needs, when one is asked.
+    let needed = case
+        .target
+        .and_then(|t| match s.min_stages(t.log10_max_rate()) {
+            StagesNeeded::Stages(n) => Some(n.min(u64::from(MAX_STAGES)) as u32),
+            _ => None,
+        })
+        .unwrap_or(1);
+    let deepest = (s.stages() + 4)
+        .max(6)
+        .max(needed.saturating_add(1))
+        .min(MAX_STAGES);
     let mut v = vec![
-        mtbf_vs_stages(s, (s.stages() + 4).max(6)),
+        mtbf_vs_stages(s, deepest),
         mtbf_vs_fclk(s, 200),
         mtbf_vs_tau(s, 200),
     ];

@@ -11,6 +11,8 @@ use super::model::Synchronizer;
 
 const Y_NAME: &str = "log10_mtbf_years";
 const Y_LABEL: &str = "MTBF (years)";
+/// The most decades a sweep's y axis spans around the case and its target.
+const Y_SPAN: f64 = 80.0;
 
 fn log10_years(s: &Synchronizer) -> f64 {
     s.log10_mtbf_s() - YEAR_S.log10()
@@ -55,6 +57,7 @@ pub fn mtbf_vs_fclk(s: &Synchronizer, n: usize) -> Plot {
         ("fclk (Hz)", "Hz", Spacing::Log),
     )
     .y(Y_NAME, Y_LABEL)
+    .clip_y(Y_SPAN)
     .single(points, operating_point(s, f))
 }
 
@@ -75,6 +78,7 @@ pub fn sweep_tau(s: &Synchronizer, lo: f64, hi: f64, n: usize) -> Plot {
         ("tau (s)", "s", Spacing::Log),
     )
     .y(Y_NAME, Y_LABEL)
+    .clip_y(Y_SPAN)
     .single(points, operating_point(s, s.tau().get()))
 }
 
