@@ -7,8 +7,17 @@
   var page = document.body.dataset.page;
   var form = document.getElementById('inputs');
   var storeKey = 'latchwise:' + page;
+  // A case being loaded from storage is marked here until it has shown: a mark left
+  // behind means the last load never finished (the tab froze or died).
+  var pendingKey = storeKey + ':loading';
+  var asideKey = storeKey + ':set-aside';
   var defaults = {};
   var ready = false;
+  var undoQuery = null;
+
+  function each(selector, fn) {
+    Array.prototype.forEach.call(document.querySelectorAll(selector), fn);
+  }
 
   function inputs() {
     return Array.prototype.slice.call(form.querySelectorAll('input[name], select[name]'));
@@ -22,12 +31,35 @@
     return p.toString();
   }
 
-  function fill(q) {
-    var p = new URLSearchParams(q);
+  // Fills the form from name/value pairs; the last value of a name wins, as in the core.
+  function fillPairs(pairs) {
+    var last = {};
+    pairs.forEach(function (kv) { last[kv[0]] = kv[1]; });
     inputs().forEach(function (el) {
-      var all = p.getAll(el.name);
-      el.value = all.length ? all[all.length - 1] : '';
+      el.value = Object.prototype.hasOwnProperty.call(last, el.name) ? last[el.name] : '';
     });
+  }
+
+  // Before the core is ready the browser's reader gives the first paint; once it is,
+  // the core's reader (the same as the command line's --from-url) decides.
+  function fill(q) {
+    if (ready) {
+      fillPairs(wasm_bindgen.read_query(page, q));
+    } else {
+      var pairs = [];
+      new URLSearchParams(q).forEach(function (v, k) { pairs.push([k, v]); });
+      fillPairs(pairs);
+    }
+  }
+
+  function store(key, value) {
+    try {
+      if (value === null) localStorage.removeItem(key); else localStorage.setItem(key, value);
+    } catch (e) { /* storage disabled: the URL still holds the case */ }
+  }
+
+  function stored(key) {
+    try { return localStorage.getItem(key) || ''; } catch (e) { return ''; }
   }
 
   function show(el, on) { el.hidden = !on; }
@@ -36,6 +68,12 @@
     var f = document.getElementById('fatal');
     f.textContent = msg;
     show(f, true);
+  }
+
+  function note(msg) {
+    var n = document.getElementById('ignored');
+    n.textContent = msg;
+    show(n, msg !== '');
   }
 
   function list(id, items) {
@@ -49,6 +87,14 @@
     });
   }
 
+  // The label beside an output: the <dt> of its row or the label of its headline box.
+  function labelOf(out) {
+    var dd = out.closest('dd');
+    if (dd) return dd.previousElementSibling;
+    var box = out.parentNode;
+    return box ? box.querySelector('.lbl') : null;
+  }
+
   function render(state) {
     state.fields.forEach(function (f) {
       var el = form.elements.namedItem(f.name);
@@ -60,8 +106,9 @@
         msg.className = 'msg err';
       } else {
         el.removeAttribute('aria-invalid');
-        msg.textContent = f.text.trim() !== '' && f.normalized ? '= ' + f.normalized : '';
-        msg.className = 'msg';
+        var echo = f.text.trim() !== '' && f.normalized ? '= ' + f.normalized : '';
+        msg.textContent = f.note ? echo + ' — ' + f.note : echo;
+        msg.className = f.note ? 'msg odd' : 'msg';
       }
     });
     inputs().forEach(function (el) {
@@ -76,8 +123,11 @@
       out.textContent = r.text;
       out.dataset.value = r.value === null || r.value === undefined ? '' : String(r.value);
       out.dataset.state = r.state;
+      var label = labelOf(out);
+      // The page writes tau as τ; relabel only when the wording itself differs.
+      if (label && label.textContent.replace(/τ/g, 'tau') !== r.label) label.textContent = r.label;
     });
-    Array.prototype.forEach.call(document.querySelectorAll('output[name]'), function (out) {
+    each('output[name]', function (out) {
       if (seen[out.getAttribute('name')]) return;
       out.textContent = state.ok ? '—' : '…';
       out.dataset.value = '';
@@ -86,9 +136,9 @@
     list('warnings', state.warnings);
     list('facts', state.facts);
     if (state.ignored.length) {
-      var ign = document.getElementById('ignored');
-      ign.textContent = 'Ignored unknown parameters in the link: ' + state.ignored.join(', ');
-      show(ign, true);
+      var more = state.ignored_total - state.ignored.length;
+      note('Ignored unknown parameters in the link: ' + state.ignored.join(', ') +
+        (more > 0 ? ' and ' + more + ' more' : ''));
     }
     document.getElementById('caution').textContent = state.caution;
     document.body.dataset.valid = state.ok ? 'yes' : 'no';
@@ -99,7 +149,7 @@
   // as data-carry="from:to ..." (e.g. "tau:tau fclk:fs"). The navigation carries nothing:
   // each calculator opens on its own last case.
   function carryLinks() {
-    Array.prototype.forEach.call(document.querySelectorAll('a[data-carry]'), function (a) {
+    each('a[data-carry]', function (a) {
       var p = new URLSearchParams();
       p.append('from', page);
       a.dataset.carry.split(' ').forEach(function (pair) {
@@ -113,28 +163,56 @@
 
   function draw(q) {
     var drawn = wasm_bindgen.draw(page, q, window.devicePixelRatio || 1);
-    Array.prototype.forEach.call(document.querySelectorAll('.plots canvas'), function (c) {
+    each('.plots canvas', function (c) {
       c.dataset.drawn = drawn.indexOf(c.id) >= 0 ? 'yes' : 'no';
       c.parentNode.dataset.stale = c.dataset.drawn === 'yes' ? 'no' : 'yes';
     });
+    document.body.dataset.drawnAt = String(performance.now());
   }
 
-  // Recomputes and redraws. `initial` is the page's own query on first load (it may hold
-  // unknown keys to report); the plots then follow one frame after the numbers.
-  function update(fromUser, initial) {
-    if (!ready) return;
-    var q = initial === undefined ? query() : initial;
+  // Numbers first, plots in the next frame; a burst of input events is one update per
+  // frame (the last state of the form wins).
+  var frameQueued = false;
+  var plotsQueued = false;
+  var saveQueued = false;
+
+  function schedulePlots() {
+    if (plotsQueued) return;
+    plotsQueued = true;
+    requestAnimationFrame(function () {
+      plotsQueued = false;
+      try { draw(query()); } catch (e) { fatal('Internal error while drawing: ' + e); }
+    });
+  }
+
+  function compute(q) {
     try {
       render(wasm_bindgen.page(page, q));
-      if (initial === undefined) draw(q);
+      document.body.dataset.computes = String((Number(document.body.dataset.computes) || 0) + 1);
+      return true;
     } catch (e) {
       fatal('Internal error: ' + e + '. Your inputs are kept; please report this case: ' + location.href);
-      return;
+      return false;
     }
-    if (fromUser) {
-      try { history.replaceState(null, '', '?' + q + location.hash); } catch (e) { /* file:// in some browsers */ }
-      try { localStorage.setItem(storeKey, q); } catch (e) { /* storage disabled */ }
-    }
+  }
+
+  function save(q) {
+    try { history.replaceState(null, '', '?' + q + location.hash); } catch (e) { /* file:// in some browsers */ }
+    store(storeKey, q);
+  }
+
+  function update(fromUser) {
+    if (!ready) return;
+    if (fromUser) saveQueued = true;
+    if (frameQueued) return;
+    frameQueued = true;
+    requestAnimationFrame(function () {
+      frameQueued = false;
+      var q = query();
+      if (!compute(q)) return;
+      if (saveQueued) { saveQueued = false; save(q); }
+      schedulePlots();
+    });
   }
 
   function download(name, blob) {
@@ -146,26 +224,71 @@
     setTimeout(function () { URL.revokeObjectURL(a.href); a.remove(); }, 0);
   }
 
+  function link() {
+    return location.href.split('?')[0].split('#')[0] + '?' + query();
+  }
+
+  // A PNG of one plot at twice its size, with a caption naming the case.
+  function png(id) {
+    var src = document.getElementById(id);
+    var scale = 2 * (window.devicePixelRatio || 1);
+    var off = document.createElement('canvas');
+    off.id = 'export-' + id;
+    off.style.width = src.clientWidth + 'px';
+    off.style.height = src.clientHeight + 'px';
+    off.style.position = 'absolute';
+    off.style.left = '-10000px';
+    document.body.appendChild(off);
+    try {
+      wasm_bindgen.draw_plot(page, query(), id, off.id, scale);
+      var caption = 'latchwise ' + page + ' · ' + new Date().toISOString().slice(0, 10) + ' · ' + link();
+      var out = document.createElement('canvas');
+      var pad = Math.round(14 * scale);
+      out.width = off.width;
+      out.height = off.height + 2 * pad;
+      var g = out.getContext('2d');
+      g.fillStyle = '#fff';
+      g.fillRect(0, 0, out.width, out.height);
+      g.drawImage(off, 0, 0);
+      g.fillStyle = '#3d4650';
+      g.font = Math.round(10 * scale) + 'px sans-serif';
+      g.fillText(caption.length > 160 ? caption.slice(0, 157) + '…' : caption, pad / 2, off.height + pad * 1.3);
+      out.toBlob(function (b) { if (b) download(id + '.png', b); });
+    } finally {
+      off.remove();
+    }
+  }
+
   function wire() {
-    inputs().forEach(function (el) { defaults[el.name] = el.defaultValue; });
+    inputs().forEach(function (el) { defaults[el.name] = el.value; });
     form.addEventListener('input', function () { update(true); });
+    form.addEventListener('change', function () { update(true); });
     form.addEventListener('submit', function (e) { e.preventDefault(); });
     document.getElementById('reset').addEventListener('click', function () {
+      undoQuery = query();
       inputs().forEach(function (el) { el.value = defaults[el.name]; });
+      show(document.getElementById('undo'), true);
+      update(true);
+    });
+    document.getElementById('undo').addEventListener('click', function () {
+      if (undoQuery === null) return;
+      fill(undoQuery);
+      undoQuery = null;
+      show(document.getElementById('undo'), false);
       update(true);
     });
     document.getElementById('copy-link').addEventListener('click', function () {
-      var link = location.href.split('?')[0].split('#')[0] + '?' + query();
+      var text = link();
       var status = document.getElementById('copy-status');
       var box = document.getElementById('link-text');
-      box.value = link;
+      box.value = text;
       function fallback() {
         show(box, true);
         box.select();
         status.textContent = 'Select and copy the link below.';
       }
       if (navigator.clipboard && window.isSecureContext) {
-        navigator.clipboard.writeText(link).then(function () {
+        navigator.clipboard.writeText(text).then(function () {
           status.textContent = 'Link copied.';
         }, fallback);
       } else {
@@ -176,65 +299,98 @@
       var t = e.target;
       if (!(t instanceof HTMLButtonElement)) return;
       if (t.dataset.csv) {
-        var text = wasm_bindgen.csv(page, query(), t.dataset.csv);
+        var text = wasm_bindgen.csv(page, query(), t.dataset.csv, link());
         if (text) download(t.dataset.csv + '.csv', new Blob([text], { type: 'text/csv' }));
       } else if (t.dataset.png) {
-        document.getElementById(t.dataset.png).toBlob(function (b) {
-          if (b) download(t.dataset.png + '.png', b);
-        });
+        try { png(t.dataset.png); } catch (err) { fatal('Internal error while exporting: ' + err); }
       }
     });
-    var queued = false;
-    window.addEventListener('resize', function () {
-      if (queued) return;
-      queued = true;
-      requestAnimationFrame(function () { queued = false; update(false); });
+    window.addEventListener('resize', function () { if (ready) schedulePlots(); });
+    // Print: the date, the version and the link on the sheet, and plots drawn for paper.
+    window.addEventListener('beforeprint', function () {
+      var stamp = document.getElementById('print-stamp');
+      if (stamp) {
+        stamp.textContent = 'latchwise ' + wasm_bindgen.version() + ' · printed ' +
+          new Date().toISOString().slice(0, 16).replace('T', ' ') + ' UTC · ' + link();
+      }
+      try { draw(query()); } catch (e) { /* the screen plots stay */ }
     });
+    window.addEventListener('afterprint', function () { schedulePlots(); });
+    // Once print styles apply, the canvases have their paper size: draw them at it.
+    if (window.matchMedia) {
+      var printing = window.matchMedia('print');
+      var onPrint = function (e) {
+        if (!e.matches || !ready) return;
+        try { draw(query()); } catch (err) { /* the screen plots stay */ }
+      };
+      if (printing.addEventListener) printing.addEventListener('change', onPrint);
+    }
   }
 
-  function stored() {
-    try { return localStorage.getItem(storeKey) || ''; } catch (e) { return ''; }
+  function decodeCore() {
+    if (Uint8Array.fromBase64) return Uint8Array.fromBase64(window.LATCHWISE_WASM);
+    var bin = atob(window.LATCHWISE_WASM);
+    var bytes = new Uint8Array(bin.length);
+    for (var i = 0; i < bin.length; i++) bytes[i] = bin.charCodeAt(i);
+    return bytes;
   }
 
   function start() {
     wire();
     var q = location.search.replace(/^\?/, '');
+    var fromStorage = false;
     var carried = new URLSearchParams(q);
     if (carried.has('from')) {
-      // Arrived from another calculator: its shared values over this page's last case.
+      // Arrived by an explicit carry link: its values over this page's last case.
       carried.delete('from');
-      var base = stored();
-      if (base !== '') fill(base);
+      q = stored(storeKey);
+      if (q !== '') fill(q);
       carried.forEach(function (v, k) {
         var el = form.elements.namedItem(k);
         if (el) el.value = v;
       });
       q = query();
-      try { history.replaceState(null, '', '?' + q); } catch (e) { /* file:// in some browsers */ }
+      save(q);
     } else if (q === '') {
-      q = stored();
+      q = stored(storeKey);
+      fromStorage = q !== '';
+      // The last load of this stored case never finished: set it aside, start afresh.
+      if (fromStorage && stored(pendingKey) === q) {
+        store(asideKey, q);
+        store(storeKey, null);
+        store(pendingKey, null);
+        note('The last case saved in this browser did not load and was set aside; the demo case is shown. ' +
+          'It is kept under "' + asideKey + '" in this site\'s storage.');
+        q = '';
+        fromStorage = false;
+      }
     }
     if (q !== '') fill(q);
-    var initial = q === '' ? undefined : q;
+    if (fromStorage) store(pendingKey, q);
     var bytes;
     try {
-      if (Uint8Array.fromBase64) {
-        bytes = Uint8Array.fromBase64(window.LATCHWISE_WASM);
-      } else {
-        var bin = atob(window.LATCHWISE_WASM);
-        bytes = new Uint8Array(bin.length);
-        for (var i = 0; i < bin.length; i++) bytes[i] = bin.charCodeAt(i);
-      }
+      bytes = decodeCore();
     } catch (e) {
       fatal('The calculator core is missing from this copy of the site (latchwise-wasm.js).');
       return;
     }
     wasm_bindgen({ module_or_path: bytes }).then(function () {
       ready = true;
-      update(false, initial === undefined ? query() : initial);
+      var initial = q === '' ? query() : q;
+      if (q !== '') fill(q);
+      var ok = compute(initial);
       document.body.dataset.firstResultMs = performance.now().toFixed(1);
       requestAnimationFrame(function () {
-        try { draw(query()); } catch (e) { fatal('Internal error while drawing: ' + e); }
+        try { draw(query()); } catch (e) { fatal('Internal error while drawing: ' + e); ok = false; }
+        if (fromStorage) {
+          if (ok) {
+            store(pendingKey, null);
+          } else {
+            store(asideKey, q);
+            store(storeKey, null);
+            store(pendingKey, null);
+          }
+        }
         document.body.dataset.ready = 'yes';
       });
     }, function (e) {

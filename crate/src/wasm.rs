@@ -156,7 +156,7 @@ pub fn draw(name: &str, query: &str, scale: f64) -> Result<Vec<String>, JsError>
     let plots = dispatch(name, Plots(query)).ok_or_else(|| unknown(name))?;
     let mut drawn = Vec::new();
     for plot in &plots {
-        if draw_into(plot, scale)? {
+        if draw_into(plot, plot.id, scale)? {
             drawn.push(plot.id.to_string());
         }
     }
@@ -189,12 +189,38 @@ pub fn csv(name: &str, query: &str, plot: &str, link: &str) -> Result<String, Js
         .unwrap_or_default())
 }
 
-/// Draws `plot` into the canvas of its id, sized to its CSS box times `scale`; false if
-/// the page has no such canvas.
-fn draw_into(plot: &Plot, scale: f64) -> Result<bool, JsError> {
+/// Draws calculator `name`'s plot `plot` into the canvas `canvas` (an export's
+/// off-screen canvas), at `scale` device pixels per CSS pixel. Returns whether it drew.
+///
+/// # Errors
+/// An unknown calculator, or a chart that fails to draw.
+#[wasm_bindgen]
+pub fn draw_plot(
+    name: &str,
+    query: &str,
+    plot: &str,
+    canvas: &str,
+    scale: f64,
+) -> Result<bool, JsError> {
+    let plots = dispatch(name, Plots(query)).ok_or_else(|| unknown(name))?;
+    match plots.iter().find(|p| p.id == plot) {
+        Some(p) => draw_into(p, canvas, scale),
+        None => Ok(false),
+    }
+}
+
+/// The version of the core, for printed reports.
+#[wasm_bindgen]
+pub fn version() -> String {
+    env!("CARGO_PKG_VERSION").to_string()
+}
+
+/// Draws `plot` into the canvas with id `canvas`, sized to its CSS box times `scale`;
+/// false if the page has no such canvas.
+fn draw_into(plot: &Plot, canvas: &str, scale: f64) -> Result<bool, JsError> {
     let Some(canvas) = web_sys::window()
         .and_then(|w| w.document())
-        .and_then(|d| d.get_element_by_id(plot.id))
+        .and_then(|d| d.get_element_by_id(canvas))
         .and_then(|e| e.dyn_into::<HtmlCanvasElement>().ok())
     else {
         return Ok(false);

@@ -2,7 +2,7 @@
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import path from 'node:path';
-import { setup, open, fileUrl, outputs, root, cli, inked, WASM_LIBM_REL } from './harness.mjs';
+import { setup, open, fileUrl, outputs, root, cli, inked, WASM_LIBM_REL, fill, settle } from './harness.mjs';
 
 const env = setup({ before, after });
 
@@ -54,34 +54,35 @@ test('the page agrees with latchwise comparator --json on every input model', as
 test('switching the input model asks for its parameters and marks unused ones', async () => {
   const { context, page } = await open(env.browser, fileUrl('comparator.html'));
   await page.selectOption('[name="input"]', 'nrz');
+  await settle(page);
   assert.equal(await page.textContent('#m-amp'), 'amp: a value is required');
   assert.equal(await page.textContent('#m-sigma'), 'sigma: a value is required');
-  await page.fill('[name="amp"]', '40mV');
-  await page.fill('[name="sigma"]', '4mV');
+  await fill(page, '[name="amp"]', '40mV');
+  await fill(page, '[name="sigma"]', '4mV');
   assert.equal(await page.$eval('body', (b) => b.dataset.valid), 'yes');
   assert.equal(await page.$eval('[name="lsb"]', (e) => e.closest('.field').dataset.unused), 'yes');
   assert.match(page.url(), /input=nrz/);
   const out = await outputs(page);
   assert.ok(Number.isFinite(Number(out.log10_p_noise.value)));
-  await page.fill('[name="gm"]', '1m');
-  await page.fill('[name="cl"]', '10f');
-  await page.fill('[name="g0"]', '2m');
-  await page.fill('[name="tau"]', '');
+  await fill(page, '[name="gm"]', '1m');
+  await fill(page, '[name="cl"]', '10f');
+  await fill(page, '[name="g0"]', '2m');
+  await fill(page, '[name="tau"]', '');
   assert.equal(await page.textContent('#m-gm'), 'gm: gm = 1 mS does not exceed g0 = 2 mS: the latch would not regenerate');
   await context.close();
 });
 
 test('the link to the synchronizer carries tau and the clock, and back', async () => {
   const { context, page } = await open(env.browser, fileUrl('comparator.html'));
-  await page.fill('[name="tau"]', '27ps');
-  await page.fill('[name="fs"]', '2.5GHz');
+  await fill(page, '[name="tau"]', '27ps');
+  await fill(page, '[name="fs"]', '2.5GHz');
   await Promise.all([page.waitForNavigation(), page.click('#to-sync')]);
   await page.waitForSelector('body[data-ready="yes"]');
   assert.equal(await page.inputValue('[name="tau"]'), '27ps');
   assert.equal(await page.inputValue('[name="fclk"]'), '2.5GHz');
   assert.equal(await page.inputValue('[name="tw"]'), '40ps', 'other synchronizer fields keep the demo case');
   assert.doesNotMatch(page.url(), /from=/);
-  await page.fill('[name="tau"]', '31ps');
+  await fill(page, '[name="tau"]', '31ps');
   await Promise.all([page.waitForNavigation(), page.click('#to-comparator')]);
   await page.waitForSelector('body[data-ready="yes"]');
   assert.equal(await page.inputValue('[name="tau"]'), '31ps');

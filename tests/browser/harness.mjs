@@ -107,3 +107,19 @@ export function setup(hooks) {
   });
   return env;
 }
+
+/** Waits until the page has handled its queued update: numbers in one animation frame,
+ * plots in the next (the page coalesces input events to one update per frame). */
+export async function settle(page) {
+  await page.evaluate(() => new Promise((ok) => {
+    let n = 0;
+    const tick = () => (++n >= 3 ? ok() : requestAnimationFrame(tick));
+    requestAnimationFrame(tick);
+  }));
+}
+
+/** Fills a field as a person types it, then lets the page update. */
+export async function fill(page, selector, value) {
+  await page.fill(selector, value);
+  await settle(page);
+}

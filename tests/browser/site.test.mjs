@@ -2,7 +2,7 @@
 // calculator opening on its own last case from it.
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
-import { setup, open, fileUrl } from './harness.mjs';
+import { setup, open, fileUrl, fill, settle } from './harness.mjs';
 
 const env = setup({ before, after });
 const pages = ['index.html', 'comparator.html'];
@@ -22,12 +22,12 @@ test('every page lists every calculator in its navigation and marks itself', asy
 
 test('the navigation opens each calculator on its own last case, carrying nothing', async () => {
   const { context, page } = await open(env.browser, env.server.url + 'index.html');
-  await page.fill('[name="tau"]', '33ps');
+  await fill(page, '[name="tau"]', '33ps');
   await Promise.all([page.waitForNavigation(), page.click('header nav a[href="comparator.html"]')]);
   await page.waitForSelector('body[data-ready="yes"]');
   assert.equal(await page.inputValue('[name="tau"]'), '15ps', 'the comparator keeps its own tau');
-  await page.fill('[name="tau"]', '17ps');
-  await page.fill('[name="fs"]', '28GHz');
+  await fill(page, '[name="tau"]', '17ps');
+  await fill(page, '[name="fs"]', '28GHz');
   await Promise.all([page.waitForNavigation(), page.click('header nav a[href="index.html"]')]);
   await page.waitForSelector('body[data-ready="yes"]');
   assert.equal(await page.inputValue('[name="tau"]'), '33ps');

@@ -2,7 +2,7 @@
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import path from 'node:path';
-import { setup, open, fileUrl, outputs, root, cli, inked, CANVAS_RATIO_ABS } from './harness.mjs';
+import { setup, open, fileUrl, outputs, root, cli, inked, CANVAS_RATIO_ABS, fill, settle } from './harness.mjs';
 
 const env = setup({ before, after });
 
@@ -50,9 +50,9 @@ test('typing updates results, plots and the URL; reload restores the case', asyn
   const before = await outputs(page);
   const pixels = await page.$eval('#plot-stages', (c) => c.toDataURL());
   const entries = await page.evaluate(() => history.length);
-  await page.fill('[name="stages"]', '3');
-  await page.fill('[name="tsu"]', '31ps');
-  await page.fill('[name="tsu"]', '30ps');
+  await fill(page, '[name="stages"]', '3');
+  await fill(page, '[name="tsu"]', '31ps');
+  await fill(page, '[name="tsu"]', '30ps');
   // The history is replaced, not extended, on each edit.
   assert.equal(await page.evaluate(() => history.length), entries);
   const after = await outputs(page);
@@ -70,7 +70,7 @@ test('typing updates results, plots and the URL; reload restores the case', asyn
 
 test('without a query the last case comes back from local storage', async () => {
   const { context, page } = await open(env.browser, env.server.url + 'index.html');
-  await page.fill('[name="fdata"]', '37MHz');
+  await fill(page, '[name="fdata"]', '37MHz');
   await page.goto(env.server.url + 'index.html');
   await page.waitForSelector('body[data-ready="yes"]');
   assert.equal(await page.inputValue('[name="fdata"]'), '37MHz');
@@ -90,14 +90,14 @@ test('bad values are flagged beside the field, kept as typed, and recover', asyn
   ];
   for (const [name, value, msg] of cases) {
     const good = await page.inputValue(`[name="${name}"]`);
-    await page.fill(`[name="${name}"]`, value);
+    await fill(page, `[name="${name}"]`, value);
     assert.equal(await page.textContent(`#m-${name}`), msg);
     assert.equal(await page.getAttribute(`[name="${name}"]`, 'aria-invalid'), 'true');
     assert.equal(await page.inputValue(`[name="${name}"]`), value);
     assert.equal(await page.$eval('body', (b) => b.dataset.valid), 'no');
     assert.equal((await outputs(page)).log10_mtbf_s.value, '');
     assert.equal(await page.$eval('#plot-tau', (c) => c.parentNode.dataset.stale), 'yes');
-    await page.fill(`[name="${name}"]`, good);
+    await fill(page, `[name="${name}"]`, good);
     assert.equal(await page.getAttribute(`[name="${name}"]`, 'aria-invalid'), null);
     assert.equal(await page.$eval('body', (b) => b.dataset.valid), 'yes');
   }
@@ -157,8 +157,14 @@ test('CSV and PNG downloads carry the plot data', async () => {
   const [csv] = await Promise.all([page.waitForEvent('download'), page.click('[data-csv="plot-stages"]')]);
   const text = await (await csv.createReadStream()).toArray();
   const lines = Buffer.concat(text).toString('utf8').trim().split('\n');
-  assert.equal(lines[0], 'stages,log10_mtbf_years');
-  assert.ok(lines.length >= 7);
+  // The case first: what was plotted, every input with its unit, and the link.
+  assert.equal(lines[0], '# latchwise sync: MTBF against synchronizer depth');
+  assert.ok(lines.includes('# tau = 20 ps'), lines.join('\n'));
+  assert.ok(lines.some((l) => l.startsWith('# link: http://127.0.0.1:') && l.includes('tau=20ps')), lines.join('\n'));
+  const header = lines.findIndex((l) => !l.startsWith('#'));
+  assert.equal(lines[header], 'stages,log10_mtbf_years');
+  assert.match(lines[header + 1], /^1,-?\d(\.\d+)?e-?\d+$/);
+  assert.ok(lines.length - header >= 7);
   const [png] = await Promise.all([page.waitForEvent('download'), page.click('[data-png="plot-tau"]')]);
   assert.equal(png.suggestedFilename(), 'plot-tau.png');
   await context.close();
@@ -181,7 +187,7 @@ test('both pages print as one-page reports with inputs, results and plots', asyn
 test('copy link gives the full case, through the clipboard or a selectable box', async () => {
   const { context, page } = await open(env.browser, env.server.url + 'index.html');
   await context.grantPermissions(['clipboard-read', 'clipboard-write'], { origin: env.server.url.replace(/\/$/, '') });
-  await page.fill('[name="stages"]', '4');
+  await fill(page, '[name="stages"]', '4');
   await page.click('#copy-link');
   await page.waitForFunction(() => document.getElementById('copy-status').textContent !== '');
   const link = await page.inputValue('#link-text');

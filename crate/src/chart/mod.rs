@@ -161,7 +161,11 @@ pub fn draw<DB: DrawingBackend>(
     let (xlo, xhi) = x_range(spec);
     let y_ticks = decade_ticks(ylo, yhi, 8);
     let xk = x_ticks(spec.spacing, xlo, xhi);
-    let font = |size: f64| ("sans-serif", size * s).into_font().color(&AXIS);
+    // Small charts (a phone, a printed page) get smaller text and room for it, so that
+    // the plot keeps most of its area: full size from 420 CSS pixels wide.
+    let css_width = f64::from(area.dim_in_pixel().0) / s;
+    let k = (css_width / 420.0).clamp(0.72, 1.0);
+    let font = |size: f64| ("sans-serif", size * s * k).into_font().color(&AXIS);
     // Room for the longest decade label ("1e-399153" needs more than "1e40").
     let widest = y_ticks
         .iter()
@@ -172,8 +176,8 @@ pub fn draw<DB: DrawingBackend>(
         .margin(px(10.0))
         .margin_right(px(18.0))
         .caption(&spec.title, font(15.0))
-        .x_label_area_size(px(42.0))
-        .y_label_area_size(px(30.0 + 7.0 * widest))
+        .x_label_area_size(px(42.0 * k))
+        .y_label_area_size(px((30.0 + 7.0 * widest) * k))
         .build_cartesian_2d(
             TickedAxis {
                 lo: xlo,
