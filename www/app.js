@@ -368,13 +368,16 @@
     if (q !== '') fill(q);
     if (fromStorage) store(pendingKey, q);
     var bytes;
+    performance.mark('latchwise:script');
     try {
       bytes = decodeCore();
+      performance.mark('latchwise:decoded');
     } catch (e) {
       fatal('The calculator core is missing from this copy of the site (latchwise-wasm.js).');
       return;
     }
     wasm_bindgen({ module_or_path: bytes }).then(function () {
+      performance.mark('latchwise:instantiated');
       ready = true;
       var initial = q === '' ? query() : q;
       if (q !== '') fill(q);
