@@ -158,3 +158,112 @@ fn many_unknown_link_keys_are_counted_not_listed() {
     );
     assert!(err.len() < 400, "the note is capped: {} bytes", err.len());
 }
+
+/// `latchwise ARGS --json`: the report, whatever the exit status.
+fn report(args: &[&str]) -> serde_json::Value {
+    let mut a = args.to_vec();
+    a.push("--json");
+    let out = latchwise(&a);
+    serde_json::from_slice(&out.stdout)
+        .unwrap_or_else(|e| panic!("{e}: {}", String::from_utf8_lossy(&out.stderr)))
+}
+
+#[test]
+fn the_reproductions_that_once_printed_nan_inf_or_a_sentinel() {
+    // A hop of 0.1 fs: the depth a target needs is beyond any chain; it used to print
+    // 18446744073709551615.
+    let v = report(&[
+        "sync",
+        "--tau",
+        "20ps",
+        "--tw",
+        "40ps",
+        "--fclk",
+        "1GHz",
+        "--fdata",
+        "100MHz",
+        "--stages",
+        "2",
+        "--tsu",
+        "499.9999ps",
+        "--tcq",
+        "500ps",
+        "--target-years",
+        "1e5",
+    ]);
+    assert!(v["min_stages"].is_null(), "{v}");
+    assert!(v["not_applicable"]["min_stages"]
+        .as_str()
+        .unwrap()
+        .contains("more than 1000000"));
+    // One flip-flop: the highest clock is a number the model accepts or "any", never 1e300.
+    let v = report(&[
+        "sync",
+        "--tau",
+        "20ps",
+        "--tw",
+        "40ps",
+        "--fclk",
+        "1GHz",
+        "--fdata",
+        "1",
+        "--stages",
+        "1",
+        "--tsu",
+        "30ps",
+        "--tcq",
+        "50ps",
+        "--target-years",
+        "1e-3",
+    ]);
+    match v["max_fclk_hz"].as_f64() {
+        Some(f) => assert!(f <= 1e18, "{f}"),
+        None => assert!(v["not_applicable"]["max_fclk_hz"].is_string(), "{v}"),
+    }
+    // tr/tau = 1e18: log10 MTBF = 4.3e17 is written from the logarithm.
+    let out = latchwise(&[
+        "sync", "--tau", "1as", "--tw", "40ps", "--fclk", "1GHz", "--fdata", "100MHz", "--tr", "1",
+    ]);
+    let text = String::from_utf8_lossy(&out.stdout);
+    assert!(text.contains("10^(4.34e17) years"), "{text}");
+    assert!(
+        !text.contains("9223372036854775807") && !text.contains("NaN"),
+        "{text}"
+    );
+    // A noise of 1e-155 V under a 1 V signal once made a NaN shown as 'every decision at
+    // risk'; it is now outside what the model can use, and says so.
+    let out = latchwise(&[
+        "comparator",
+        "--tau",
+        "15ps",
+        "--treg",
+        "80ps",
+        "--vmin",
+        "0.4",
+        "--input",
+        "nrz",
+        "--amp",
+        "1",
+        "--sigma",
+        "1e-155",
+        "--fs",
+        "5GHz",
+    ]);
+    assert_eq!(out.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        err.contains("sigma: '1e-155' is too small: the smallest the model can use is"),
+        "{err}"
+    );
+    // A value far from its usual range is noted, not refused.
+    let v = report(&[
+        "sync", "--tau", "8ns", "--tw", "40ps", "--fclk", "1GHz", "--fdata", "100MHz", "--stages",
+        "2", "--tsu", "30ps", "--tcq", "50ps",
+    ]);
+    assert!(
+        v["warnings"]
+            .to_string()
+            .contains("tau = 8 ns is far outside the usual"),
+        "{v}"
+    );
+}

@@ -169,3 +169,19 @@ test('PNG exports are twice the size, with a caption; print carries date, versio
   assert.match(stamp, /^latchwise \d+\.\d+\.\d+ · printed \d{4}-\d\d-\d\d \d\d:\d\d UTC · http:\/\/127\.0\.0\.1:\d+\/index\.html\?tau=20ps/);
   await context.close();
 });
+
+test('thirty thousand unknown link keys: the page loads and counts them', async () => {
+  const q = Array.from({ length: 30000 }, (_, i) => `k${i}=1`).join('&');
+  const { context, page, problems } = await open(env.browser, fileUrl('index.html') + '?tau=20ps&tw=40ps&fclk=1GHz&fdata=100MHz&stages=2&tsu=30ps&tcq=50ps&' + q);
+  assert.match(await page.textContent('#ignored'), /^Ignored unknown parameters in the link: k0, k1, .* and 29990 more$/);
+  assert.equal(await page.$eval('body', (b) => b.dataset.valid), 'yes');
+  assert.deepEqual(problems, []);
+  await context.close();
+});
+
+test('an ambiguous unit is refused at its field with both readings', async () => {
+  const { context, page } = await open(env.browser, fileUrl('index.html'));
+  await fill(page, '[name="fclk"]', '400mhz');
+  assert.equal(await page.textContent('#m-fclk'), "fclk: '400mhz' is ambiguous: write 400MHz for megahertz or 400mHz for millihertz");
+  await context.close();
+});
