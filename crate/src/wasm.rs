@@ -3,10 +3,17 @@
 //! canvases. No model logic lives here.
 
 use plotters::prelude::IntoDrawingArea;
+use plotters_backend::{
+    BackendColor, BackendCoord, BackendStyle, BackendTextStyle, DrawingBackend, DrawingErrorKind,
+};
 use plotters_canvas::CanvasBackend;
+
+/// The canvas backend's error type (not exported by name).
+type CanvasError = <CanvasBackend as DrawingBackend>::ErrorType;
 use serde::Serialize;
 use wasm_bindgen::prelude::*;
 use wasm_bindgen::JsCast;
+use web_sys::CanvasRenderingContext2d;
 use web_sys::HtmlCanvasElement;
 
 use crate::calculator::{plot_csv, query_inputs, Calculator, Visit};
@@ -237,10 +244,126 @@ fn draw_into(plot: &Plot, canvas: &str, scale: f64) -> Result<bool, JsError> {
         canvas.set_width(pw);
         canvas.set_height(ph);
     }
-    let Some(backend) = CanvasBackend::with_canvas_object(canvas) else {
+    let Some(context) = canvas
+        .get_context("2d")
+        .ok()
+        .flatten()
+        .and_then(|c| c.dyn_into::<CanvasRenderingContext2d>().ok())
+    else {
         return Ok(false);
     };
+    let Some(inner) = CanvasBackend::with_canvas_object(canvas) else {
+        return Ok(false);
+    };
+    let backend = Measured { inner, context };
     draw_chart(&backend.into_drawing_area(), plot, scale)
         .map_err(|e| JsError::new(&e.to_string()))?;
     Ok(true)
+}
+
+/// The canvas backend with cheap text measurement: plotters measures text by adding a
+/// styled `<span>` to the page and reading its size, a forced layout for every label;
+/// the canvas's own `measureText` gives the width without touching the page.
+struct Measured {
+    inner: CanvasBackend,
+    context: CanvasRenderingContext2d,
+}
+
+impl DrawingBackend for Measured {
+    type ErrorType = CanvasError;
+
+    fn get_size(&self) -> (u32, u32) {
+        self.inner.get_size()
+    }
+
+    fn ensure_prepared(&mut self) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.inner.ensure_prepared()
+    }
+
+    fn present(&mut self) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.inner.present()
+    }
+
+    fn draw_pixel(
+        &mut self,
+        point: BackendCoord,
+        color: BackendColor,
+    ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.inner.draw_pixel(point, color)
+    }
+
+    fn draw_line<S: BackendStyle>(
+        &mut self,
+        from: BackendCoord,
+        to: BackendCoord,
+        style: &S,
+    ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.inner.draw_line(from, to, style)
+    }
+
+    fn draw_rect<S: BackendStyle>(
+        &mut self,
+        upper_left: BackendCoord,
+        bottom_right: BackendCoord,
+        style: &S,
+        fill: bool,
+    ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.inner.draw_rect(upper_left, bottom_right, style, fill)
+    }
+
+    fn draw_path<S: BackendStyle, I: IntoIterator<Item = BackendCoord>>(
+        &mut self,
+        path: I,
+        style: &S,
+    ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.inner.draw_path(path, style)
+    }
+
+    fn draw_circle<S: BackendStyle>(
+        &mut self,
+        center: BackendCoord,
+        radius: u32,
+        style: &S,
+        fill: bool,
+    ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.inner.draw_circle(center, radius, style, fill)
+    }
+
+    fn fill_polygon<S: BackendStyle, I: IntoIterator<Item = BackendCoord>>(
+        &mut self,
+        vert: I,
+        style: &S,
+    ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.inner.fill_polygon(vert, style)
+    }
+
+    fn draw_text<S: BackendTextStyle>(
+        &mut self,
+        text: &str,
+        style: &S,
+        pos: BackendCoord,
+    ) -> Result<(), DrawingErrorKind<CanvasError>> {
+        self.inner.draw_text(text, style, pos)
+    }
+
+    fn estimate_text_size<S: BackendTextStyle>(
+        &self,
+        text: &str,
+        style: &S,
+    ) -> Result<(u32, u32), DrawingErrorKind<CanvasError>> {
+        let size = style.size();
+        self.context.set_font(&format!(
+            "{} {}px {}",
+            style.style().as_str(),
+            size,
+            style.family().as_str()
+        ));
+        let width = self
+            .context
+            .measure_text(text)
+            .map(|m| m.width())
+            .unwrap_or(size * 0.6 * text.chars().count() as f64);
+        // The line box a browser gives the same text, as the span measurement did.
+        Ok((width.ceil() as u32, (size * 1.15).ceil() as u32))
+    }
 }
