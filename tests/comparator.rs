@@ -438,19 +438,23 @@ proptest! {
 
 #[test]
 fn the_verdict_counts_noise_and_says_when_noise_alone_misses() {
-    // A slicer at amp/sigma = 6: Q(6) = 9.87e-10 (Abramowitz & Stegun 26.1) misses 1e-12
-    // whatever the latch does.
-    let r = report(&[
-        ("tau", "10ps"),
-        ("treg", "200ps"),
-        ("vmin", "0.4"),
-        ("gain", "4"),
-        ("input", "nrz"),
-        ("amp", "60mV"),
-        ("sigma", "10mV"),
-        ("fs", "28GHz"),
-        ("target-ber", "1e-12"),
-    ]);
+    // A 28 Gb/s slicer: tau 10 ps, noise 10 mV, target 1e-12; treg and amp vary.
+    let slicer = |treg: &str, amp: &str| {
+        report(&[
+            ("tau", "10ps"),
+            ("treg", treg),
+            ("vmin", "0.4"),
+            ("gain", "4"),
+            ("input", "nrz"),
+            ("amp", amp),
+            ("sigma", "10mV"),
+            ("fs", "28GHz"),
+            ("target-ber", "1e-12"),
+        ])
+    };
+    // At amp/sigma = 6, Q(6) = 9.87e-10 (Abramowitz & Stegun 26.1) misses 1e-12 whatever
+    // the latch does.
+    let r = slicer("200ps", "60mV");
     assert_eq!(r.meets_target, Some(false));
     assert!(
         r.metastability_margin_decades.unwrap() > 0.0,
@@ -468,29 +472,8 @@ fn the_verdict_counts_noise_and_says_when_noise_alone_misses() {
     );
     // With noise well below the target the sizing leaves noise its share: the total at
     // the regeneration time needed sits on the target.
-    let r = report(&[
-        ("tau", "10ps"),
-        ("treg", "100ps"),
-        ("vmin", "0.4"),
-        ("gain", "4"),
-        ("input", "nrz"),
-        ("amp", "80mV"),
-        ("sigma", "10mV"),
-        ("fs", "28GHz"),
-        ("target-ber", "1e-12"),
-    ]);
-    let need = r.treg_needed_s.unwrap().unwrap();
-    let at = report(&[
-        ("tau", "10ps"),
-        ("treg", &format!("{need:e}")),
-        ("vmin", "0.4"),
-        ("gain", "4"),
-        ("input", "nrz"),
-        ("amp", "80mV"),
-        ("sigma", "10mV"),
-        ("fs", "28GHz"),
-        ("target-ber", "1e-12"),
-    ]);
+    let need = slicer("100ps", "80mV").treg_needed_s.unwrap().unwrap();
+    let at = slicer(&format!("{need:e}"), "80mV");
     assert!(
         (at.log10_p_total + 12.0).abs() < SOLVER_LOG10_ABS,
         "{}",
