@@ -290,3 +290,136 @@ fn with_tr_given_the_chain_inputs_are_reported_unused() {
         r.stdout
     );
 }
+
+#[test]
+fn models_beyond_one_tau_refuse_bad_values_naming_the_field() {
+    for (extra, msg) in [
+        (
+            &["--ratio", "0/1", "--jitter", "10ps"][..],
+            "ratio: '0/1' is not a ratio of two positive whole numbers",
+        ),
+        (
+            &["--ratio", "1.5/2", "--jitter", "10ps"],
+            "ratio: '1.5/2' is not a ratio",
+        ),
+        (
+            &["--ratio", "4/5", "--jitter", "-3ps"],
+            "jitter: negative time",
+        ),
+        (&["--ratio", "4/5"], "jitter: a value is required"),
+        (&["--jitter", "10ps"], "ratio: a value is required"),
+        (
+            &["--tau", "14ps,22ps"],
+            "tau: 2 values given, 1 wanted: one per hop, stages - 1",
+        ),
+        (&["--tau", "14ps,fast"], "tau: 'fast' is not a number"),
+        (
+            &["--tau-master", "20ps", "--tau-slave", "30ps"],
+            "tau: give either tau or tau-master, tau-slave, not both",
+        ),
+        (
+            &["--crossing", "bus"],
+            "crossing: 'bus' is not one of: data, signal, gray, handshake",
+        ),
+    ] {
+        let r = sync(extra);
+        assert_eq!(r.code, 2, "{extra:?}: {}", r.stdout);
+        assert!(r.stderr.contains(msg), "{extra:?}: {}", r.stderr);
+    }
+    // Duty outside (0, 1), with the pair instead of tau.
+    for duty in ["0", "1", "1.5", "-0.2"] {
+        let r = run(&[
+            "sync",
+            "--tau-master",
+            "20ps",
+            "--tau-slave",
+            "30ps",
+            "--duty",
+            duty,
+            "--tw",
+            "40ps",
+            "--fclk",
+            "1GHz",
+            "--fdata",
+            "100MHz",
+            "--stages",
+            "2",
+            "--tsu",
+            "30ps",
+            "--tcq",
+            "50ps",
+        ]);
+        assert_eq!(r.code, 2, "duty {duty}");
+        assert!(r.stderr.contains("duty: "), "duty {duty}: {}", r.stderr);
+    }
+}
+
+#[test]
+fn crossing_kinds_echo_the_fdata_they_imply() {
+    // A Gray pointer incrementing 50 million times a second: fdata 50 MHz for the whole
+    // pointer; a signal at activity 0.25 on 400 MHz: 100 MHz; a handshake of 10 M
+    // transfers a second: 20 MHz on each synchronizer.
+    for (extra, want) in [
+        (&["--crossing", "gray", "--increments", "50MHz"][..], 50e6),
+        (
+            &[
+                "--crossing",
+                "signal",
+                "--flaunch",
+                "400MHz",
+                "--activity",
+                "0.25",
+            ],
+            100e6,
+        ),
+        (&["--crossing", "handshake", "--transfers", "10MHz"], 20e6),
+    ] {
+        let mut a = vec!["--json"];
+        a.extend_from_slice(extra);
+        let r = sync(&a);
+        let v: serde_json::Value = serde_json::from_str(&r.stdout).unwrap();
+        crate::tolerance::assert_rel(
+            "fdata",
+            v["fdata_hz"].as_f64().unwrap(),
+            want,
+            crate::tolerance::ARITH_REL,
+        );
+        assert_eq!(v["unused"], serde_json::json!(["fdata"]), "{v}");
+    }
+    let r = sync(&["--crossing", "gray", "--increments", "50MHz"]);
+    assert!(
+        r.stdout.contains("one data edge per increment"),
+        "{}",
+        r.stdout
+    );
+}
+
+#[test]
+fn related_clocks_report_the_factor_and_sign_off_at_the_worst_phase() {
+    let r = sync(&[
+        "--json", "--fclk", "500MHz", "--ratio", "4/5", "--jitter", "10ps",
+    ]);
+    let v: serde_json::Value = serde_json::from_str(&r.stdout).unwrap();
+    assert_eq!(v["phase_given"], serde_json::json!(false));
+    assert_eq!(v["standard_formula_safe"], serde_json::json!(false));
+    assert!(v["clock_factor_best"].is_null() || v["clock_factor_best"].as_f64().unwrap() < 1e-10);
+    assert!(
+        v["warnings"]
+            .to_string()
+            .contains("signed off at the worst phase"),
+        "{v}"
+    );
+    // 8/10 is 4/5 in lowest terms.
+    let r = sync(&[
+        "--json", "--fclk", "500MHz", "--ratio", "8/10", "--jitter", "10ps",
+    ]);
+    let w: serde_json::Value = serde_json::from_str(&r.stdout).unwrap();
+    assert_eq!(w["inputs"]["ratio"], "4/5");
+    assert_eq!(w["log10_mtbf_s"], v["log10_mtbf_s"]);
+    // Jitter at 0.6 of the lattice spacing: the standard formula holds at every phase.
+    let r = sync(&[
+        "--json", "--fclk", "500MHz", "--ratio", "4/5", "--jitter", "300ps",
+    ]);
+    let s: serde_json::Value = serde_json::from_str(&r.stdout).unwrap();
+    assert_eq!(s["standard_formula_safe"], serde_json::json!(true));
+}

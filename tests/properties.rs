@@ -192,7 +192,7 @@ proptest! {
             ClockLimit::None => prop_assert!(with_fclk(&s, 1e-9).log10_rate() > m),
             // Every clock up to the model's limit meets it.
             ClockLimit::Any => prop_assert!(with_fclk(&s, 1e18).log10_rate() <= m),
-            ClockLimit::NotApplicable => prop_assert!(false, "no tr was given"),
+            ClockLimit::NotApplicable | ClockLimit::Related => prop_assert!(false, "no tr, no related clocks"),
         }
         match s.max_tau(m) {
             TauLimit::Max(t) => {
@@ -204,4 +204,42 @@ proptest! {
         }
     }
 
+}
+
+fn log10_mtbf(q: &str) -> f64 {
+    evaluate(&SyncCase::from_inputs(&RawInputs::from_query(q)).unwrap()).log10_mtbf_s
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(200))]
+
+    #[test]
+    fn a_list_of_equal_taus_is_the_single_tau(tau in log_uniform(1e-13, 1e-10), stages in 2u32..8) {
+        let list = vec![format!("{tau:e}"); stages as usize - 1].join(",");
+        let base = format!("tw=40ps&fclk=1GHz&fdata=100MHz&stages={stages}&tsu=30ps&tcq=50ps");
+        let one = log10_mtbf(&format!("tau={tau:e}&{base}"));
+        let many = log10_mtbf(&format!("tau={list}&{base}"));
+        prop_assert!((one - many).abs() <= crate::tolerance::F64_REL * one.abs().max(1.0), "{one} vs {many}");
+    }
+
+    #[test]
+    fn equal_master_and_slave_taus_are_that_tau_at_any_duty(tau in log_uniform(1e-13, 1e-10), duty in 0.01..0.99f64, stages in 2u32..6) {
+        let base = format!("tw=10ps&tw2=30ps&fclk=1GHz&fdata=100MHz&stages={stages}");
+        let one = log10_mtbf(&format!("tau={tau:e}&{base}"));
+        let pair = log10_mtbf(&format!("tau-master={tau:e}&tau-slave={tau:e}&duty={duty}&{base}"));
+        prop_assert!((one - pair).abs() <= crate::tolerance::F64_REL * one.abs().max(1.0), "{one} vs {pair}");
+    }
+
+    #[test]
+    fn the_clock_factor_multiplies_the_rate(jitter in log_uniform(1e-12, 1e-9), phase in 0.0..2e-9f64, p in 1u32..9, q in 1u32..9) {
+        let base = "tau=20ps&tw=40ps&fclk=1GHz&fdata=100MHz&stages=2&tsu=30ps&tcq=50ps";
+        let plain = log10_mtbf(base);
+        let v = evaluate(&SyncCase::from_inputs(&RawInputs::from_query(&format!(
+            "{base}&ratio={p}/{q}&jitter={jitter:e}&phase={phase:e}"
+        ))).unwrap());
+        let k = v.clocks.as_ref().unwrap();
+        prop_assert!((v.log10_mtbf_s - (plain - k.log10_clock_factor)).abs() < crate::tolerance::ROUNDING_LOG10_ABS);
+        prop_assert!(k.log10_clock_factor_best <= k.log10_clock_factor + crate::tolerance::ROUNDING_LOG10_ABS);
+        prop_assert!(k.log10_clock_factor <= k.log10_clock_factor_worst + crate::tolerance::ROUNDING_LOG10_ABS);
+    }
 }

@@ -141,3 +141,89 @@ fn matches_mpmath_table() {
     assert!(rows.len() >= 15, "table has {} rows", rows.len());
     rows.iter().for_each(|l| check_row(l));
 }
+
+#[test]
+fn models_beyond_one_tau_match_mpmath() {
+    // tests/fixtures/models_reference.csv: mpmath (PyPI) at 50 digits from the formulas of
+    // the domain notes section 8 (scripts/gen_reference.py), independently of this code.
+    let text = include_str!("fixtures/models_reference.csv");
+    let rows = table_rows(text);
+    assert!(rows.len() >= 15, "{} rows", rows.len());
+    for line in rows {
+        let c: Vec<&str> = line.split(';').collect();
+        let (name, query, key, want) = (c[0], c[1], c[2], c[3].parse::<f64>().unwrap());
+        let case = SyncCalculator::read(&RawInputs::from_query(query))
+            .unwrap_or_else(|e| panic!("{name}: {e}"));
+        let json = serde_json::to_value(SyncCalculator::evaluate(&case)).unwrap();
+        let got = json[key]
+            .as_f64()
+            .unwrap_or_else(|| panic!("{name}: no {key} in {json}"));
+        if key.starts_with("log10") {
+            assert_log10(name, got, want);
+        } else {
+            assert_rel(name, got, want, crate::tolerance::F64_REL);
+        }
+    }
+}
+
+#[test]
+fn master_slave_and_clock_factor_check_values_of_the_domain_notes() {
+    // Domain notes 8.2 and 8.3 (check values computed from the formulas there): tau_eff
+    // 24 ps; log10 MTBF 12.0956, 29.7141, 47.3326 s for 2, 3, 4 flip-flops; K = 19.947 at
+    // phase 0 and 2.6995 at 20 ps for 400 MHz into 500 MHz with 10 ps of jitter; 79.788 at
+    // 1 GHz with 5 ps. Checked to the digits quoted.
+    let json = |q: &str| {
+        serde_json::to_value(SyncCalculator::evaluate(
+            &SyncCalculator::read(&RawInputs::from_query(q)).unwrap(),
+        ))
+        .unwrap()
+    };
+    let ms = "tau-master=20ps&tau-slave=30ps&tw=10ps&tw2=30ps&fclk=1GHz&fdata=100MHz&stages=";
+    for (stages, quoted) in [(2, "12.0956"), (3, "29.7141"), (4, "47.3326")] {
+        let v = json(&format!("{ms}{stages}"));
+        crate::tolerance::assert_quoted("log10 MTBF", v["log10_mtbf_s"].as_f64().unwrap(), quoted);
+        crate::tolerance::assert_quoted(
+            "tau_eff ps",
+            v["tau_eff_s"].as_f64().unwrap() * 1e12,
+            "24",
+        );
+    }
+    let rel = "tau=20ps&tw=40ps&stages=2&tsu=30ps&tcq=50ps&fdata=100MHz";
+    for (q, quoted) in [
+        ("fclk=500MHz&ratio=4/5&jitter=10ps", "19.947"),
+        ("fclk=500MHz&ratio=4/5&jitter=10ps&phase=20ps", "2.6995"),
+        ("fclk=1GHz&ratio=1/1&jitter=5ps", "79.788"),
+    ] {
+        let v = json(&format!("{rel}&{q}"));
+        crate::tolerance::assert_quoted(q, v["clock_factor"].as_f64().unwrap(), quoted);
+    }
+}
+
+#[test]
+fn tutorial_examples_to_the_precision_it_gives() {
+    // Ginosar, "Metastability and Synchronizers: A Tutorial", IEEE Design & Test 2011
+    // (recalled): tau 100 ps, tw 200 ps, 1 GHz, 1 kHz, a full period per extra stage:
+    // "about a minute" (2 flip-flops), "about a month" (3), "about 1,000 years" (4); and
+    // tau 10 ps, tw 20 ps, 1 GHz, 100 MHz, 1 ns: "about 4e29 years". "About" is checked as
+    // the same order of magnitude (within half a decade); 4e29 to its one digit.
+    let years = |q: &str| {
+        SyncCalculator::evaluate(&SyncCalculator::read(&RawInputs::from_query(q)).unwrap())
+            .log10_mtbf_years
+    };
+    let g = "tau=100ps&tw=200ps&fclk=1GHz&fdata=1kHz&tsu=0&tcq=0&stages=";
+    let minute = (60.0 / latchwise::reliability::YEAR_S).log10();
+    let month = (30.0 * 86400.0 / latchwise::reliability::YEAR_S).log10();
+    for (stages, about) in [(2, minute), (3, month), (4, 3.0)] {
+        let got = years(&format!("{g}{stages}"));
+        assert!(
+            (got - about).abs() < 0.5,
+            "{stages} flip-flops: 1e{got} years"
+        );
+    }
+    assert_published(
+        "fast",
+        years("tau=10ps&tw=20ps&fclk=1GHz&fdata=100MHz&tr=1ns"),
+        4e29,
+        1,
+    );
+}

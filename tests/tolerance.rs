@@ -86,3 +86,8 @@ pub fn table_rows(text: &str) -> Vec<&str> {
 /// How close to the clock ceiling (where the hop time runs out) the clock solver's top
 /// answer sits: it stops 1e-12 below it, after an `exp(ln)` round trip.
 pub const CEILING_REL: f64 = 1e-9;
+
+/// Relative tolerance of a midpoint sum of a smooth periodic function over one period
+/// with thousands of points: such sums converge exponentially, far below this bound.
+#[allow(dead_code)] // Used by the library's unit tests (crate/src/synchronizer/clocks.rs).
+pub const QUADRATURE_REL: f64 = 1e-9;

@@ -38,6 +38,13 @@
     inputs().forEach(function (el) {
       el.value = Object.prototype.hasOwnProperty.call(last, el.name) ? last[el.name] : '';
     });
+    // The section of less common inputs opens when the case uses any of them.
+    var beyond = document.getElementById('beyond');
+    if (beyond) {
+      beyond.open = Array.prototype.some.call(beyond.querySelectorAll('[name]'), function (el) {
+        return el.value.trim() !== '';
+      });
+    }
   }
 
   // Before the core is ready the browser's reader gives the first paint; once it is,

@@ -76,6 +76,15 @@ pub enum ParamErrorKind {
         /// The two readings, upper-case prefix first (`400MHz`, `400mHz`).
         readings: [String; 2],
     },
+    /// A list with the wrong number of values.
+    ListLength {
+        /// Values given.
+        given: usize,
+        /// Values wanted (0: no list is possible here).
+        wanted: usize,
+    },
+    /// A ratio that is not two positive whole numbers `P/Q`.
+    BadRatio(String),
     /// A choice field got a value it does not know.
     UnknownChoice {
         /// The text as typed.
@@ -175,6 +184,19 @@ impl fmt::Display for ParamError {
                 f,
                 "'{text}' is ambiguous: write {} for megahertz or {} for millihertz",
                 readings[0], readings[1]
+            ),
+            ListLength { given, wanted: 0 } => write!(
+                f,
+                "a list of {given} values needs the chain (stages, tsu, tcq), not tr"
+            ),
+            ListLength { given, wanted } => write!(
+                f,
+                "{given} values given, {wanted} wanted: one per hop, stages - 1"
+            ),
+            BadRatio(t) => write!(
+                f,
+                "'{t}' is not a ratio of two positive whole numbers such as 4/5 \
+                 (launch over sampling frequency)"
             ),
             UnknownChoice { text, choices } => {
                 write!(f, "'{text}' is not one of: {choices}")

@@ -7,7 +7,7 @@ use crate::units::Dim;
 pub const TAU: FieldSpec = FieldSpec {
     name: "tau",
     dim: Dim::Time,
-    help: "regeneration time constant",
+    help: "regeneration time constant; or one per hop, comma-separated (14ps,22ps)",
     limits: (1e-21, 1e6),
     usual: (3e-13, 1e-9),
 };
@@ -108,6 +108,103 @@ pub const SERVICE_YEARS: FieldSpec = FieldSpec {
     usual: (0.01, 100.0),
 };
 
+/// Master latch time constant of a master-slave flip-flop.
+pub const TAU_MASTER: FieldSpec = FieldSpec {
+    name: "tau-master",
+    dim: Dim::Time,
+    help: "master latch tau, with tau-slave instead of tau (master-slave chain)",
+    limits: (1e-21, 1e6),
+    usual: (3e-13, 1e-9),
+};
+/// Slave latch time constant of a master-slave flip-flop.
+pub const TAU_SLAVE: FieldSpec = FieldSpec {
+    name: "tau-slave",
+    dim: Dim::Time,
+    help: "slave latch tau (master-slave chain)",
+    limits: (1e-21, 1e6),
+    usual: (3e-13, 1e-9),
+};
+/// Fraction of the period the clock is high.
+pub const DUTY: FieldSpec = FieldSpec {
+    name: "duty",
+    dim: Dim::Ratio,
+    help: "fraction of the period the clock is high (master-slave chain, default 0.5)",
+    limits: (1e-6, 1.0),
+    usual: (0.2, 0.8),
+};
+/// The window of a two-flip-flop chain.
+pub const TW2: FieldSpec = FieldSpec {
+    name: "tw2",
+    dim: Dim::Time,
+    help: "window characterised on a two-flip-flop chain (master-slave bound)",
+    limits: (1e-21, 1e6),
+    usual: (1e-14, 1e6),
+};
+/// Launch over sampling frequency, for related clocks.
+pub const RATIO: FieldSpec = FieldSpec {
+    name: "ratio",
+    dim: Dim::Choice,
+    help: "related clocks: launch over sampling frequency as P/Q, e.g. 4/5",
+    limits: (0.0, 0.0),
+    usual: (0.0, 0.0),
+};
+/// rms of the relative edge jitter of related clocks.
+pub const JITTER: FieldSpec = FieldSpec {
+    name: "jitter",
+    dim: Dim::Time,
+    help: "related clocks: rms of the relative edge jitter",
+    limits: (1e-21, 1e6),
+    usual: (1e-13, 1e-9),
+};
+/// Static phase of the edge lattice.
+pub const PHASE: FieldSpec = FieldSpec {
+    name: "phase",
+    dim: Dim::Time,
+    help: "related clocks: offset of the edges from the sampling edge (default: the worst)",
+    limits: (1e-21, 1e6),
+    usual: (1e-15, 1e-6),
+};
+/// What kind of crossing the data rate describes.
+pub const CROSSING: FieldSpec = FieldSpec {
+    name: "crossing",
+    dim: Dim::Choice,
+    help: "how the data rate is given: data (fdata), signal, gray or handshake",
+    limits: (0.0, 0.0),
+    usual: (0.0, 0.0),
+};
+/// Launch clock of a toggling signal.
+pub const FLAUNCH: FieldSpec = FieldSpec {
+    name: "flaunch",
+    dim: Dim::Frequency,
+    help: "crossing=signal: the launching clock",
+    limits: (1e-9, 1e18),
+    usual: (1e3, 2e11),
+};
+/// Toggle activity of a signal.
+pub const ACTIVITY: FieldSpec = FieldSpec {
+    name: "activity",
+    dim: Dim::Ratio,
+    help: "crossing=signal: toggles per launch clock cycle, 0 to 1",
+    limits: (1e-12, 1.0),
+    usual: (1e-6, 1.0),
+};
+/// Increments per second of a Gray-coded pointer.
+pub const INCREMENTS: FieldSpec = FieldSpec {
+    name: "increments",
+    dim: Dim::Frequency,
+    help: "crossing=gray: pointer increments per second (the whole pointer)",
+    limits: (1e-9, 1e18),
+    usual: (1e-3, 2e11),
+};
+/// Transfers per second of a four-phase handshake.
+pub const TRANSFERS: FieldSpec = FieldSpec {
+    name: "transfers",
+    dim: Dim::Frequency,
+    help: "crossing=handshake: transfers per second (each signal toggles twice per transfer)",
+    limits: (1e-9, 1e18),
+    usual: (1e-3, 2e11),
+};
+
 /// The input fields of the synchronizer calculator, in display order.
 pub const FIELDS: &[FieldSpec] = &[
     TAU,
@@ -123,4 +220,16 @@ pub const FIELDS: &[FieldSpec] = &[
     TARGET_FIT,
     DEVICES,
     SERVICE_YEARS,
+    TAU_MASTER,
+    TAU_SLAVE,
+    DUTY,
+    TW2,
+    RATIO,
+    JITTER,
+    PHASE,
+    CROSSING,
+    FLAUNCH,
+    ACTIVITY,
+    INCREMENTS,
+    TRANSFERS,
 ];

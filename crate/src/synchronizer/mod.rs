@@ -3,6 +3,7 @@
 //! `fields` names the inputs, `input` reads them into a case, `model` holds the physics
 //! and the solvers, `report` the results, readouts and plots, `sweep` the curves plotted.
 
+pub mod clocks;
 pub mod fields;
 pub mod input;
 pub mod model;

@@ -9,9 +9,11 @@ use crate::readout::Readout;
 use crate::reliability::{fleet_outcome, FleetOutcome, Target, CAUTION, YEAR_DAYS, YEAR_S};
 use crate::units::{format_duration_log10, format_log10, format_si};
 
-use super::input::SyncCase;
-use super::model::{ClockLimit, StagesNeeded, TauLimit, Window, MAX_STAGES, MAX_STAGES_ANSWER};
-use super::sweep::{mtbf_vs_fclk, mtbf_vs_stages, mtbf_vs_tau};
+use super::input::{Crossing, SyncCase};
+use super::model::{
+    ClockLimit, Latch, StagesNeeded, TauLimit, Window, MAX_STAGES, MAX_STAGES_ANSWER,
+};
+use super::sweep::{mtbf_vs_duty, mtbf_vs_fclk, mtbf_vs_phase, mtbf_vs_stages, mtbf_vs_tau};
 
 /// Everything a synchronizer case yields, ready to print or to serialise.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -60,6 +62,20 @@ pub struct SyncReport {
     /// Fleet figures, if a fleet was given.
     #[serde(flatten, skip_serializing_if = "Option::is_none")]
     pub fleet: Option<FleetOutcome>,
+    /// Which chain model was used: `hops` (tsu/tcq per hop) or `master-slave bound`.
+    pub chain_model: &'static str,
+    /// Effective tau of a master-slave flip-flop, s.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub tau_eff_s: Option<f64>,
+    /// Each hop of a per-hop tau list: its tau, time and share of the exponent.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub hops: Vec<HopShare>,
+    /// The clock factor of related clocks.
+    #[serde(flatten, skip_serializing_if = "Option::is_none")]
+    pub clocks: Option<ClockFactors>,
+    /// The data rate a crossing kind implies, Hz.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub fdata_hz: Option<f64>,
     /// For each result that is null: why it does not apply.
     #[serde(serialize_with = "serialize_pairs")]
     pub not_applicable: Vec<(&'static str, String)>,
@@ -69,6 +85,44 @@ pub struct SyncReport {
     pub warnings: Vec<String>,
     /// The standing caution.
     pub caution: &'static str,
+}
+
+/// One hop of a chain with a tau per hop.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct HopShare {
+    /// The hop's tau, s.
+    pub tau_s: f64,
+    /// The hop's resolution time, s.
+    pub time_s: f64,
+    /// The hop's share of the resolution exponent (and so of the margin it buys).
+    pub share: f64,
+}
+
+/// The clock factor K of related clocks: the failure rate is K times the standard one.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct ClockFactors {
+    /// K applied (at the phase given, else at the worst phase); null below the smallest f64.
+    pub clock_factor: Option<f64>,
+    /// log10 K applied.
+    pub log10_clock_factor: f64,
+    /// K at the worst phase (edges centred on the sampling edge); null beyond an f64.
+    pub clock_factor_worst: Option<f64>,
+    /// log10 K at the worst phase.
+    pub log10_clock_factor_worst: f64,
+    /// K at the best phase (half a lattice spacing away); null below the smallest f64.
+    pub clock_factor_best: Option<f64>,
+    /// log10 K at the best phase.
+    pub log10_clock_factor_best: f64,
+    /// Whether the standard formula is within 1 % of K at every phase.
+    pub standard_formula_safe: bool,
+    /// Whether the phase was given (else the worst phase is used).
+    pub phase_given: bool,
+    /// The lattice spacing of edge offsets, s.
+    pub lattice_spacing_s: f64,
+}
+
+fn normal(log10: f64) -> Option<f64> {
+    Some(10f64.powf(log10)).filter(|v| v.is_normal())
 }
 
 /// Evaluates a case: results, solver answers for the target, fleet figures and warnings.
@@ -113,7 +167,57 @@ pub fn evaluate(case: &SyncCase) -> SyncReport {
             );
             None
         }
+        ClockLimit::Related => {
+            reason(
+                "max_fclk_hz",
+                "related clocks: the clock factor changes with the clock",
+            );
+            None
+        }
     });
+    let fclk = s.fclk().get();
+    let clocks = s.related().map(|c| {
+        let (worst, best) = c.log10_factor_range(fclk);
+        let applied = c.log10_factor(fclk);
+        ClockFactors {
+            clock_factor: normal(applied),
+            log10_clock_factor: applied,
+            clock_factor_worst: normal(worst),
+            log10_clock_factor_worst: worst,
+            clock_factor_best: normal(best),
+            log10_clock_factor_best: best,
+            standard_formula_safe: c.standard_formula_safe(fclk),
+            phase_given: c.phase.is_some(),
+            lattice_spacing_s: c.spacing(fclk),
+        }
+    });
+    if let Some(k) = &clocks {
+        for (key, v) in [
+            ("clock_factor", k.clock_factor),
+            ("clock_factor_worst", k.clock_factor_worst),
+            ("clock_factor_best", k.clock_factor_best),
+        ] {
+            if v.is_none() {
+                reason(key, "beyond the range of an f64: see its log10");
+            }
+        }
+    }
+    let tau_eff_s = match s.latch() {
+        Latch::MasterSlave { .. } => Some(s.tau().get()),
+        _ => None,
+    };
+    let hops = match s.latch() {
+        Latch::PerHop { .. } => s
+            .hop_shares()
+            .into_iter()
+            .map(|(tau_s, time_s, share)| HopShare {
+                tau_s,
+                time_s,
+                share,
+            })
+            .collect(),
+        _ => Vec::new(),
+    };
     let max_tau_s = target_max.map(|m| match s.max_tau(m) {
         TauLimit::Max(t) => Some(t),
         TauLimit::Any => {
@@ -146,6 +250,15 @@ pub fn evaluate(case: &SyncCase) -> SyncReport {
         max_fclk_hz,
         max_tau_s,
         fleet: case.fleet.map(|f| fleet_outcome(log10_rate, f)),
+        chain_model: if s.is_bound() {
+            "master-slave bound"
+        } else {
+            "hops"
+        },
+        tau_eff_s,
+        hops,
+        clocks,
+        fdata_hz: (case.crossing != Crossing::Data).then(|| s.fdata().get()),
         not_applicable,
         unused: case.unused.clone(),
         warnings: warnings(case, log10_p),
@@ -191,6 +304,15 @@ fn warnings(case: &SyncCase, log10_p: f64) -> Vec<String> {
              (stages - 1) * (1/fclk - tsu)."
                 .into(),
         );
+    }
+    if let Some(c) = s.related() {
+        if c.phase.is_none() {
+            w.push(
+                "Related clocks with no phase given: signed off at the worst phase (edges \
+                 centred on the sampling edge); the best phase is shown beside it."
+                    .into(),
+            );
+        }
     }
     if s.window().seconds() > 1e-9 && matches!(s.window(), Window::Tw(_)) {
         w.push(format!(
@@ -253,6 +375,52 @@ impl SyncReport {
                 Some(self.log10_rate_per_s),
             ),
         ]);
+        if let Some(t) = self.tau_eff_s {
+            v.push(Readout::new(
+                "tau_eff_s",
+                "effective tau (master-slave)",
+                format_si(t, "s"),
+                Some(t),
+            ));
+        }
+        if let Some(f) = self.fdata_hz {
+            v.push(Readout::new(
+                "fdata_hz",
+                "data edge rate implied",
+                format_si(f, "Hz"),
+                Some(f),
+            ));
+        }
+        if let Some(k) = &self.clocks {
+            let at = if k.phase_given { "" } else { " (worst phase)" };
+            v.extend([
+                Readout::new(
+                    "log10_clock_factor",
+                    "clock factor K",
+                    format!("{}{at}", format_log10(k.log10_clock_factor, 3)),
+                    Some(k.log10_clock_factor),
+                ),
+                Readout::new(
+                    "log10_clock_factor_worst",
+                    "K at the worst phase",
+                    format_log10(k.log10_clock_factor_worst, 3),
+                    Some(k.log10_clock_factor_worst),
+                ),
+                Readout::new(
+                    "log10_clock_factor_best",
+                    "K at the best phase",
+                    format_log10(k.log10_clock_factor_best, 3),
+                    Some(k.log10_clock_factor_best),
+                ),
+                Readout::new(
+                    "standard_formula_safe",
+                    "standard formula safe at every phase",
+                    if k.standard_formula_safe { "yes" } else { "no" }.into(),
+                    Some(if k.standard_formula_safe { 1.0 } else { 0.0 }),
+                )
+                .judged(k.standard_formula_safe),
+            ]);
+        }
         if let (Some(met), Some(margin)) = (self.meets_target, self.margin_decades) {
             v.push(Readout::verdict(met, margin));
             v.push(Readout::margin(margin));
@@ -308,16 +476,67 @@ impl SyncReport {
         } else {
             "Window convention: tw, referred to the nominal clock-to-output delay."
         };
+        let mut facts = vec![convention.to_string()];
+        if self.chain_model == "master-slave bound" {
+            facts.push(
+                "Chain model: master-slave lower bound; each hop resolves for the whole \
+                 period and the window grows as tw (tw2/tw)^(n-1)."
+                    .to_string(),
+            );
+        }
+        if !self.hops.is_empty() {
+            let shares: Vec<String> = self
+                .hops
+                .iter()
+                .enumerate()
+                .map(|(i, h)| {
+                    format!(
+                        "hop {} (tau {}) {:.0} %",
+                        i + 1,
+                        format_si(h.tau_s, "s"),
+                        100.0 * h.share
+                    )
+                })
+                .collect();
+            facts.push(format!(
+                "Each hop's share of the margin: {}.",
+                shares.join(", ")
+            ));
+        }
+        if let Some(k) = &self.clocks {
+            facts.push(format!(
+                "Related clocks: data edges fall on a lattice {} apart; the failure rate is \
+                 K times the standard one{}.",
+                format_si(k.lattice_spacing_s, "s"),
+                if k.standard_formula_safe {
+                    ", and the standard formula is within 1 % of it at every phase"
+                } else {
+                    ""
+                }
+            ));
+        }
+        if let Some(f) = self.fdata_hz {
+            let why = match self.inputs.iter().find(|(k, _)| *k == "crossing") {
+                Some((_, kind)) if kind == "gray" => {
+                    "a Gray-coded pointer changes exactly one bit per increment, so its bits \
+                     together see one data edge per increment (not one per bit)"
+                }
+                Some((_, kind)) if kind == "handshake" => {
+                    "request and acknowledge each toggle twice per four-phase transfer; the \
+                     two synchronizers together fail at twice this rate"
+                }
+                _ => "a signal toggling with its activity on its launch clock",
+            };
+            facts.push(format!("fdata = {}: {why}.", format_si(f, "Hz")));
+        }
+        facts.push(format!(
+            "A year is {} days; FIT counts failures per 1e9 device-hours.",
+            self.year_days
+        ));
         Outcome {
             inputs: self.inputs.clone(),
             readouts: self.readouts(),
-            facts: vec![
-                convention.to_string(),
-                format!(
-                    "A year is {} days; FIT counts failures per 1e9 device-hours.",
-                    self.year_days
-                ),
-            ],
+            facts,
             warnings: self.warnings.clone(),
             unused: self.unused.clone(),
             target_missed: self.meets_target == Some(false),
@@ -348,6 +567,12 @@ pub fn plots(case: &SyncCase) -> Vec<Plot> {
         mtbf_vs_fclk(s, 200),
         mtbf_vs_tau(s, 200),
     ];
+    if matches!(s.latch(), Latch::MasterSlave { .. }) {
+        v.push(mtbf_vs_duty(s, 91));
+    }
+    if s.related().is_some() {
+        v.push(mtbf_vs_phase(s, 241));
+    }
     for p in &mut v {
         p.hline.clone_from(&target);
     }

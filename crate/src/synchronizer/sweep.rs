@@ -7,7 +7,7 @@ use crate::chart::series::{lin_space, log_space, Plot, Spacing};
 use crate::quantity::{Frequency, Time};
 use crate::reliability::YEAR_S;
 
-use super::model::Synchronizer;
+use super::model::{Latch, Synchronizer};
 
 const Y_NAME: &str = "log10_mtbf_years";
 const Y_LABEL: &str = "MTBF (years)";
@@ -66,11 +66,13 @@ pub fn mtbf_vs_tau(s: &Synchronizer, n: usize) -> Plot {
     sweep_tau(s, s.tau().get() / 4.0, s.tau().get() * 4.0, n)
 }
 
-/// log10 MTBF (years) against tau over `lo..=hi` with `n` log-spaced points.
+/// log10 MTBF (years) against tau over `lo..=hi` with `n` log-spaced points. With a tau
+/// per hop or a master-slave pair, every tau is scaled alike and x is the first hop's (or
+/// the effective) tau.
 pub fn sweep_tau(s: &Synchronizer, lo: f64, hi: f64, n: usize) -> Plot {
+    let tau = s.tau().get();
     let points = log_space(lo, hi, n)
-        .filter_map(|x| Time::positive("tau", x).ok())
-        .map(|x| (x.get(), log10_years(&s.with_tau(x))))
+        .filter_map(|x| Some((x, log10_years(&s.with_tau_scaled(x / tau)?))))
         .collect();
     Plot::new(
         "plot-tau",
@@ -97,4 +99,49 @@ pub fn mtbf_vs_tr(s: &Synchronizer, n: usize) -> Plot {
     )
     .y(Y_NAME, Y_LABEL)
     .single(points, operating_point(s, tr))
+}
+
+/// log10 MTBF (years) of a master-slave chain against the clock's duty cycle, 5 % to 95 %.
+pub fn mtbf_vs_duty(s: &Synchronizer, n: usize) -> Plot {
+    let duty = match s.latch() {
+        Latch::MasterSlave { duty, .. } => *duty,
+        _ => 0.5,
+    };
+    let points = lin_space(0.9, n)
+        .filter_map(|x| Some((0.05 + x, log10_years(&s.with_duty(0.05 + x)?))))
+        .collect();
+    Plot::new(
+        "plot-duty",
+        "MTBF against the clock's duty cycle",
+        ("duty (fraction high)", "", Spacing::Linear),
+    )
+    .y(Y_NAME, Y_LABEL)
+    .clip_y(Y_SPAN)
+    .single(points, operating_point(s, duty))
+}
+
+/// log10 MTBF (years) of a related-clock crossing against the phase of the edge lattice,
+/// over one lattice spacing.
+pub fn mtbf_vs_phase(s: &Synchronizer, n: usize) -> Plot {
+    let Some(c) = s.related() else {
+        return Plot::new(
+            "plot-phase",
+            "MTBF against phase",
+            ("phase (s)", "s", Spacing::Linear),
+        );
+    };
+    let g = c.spacing(s.fclk().get());
+    let phase = c.phase.map_or(0.0, |p| p.get().rem_euclid(g));
+    let points = lin_space(g, n)
+        .filter_map(|x| Time::non_negative("phase", x).ok())
+        .filter_map(|x| Some((x.get(), log10_years(&s.with_phase(x)?))))
+        .collect();
+    Plot::new(
+        "plot-phase",
+        "MTBF against the phase of related clocks",
+        ("phase (s)", "s", Spacing::Linear),
+    )
+    .y(Y_NAME, Y_LABEL)
+    .clip_y(Y_SPAN)
+    .single(points, operating_point(s, phase))
 }
