@@ -168,12 +168,23 @@
     });
   }
 
-  function draw(q) {
-    var drawn = wasm_bindgen.draw(page, q, window.devicePixelRatio || 1);
+  function drawOnce(q, dpr) {
+    var drawn = wasm_bindgen.draw(page, q, dpr);
     each('.plots canvas', function (c) {
       c.dataset.drawn = drawn.indexOf(c.id) >= 0 ? 'yes' : 'no';
       c.parentNode.dataset.stale = c.dataset.drawn === 'yes' ? 'no' : 'yes';
     });
+  }
+
+  function draw(q) {
+    var dpr = window.devicePixelRatio || 1;
+    drawOnce(q, dpr);
+    // Showing or hiding a plot that applies only to some cases reflows the others: draw
+    // again at their new size when any drawn canvas no longer matches its box.
+    var resized = Array.prototype.some.call(document.querySelectorAll('.plots canvas[data-drawn="yes"]'), function (c) {
+      return Math.abs(c.width - Math.round(c.clientWidth * dpr)) > 1;
+    });
+    if (resized) drawOnce(q, dpr);
     document.body.dataset.drawnAt = String(performance.now());
   }
 

@@ -160,8 +160,9 @@ pub fn text_report(title: &str, o: &Outcome) -> String {
     }
     s.push_str("\nResults\n");
     for r in &o.readouts {
-        let flag = match r.state {
-            "bad" => "  <-- MISSED",
+        let flag = match (r.name, r.state) {
+            ("meets_target", "bad") => "  <-- MISSED",
+            (_, "bad") => "  <--",
             _ => "",
         };
         s.push_str(&format!("  {:<width$}{}{flag}\n", r.label, r.text));

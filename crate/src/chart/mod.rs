@@ -9,7 +9,7 @@ use std::fmt;
 use plotters::coord::Shift;
 use plotters::prelude::*;
 
-use crate::units::format_si;
+use crate::units::{format_number, format_si};
 
 mod axis;
 pub mod series;
@@ -127,6 +127,8 @@ fn x_label_text(spec: &Plot, x: f64) -> String {
     match spec.spacing {
         Spacing::Integer => format!("{}", x.round()),
         Spacing::Log => format_si(10f64.powf(x), spec.x_unit),
+        // A plain fraction reads as 0.25, not as 250 m.
+        Spacing::Linear if spec.x_unit.is_empty() => format_number(x),
         Spacing::Linear => format_si(x, spec.x_unit),
     }
 }

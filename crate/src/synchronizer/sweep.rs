@@ -142,6 +142,5 @@ pub fn mtbf_vs_phase(s: &Synchronizer, n: usize) -> Plot {
         ("phase (s)", "s", Spacing::Linear),
     )
     .y(Y_NAME, Y_LABEL)
-    .clip_y(Y_SPAN)
     .single(points, operating_point(s, phase))
 }
