@@ -83,3 +83,70 @@ fn comparator_demo_numbers_hold() {
     assert_rel("max tau", num("max_tau_s"), max_tau, F64_REL);
     assert_eq!(v["extra_stages_needed"], serde_json::json!(4));
 }
+
+#[test]
+fn related_clock_example_numbers_hold() {
+    let text = readme();
+    let prose = text.split_whitespace().collect::<Vec<_>>().join(" ");
+    let start = text
+        .find("target/release/latchwise sync --tau 50ps")
+        .expect("the README shows the related-clock example");
+    let end = start + text[start..].find("\n```").unwrap();
+    let args: Vec<String> = text[start..end]
+        .replace("\\\n", " ")
+        .split_whitespace()
+        .skip(1)
+        .map(str::to_string)
+        .collect();
+    // By hand: tr = 2 ns - 25 ps - 40 ps = 1.935 ns; MTBF = exp(tr/tau) / (fdata fclk tw);
+    // K at the worst phase = g / (sigma sqrt(2 pi)) with g = 1/(4 * 500 MHz) = 0.5 ns.
+    let year = latchwise::reliability::YEAR_S;
+    let standard_years = (1.935e-9f64 / 50e-12).exp() / (50e6 * 500e6 * 35e-12) / year;
+    let k = 0.5e-9 / (8e-12 * (2.0 * std::f64::consts::PI).sqrt());
+    for (quoted, value) in [
+        ("gives 2,320 years", {
+            // The report prints three significant digits: 2320.
+            let three = (standard_years / 10.0).round() as u32 * 10;
+            format!("gives {},{:03} years", three / 1000, three % 1000)
+        }),
+        (
+            "met by 0.37 decades",
+            format!("met by {:.2} decades", (standard_years / 1e3).log10()),
+        ),
+        ("K = 24.9", format!("K = {k:.1}")),
+        (
+            "the MTBF is 93 years",
+            format!("the MTBF is {:.0} years", standard_years / k),
+        ),
+        (
+            "missed by 1.03 decades",
+            format!(
+                "missed by {:.2} decades",
+                -(standard_years / k / 1e3).log10()
+            ),
+        ),
+    ] {
+        assert!(prose.contains(quoted), "README no longer says '{quoted}'");
+        assert_eq!(value, quoted, "by hand against the README");
+    }
+    assert!(prose.contains("three flip-flops are needed"));
+    let out = std::process::Command::new(env!("CARGO_BIN_EXE_latchwise"))
+        .args(&args)
+        .arg("--json")
+        .output()
+        .unwrap();
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_rel(
+        "K",
+        v["clock_factor"].as_f64().unwrap(),
+        k,
+        crate::tolerance::F64_REL,
+    );
+    assert_rel(
+        "MTBF",
+        10f64.powf(v["log10_mtbf_years"].as_f64().unwrap()),
+        standard_years / k,
+        crate::tolerance::F64_REL,
+    );
+    assert_eq!(v["min_stages"], serde_json::json!(3));
+}
