@@ -91,3 +91,8 @@ pub const CEILING_REL: f64 = 1e-9;
 /// with thousands of points: such sums converge exponentially, far below this bound.
 #[allow(dead_code)] // Used by the library's unit tests (crate/src/synchronizer/clocks.rs).
 pub const QUADRATURE_REL: f64 = 1e-9;
+
+/// How many standard errors a sample statistic of a seeded simulation may stray from its
+/// expectation: five makes a false alarm a one-in-a-million event.
+#[allow(dead_code)] // Used by the library's unit tests and the coverage tests.
+pub const SAMPLE_SIGMAS: f64 = 5.0;

@@ -5,6 +5,7 @@ use std::io::Write;
 use std::process::ExitCode;
 
 use latchwise::calculator::{Calculator, Outcome, Visit};
+use latchwise::error::ParamErrorKind;
 use latchwise::reliability::CAUTION;
 
 use crate::args::{options_help, parse};
@@ -83,7 +84,15 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
         Ok(c) => c,
         Err(errs) => {
             for e in &errs.0 {
-                complain(&format!("latchwise {name}: {e}"));
+                match &e.kind {
+                    // A table's problems, one line each under the field's name.
+                    ParamErrorKind::Table(problems) => {
+                        for p in problems {
+                            complain(&format!("latchwise {name}: {}: {p}", e.field));
+                        }
+                    }
+                    _ => complain(&format!("latchwise {name}: {e}")),
+                }
             }
             return ExitCode::from(EXIT_BAD_INPUT);
         }

@@ -83,6 +83,10 @@ pub enum ParamErrorKind {
         /// Values wanted (0: no list is possible here).
         wanted: usize,
     },
+    /// Problems in a table of data, each with its line and column.
+    Table(Vec<String>),
+    /// Data that cannot give the fit asked of it, and why.
+    Unfittable(String),
     /// A ratio that is not two positive whole numbers `P/Q`.
     BadRatio(String),
     /// A choice field got a value it does not know.
@@ -193,6 +197,8 @@ impl fmt::Display for ParamError {
                 f,
                 "{given} values given, {wanted} wanted: one per hop, stages - 1"
             ),
+            Table(problems) => write!(f, "{}", problems.join("\n")),
+            Unfittable(why) => write!(f, "{why}"),
             BadRatio(t) => write!(
                 f,
                 "'{t}' is not a ratio of two positive whole numbers such as 4/5 \

@@ -32,6 +32,7 @@ pub mod readout;
 pub mod registry;
 pub mod reliability;
 pub mod synchronizer;
+pub mod table;
 pub mod units;
 
 #[cfg(target_arch = "wasm32")]

@@ -85,6 +85,11 @@ pub fn decade_ticks(lo: f64, hi: f64, max: usize) -> Vec<f64> {
     ladder(lo, hi, step, max + 1)
 }
 
+/// Ticks of a linear y axis: 1-2-5 steps, at most about eight.
+pub(super) fn linear_ticks(lo: f64, hi: f64) -> Vec<f64> {
+    ladder(lo, hi, nice_step((hi - lo) / 6.0), MAX_TICKS)
+}
+
 /// Tick positions on an x axis of the given spacing (log axes in log10 units).
 pub(super) fn x_ticks(spacing: Spacing, lo: f64, hi: f64) -> Vec<f64> {
     match spacing {

@@ -17,7 +17,7 @@ pub mod series;
 pub use axis::{decade_label, decade_ticks};
 pub use series::{Curve, Plot, Spacing};
 
-use axis::{x_ticks, TickedAxis};
+use axis::{linear_ticks, x_ticks, TickedAxis};
 
 /// Series colours, in order: our own calm palette.
 const INK: [RGBColor; 4] = [
@@ -88,7 +88,14 @@ fn y_range(spec: &Plot) -> (f64, f64) {
             hi = new_hi;
         }
     }
-    let p = pad(lo, hi, 0.06);
+    let p = if spec.y_log {
+        pad(lo, hi, 0.06)
+    } else {
+        // A linear axis in its own unit: a share of the span, or of the value when flat.
+        ((hi - lo) * 0.06)
+            .max(lo.abs().max(hi.abs()) * 0.05)
+            .max(f64::MIN_POSITIVE)
+    };
     (lo - p, hi + p)
 }
 
@@ -161,7 +168,20 @@ pub fn draw<DB: DrawingBackend>(
     area.fill(&WHITE).map_err(err)?;
     let (ylo, yhi) = y_range(spec);
     let (xlo, xhi) = x_range(spec);
-    let y_ticks = decade_ticks(ylo, yhi, 8);
+    let y_ticks = if spec.y_log {
+        decade_ticks(ylo, yhi, 8)
+    } else {
+        linear_ticks(ylo, yhi)
+    };
+    let y_text = |y: f64| {
+        if spec.y_log {
+            decade_label(y)
+        } else if spec.y_unit.is_empty() {
+            format_number(y)
+        } else {
+            format_si(y, spec.y_unit)
+        }
+    };
     let xk = x_ticks(spec.spacing, xlo, xhi);
     // Small charts (a phone, a printed page) get smaller text and room for it, so that
     // the plot keeps most of its area: full size from 420 CSS pixels wide.
@@ -171,7 +191,7 @@ pub fn draw<DB: DrawingBackend>(
     // Room for the longest decade label ("1e-399153" needs more than "1e40").
     let widest = y_ticks
         .iter()
-        .map(|t| decade_label(*t).len())
+        .map(|t| y_text(*t).chars().count())
         .max()
         .unwrap_or(4) as f64;
     let mut chart = ChartBuilder::on(area)
@@ -194,7 +214,7 @@ pub fn draw<DB: DrawingBackend>(
         )
         .map_err(err)?;
     let x_fmt = |x: &f64| x_label_text(spec, *x);
-    let y_fmt = |y: &f64| decade_label(*y);
+    let y_fmt = |y: &f64| y_text(*y);
     chart
         .configure_mesh()
         .x_desc(spec.x_label)
@@ -220,6 +240,19 @@ pub fn draw<DB: DrawingBackend>(
             .collect();
         points += pts.len();
         let style = color.stroke_width(px(2.0).max(1));
+        if c.points_only {
+            let dot = px(3.5);
+            let series = chart
+                .draw_series(pts.iter().map(|&p| Circle::new(p, dot, color.filled())))
+                .map_err(err)?;
+            if !c.label.is_empty() {
+                legend = true;
+                series
+                    .label(c.label.clone())
+                    .legend(move |(x, y)| Circle::new((x + 9, y), dot, color.filled()));
+            }
+            continue;
+        }
         let series = chart
             .draw_series(LineSeries::new(pts.clone(), style))
             .map_err(err)?;

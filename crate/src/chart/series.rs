@@ -20,8 +20,10 @@ pub enum Spacing {
 pub struct Curve {
     /// Legend text.
     pub label: String,
-    /// (x, log10 y) pairs.
+    /// (x, y) pairs: y is log10 of the quantity on a log axis, the quantity itself else.
     pub points: Vec<(f64, f64)>,
+    /// Drawn as separate points (measured data) rather than a line.
+    pub points_only: bool,
 }
 
 /// One plot of a calculator: what the page draws into the canvas `id` and what its CSV
@@ -53,6 +55,10 @@ pub struct Plot {
     /// The most decades the y axis may span: beyond, it shows the span around the
     /// operating point and the reference line, and the curves leave the plot.
     pub y_span_max: Option<f64>,
+    /// Whether y is a log10 (decade axis); else a plain linear axis in `y_unit`.
+    pub y_log: bool,
+    /// Unit symbol of a linear y axis.
+    pub y_unit: &'static str,
 }
 
 impl Plot {
@@ -71,7 +77,16 @@ impl Plot {
             vline: None,
             marker: None,
             y_span_max: None,
+            y_log: true,
+            y_unit: "",
         }
+    }
+
+    /// The same plot with a linear y axis in `unit` (y values are the quantity itself).
+    pub fn linear_y(mut self, unit: &'static str) -> Self {
+        self.y_log = false;
+        self.y_unit = unit;
+        self
     }
 
     /// The same plot with its y axis limited to `decades` (see [`Plot::y_span_max`]).
@@ -92,6 +107,7 @@ impl Plot {
         self.curves = vec![Curve {
             label: String::new(),
             points,
+            points_only: false,
         }];
         self.marker = Some(marker);
         self

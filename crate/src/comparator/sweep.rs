@@ -132,7 +132,11 @@ pub fn growth(c: &Comparator, n: usize) -> Plot {
                 .take_while(|&(_, l)| l <= ln_stop)
                 .map(|(t, l)| (t, l / LN_10))
                 .collect();
-            Curve { label, points }
+            Curve {
+                label,
+                points,
+                points_only: false,
+            }
         })
         .collect();
     plot.hline = Some((vmin.log10(), "vmin".into()));

@@ -2,3 +2,5 @@
 
 pub mod normal;
 pub mod solve;
+pub mod special;
+pub mod random;

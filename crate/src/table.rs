@@ -1,0 +1,214 @@
+//! Tables of data typed or pasted by the user (CSV with a header row): the delimiter is
+//! found from the header, `#` lines are comments, blank lines are skipped, quoted cells
+//! follow RFC 4180, and every cell is read in engineering notation for its column. Every
+//! problem is reported at once with its line and column; nothing is half-read.
+
+use std::fmt;
+
+use crate::error::ParamErrorKind;
+use crate::quantity::parse;
+use crate::units::Dim;
+
+/// One column a table may have.
+#[derive(Debug, Clone, Copy)]
+pub struct Column {
+    /// Its name in the header (case-insensitive).
+    pub name: &'static str,
+    /// The kind of its values.
+    pub dim: Dim,
+    /// Whether the table must have it.
+    pub required: bool,
+    /// Whether its values must be zero or more (else any sign).
+    pub non_negative: bool,
+}
+
+/// A problem with one place of a table.
+#[derive(Debug, Clone, PartialEq)]
+pub struct CellError {
+    /// The line in the text, 1-based (the header is line 1 of a table without comments).
+    pub line: usize,
+    /// The column's name, when the problem is in a column.
+    pub column: Option<String>,
+    /// What is wrong.
+    pub message: String,
+}
+
+impl fmt::Display for CellError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        match &self.column {
+            Some(c) => write!(f, "line {}, column {c}: {}", self.line, self.message),
+            None => write!(f, "line {}: {}", self.line, self.message),
+        }
+    }
+}
+
+/// A table read in full: for each wanted column its values (`None` where the table has
+/// no such column), and the text line each row came from.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Table {
+    /// Values by wanted column, in the order of the `columns` asked for.
+    pub columns: Vec<Option<Vec<f64>>>,
+    /// The line of each row.
+    pub lines: Vec<usize>,
+}
+
+impl Table {
+    /// The number of data rows.
+    pub fn len(&self) -> usize {
+        self.lines.len()
+    }
+
+    /// Whether there are no data rows.
+    pub fn is_empty(&self) -> bool {
+        self.lines.is_empty()
+    }
+
+    /// The values of wanted column `i` (empty when the table has none).
+    pub fn column(&self, i: usize) -> &[f64] {
+        self.columns.get(i).and_then(Option::as_deref).unwrap_or(&[])
+    }
+}
+
+/// Splits one line into cells at `delim`, honouring double quotes ("" inside quotes is
+/// a quote).
+fn cells(line: &str, delim: char) -> Vec<String> {
+    let mut out = Vec::new();
+    let mut cur = String::new();
+    let mut quoted = false;
+    let mut chars = line.chars().peekable();
+    while let Some(c) = chars.next() {
+        match (c, quoted) {
+            ('"', true) if chars.peek() == Some(&'"') => {
+                cur.push('"');
+                chars.next();
+            }
+            ('"', _) => quoted = !quoted,
+            (c, false) if c == delim => out.push(std::mem::take(&mut cur)),
+            (c, _) => cur.push(c),
+        }
+    }
+    out.push(cur);
+    out.into_iter().map(|c| c.trim().to_string()).collect()
+}
+
+/// Reads `text` as a table with the given columns.
+///
+/// # Errors
+/// Every problem found: an empty table, a missing or unknown or repeated column, a row
+/// with too few or too many cells, an unreadable or negative cell.
+///
+/// # Examples
+/// ```
+/// use latchwise::table::{read, Column};
+/// use latchwise::units::Dim;
+/// let cols = [Column { name: "tr", dim: Dim::Time, required: true, non_negative: true }];
+/// let t = read("# a comment\ntr\n1ns\n\n2 ns\n", &cols).unwrap();
+/// assert_eq!(t.column(0), &[1e-9, 2e-9]);
+/// assert_eq!(t.lines, vec![3, 5]);
+/// let e = read("tr\nfast\n", &cols).unwrap_err();
+/// assert_eq!(e[0].to_string(), "line 2, column tr: 'fast' is not a number (write e.g. 20p, 20 ps, 2e-11 or 1.5GHz)");
+/// ```
+pub fn read(text: &str, columns: &[Column]) -> Result<Table, Vec<CellError>> {
+    let mut errors = Vec::new();
+    let mut lines = text
+        .lines()
+        .enumerate()
+        .map(|(i, l)| (i + 1, l.trim_end_matches('\r')))
+        .filter(|(_, l)| !l.trim().is_empty() && !l.trim_start().starts_with('#'));
+    let Some((header_line, header)) = lines.next() else {
+        return Err(vec![CellError {
+            line: 1,
+            column: None,
+            message: "the table is empty: give a header row naming the columns, then data rows"
+                .into(),
+        }]);
+    };
+    let delim = [',', ';', '\t']
+        .into_iter()
+        .max_by_key(|d| header.matches(*d).count())
+        .filter(|d| header.contains(*d))
+        .unwrap_or(',');
+    let names: Vec<String> = cells(header, delim)
+        .into_iter()
+        .map(|n| n.to_ascii_lowercase())
+        .collect();
+    let known: Vec<&str> = columns.iter().map(|c| c.name).collect();
+    let mut at: Vec<Option<usize>> = vec![None; columns.len()];
+    for (i, n) in names.iter().enumerate() {
+        match columns.iter().position(|c| c.name == n) {
+            Some(k) if at[k].is_some() => errors.push(CellError {
+                line: header_line,
+                column: Some(n.clone()),
+                message: "the column is named twice".into(),
+            }),
+            Some(k) => at[k] = Some(i),
+            None => errors.push(CellError {
+                line: header_line,
+                column: Some(if n.is_empty() { "(blank)".into() } else { n.clone() }),
+                message: format!("unknown column (known: {})", known.join(", ")),
+            }),
+        }
+    }
+    for (k, c) in columns.iter().enumerate() {
+        if c.required && at[k].is_none() {
+            errors.push(CellError {
+                line: header_line,
+                column: Some(c.name.into()),
+                message: "the column is missing".into(),
+            });
+        }
+    }
+    let mut values: Vec<Option<Vec<f64>>> = at.iter().map(|a| a.map(|_| Vec::new())).collect();
+    let mut rows = Vec::new();
+    for (line, text) in lines {
+        let row = cells(text, delim);
+        if row.len() != names.len() {
+            errors.push(CellError {
+                line,
+                column: None,
+                message: format!("{} cells, the header has {}", row.len(), names.len()),
+            });
+            continue;
+        }
+        rows.push(line);
+        for (k, c) in columns.iter().enumerate() {
+            let Some(i) = at[k] else { continue };
+            let cell = &row[i];
+            let v = match parse(c.name, cell, c.dim) {
+                Ok(v) if c.non_negative && v < 0.0 => Err(format!("'{cell}' is negative")),
+                Ok(v) => Ok(v),
+                Err(e) => Err(match e.kind {
+                    ParamErrorKind::Missing => "the cell is empty".to_string(),
+                    _ => e.to_string().split_once(": ").map_or(e.to_string(), |(_, m)| m.to_string()),
+                }),
+            };
+            match v {
+                Ok(v) => {
+                    if let Some(col) = values[k].as_mut() {
+                        col.push(v);
+                    }
+                }
+                Err(message) => errors.push(CellError {
+                    line,
+                    column: Some(c.name.into()),
+                    message,
+                }),
+            }
+        }
+    }
+    if rows.is_empty() && errors.is_empty() {
+        errors.push(CellError {
+            line: header_line,
+            column: None,
+            message: "the table has a header but no data rows".into(),
+        });
+    }
+    if errors.is_empty() {
+        Ok(Table {
+            columns: values,
+            lines: rows,
+        })
+    } else {
+        Err(errors)
+    }
+}
