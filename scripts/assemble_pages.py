@@ -49,6 +49,12 @@ def main(src, out):
         )
         fill = {"title": html.escape(meta["title"]), "page": meta["page"], "nav": nav}
         page = re.sub(r"\{\{(\w+)\}\}", lambda k: fill[k.group(1)], head)
+        # {{example:NAME}} is the demo file examples/NAME, escaped for HTML.
+        body = re.sub(
+            r"\{\{example:([\w.-]+)\}\}",
+            lambda k: html.escape((src.parent / "examples" / k.group(1)).read_text(encoding="utf-8")),
+            body,
+        )
         page += body + re.sub(r"\{\{(\w+)\}\}", lambda k: fill[k.group(1)], foot)
         (out / name).write_text(page, encoding="utf-8")
 

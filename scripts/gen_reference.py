@@ -229,8 +229,144 @@ MODELS_HEADER = (
 )
 
 
+FITS_OUT = FIXTURES / "fits_reference.csv"
+EXAMPLES = Path(__file__).resolve().parent.parent / "examples"
+
+
+def si(cell):
+    """A cell of the demo files: a number with an optional SI prefix and unit."""
+    cell = cell.strip()
+    for unit in ("ps", "fs", "ns", "ms", "s", "mV", "V"):
+        if cell.endswith(unit):
+            num = cell[: -len(unit)]
+            scale = {"ps": "1e-12", "fs": "1e-15", "ns": "1e-9", "ms": "1e-3", "s": "1",
+                     "V": "1", "mV": "1e-3"}[unit]
+            return mpf(num) * mpf(scale)
+    return mpf(cell)
+
+
+def table(name, folder=EXAMPLES):
+    rows = [l for l in (folder / name).read_text().splitlines() if l and not l.startswith("#")]
+    return [[si(c) for c in r.split(",")] for r in rows[1:]]
+
+
+def bisect(f, lo, hi, steps=200):
+    """A root of f between lo and hi (f changes sign there), by plain bisection in mpmath."""
+    flo = f(lo)
+    for _ in range(steps):
+        mid = (lo + hi) / 2
+        fm = f(mid)
+        if (fm > 0) == (flo > 0):
+            lo, flo = mid, fm
+        else:
+            hi = mid
+    return (lo + hi) / 2
+
+
+def counts_fit(rows, fclk, fdata):
+    """Poisson MLE of mu = d fclk fdata exp(a - b t) and 95 % profile-likelihood intervals,
+    by mpmath root finding on the score and on the profile's drop of chi2(1, .95)/2."""
+    t = [r[0] for r in rows]
+    k = [r[1] for r in rows]
+    o = [mp.log(r[2] * fclk * fdata) for r in rows]
+    K = sum(k)
+
+    def best_a(b):
+        return mp.log(K / sum(mp.exp(-b * ti + oi) for ti, oi in zip(t, o)))
+
+    def loglik(a, b):
+        return sum(ki * (a - b * ti + oi) - mp.exp(a - b * ti + oi) for ti, ki, oi in zip(t, k, o))
+
+    def score_b(b):
+        a = best_a(b)
+        return sum(ti * (mp.exp(a - b * ti + oi) - ki) for ti, ki, oi in zip(t, k, o))
+
+    b = bisect(score_b, mpf(1) / mpf("1e-9"), mpf(1) / mpf("1e-13"))
+    a = best_a(b)
+    peak = loglik(a, b)
+    half = mp.mpf("3.841458820694124032") / 2  # chi2(1) 95 % point, halved
+
+    def drop_b(bb):
+        return peak - loglik(best_a(bb), bb) - half
+
+    def best_b(aa):
+        # The score in b falls monotonically: a bracket around the peak's b holds the root.
+        return bisect(lambda bb: sum(ti * (mp.exp(aa - bb * ti + oi) - ki)
+                                     for ti, ki, oi in zip(t, k, o)), b / 8, 8 * b)
+
+    def drop_a(aa):
+        return peak - loglik(aa, best_b(aa)) - half
+
+    # Bracketed roots on either side of the peak, so each end is found on its own side.
+    b_lo = bisect(drop_b, b / 2, b)
+    b_hi = bisect(drop_b, b, 2 * b)
+    a_lo = bisect(drop_a, a - 4, a)
+    a_hi = bisect(drop_a, a, a + 4)
+    mu = [mp.exp(a - b * ti + oi) for ti, oi in zip(t, o)]
+    dev = 2 * sum((ki * mp.log(ki / mi) if ki > 0 else 0) - (ki - mi) for ki, mi in zip(k, mu))
+    return [("tau_s", 1 / b), ("tau_s_ci_low", 1 / b_hi), ("tau_s_ci_high", 1 / b_lo),
+            ("tw_s", mp.exp(a)), ("tw_s_ci_low", mp.exp(a_lo)), ("tw_s_ci_high", mp.exp(a_hi)),
+            ("deviance", dev)]
+
+
+def t_quantile(p, df):
+    cdf = lambda x: 1 - mp.betainc(df / 2, mpf("0.5"), 0, df / (df + x * x), regularized=True) / 2
+    return mp.findroot(lambda x: cdf(x) - p, 2)
+
+
+def comparator_fit(rows):
+    """Least squares of time on ln vin with Student-t 95 % intervals, in mpmath."""
+    x = [mp.log(r[0]) for r in rows]
+    y = [r[1] for r in rows]
+    n = len(x)
+    mx, my = sum(x) / n, sum(y) / n
+    sxx = sum((xi - mx) ** 2 for xi in x)
+    slope = sum((xi - mx) * (yi - my) for xi, yi in zip(x, y)) / sxx
+    icpt = my - slope * mx
+    sse = sum((yi - icpt - slope * xi) ** 2 for xi, yi in zip(x, y))
+    s2 = sse / (n - 2)
+    tq = t_quantile(mpf("0.975"), n - 2)
+    tau = -slope
+    se = mp.sqrt(s2 / sxx)
+    return [("tau_s", tau), ("tau_s_ci_low", tau - tq * se), ("tau_s_ci_high", tau + tq * se),
+            ("v0_v", mp.exp(-icpt / slope)), ("residual_spread_s", mp.sqrt(s2))]
+
+
+def fits_rows():
+    rows = []
+    for key, v in counts_fit(table("fit-counts.csv"), mpf("1e9"), mpf("50e6")):
+        rows.append(("counts-demo", "counts", "fit-counts.csv", "fclk=1GHz&fdata=50MHz", key, v))
+    # Data whose zero-count rows matter: the fit with them, and without them (a mistake
+    # the tool must not make), so that the test can show the difference.
+    zero = table("counts_with_zero_rows.csv", FIXTURES)
+    for key, v in counts_fit(zero, mpf("1e9"), mpf("1e8")):
+        rows.append(("zero-rows", "counts", "counts_with_zero_rows.csv", "fclk=1GHz&fdata=100MHz", key, v))
+    nonzero = [r for r in zero if r[1] > 0]
+    for key, v in counts_fit(nonzero, mpf("1e9"), mpf("1e8"))[:1]:
+        rows.append(("zero-rows-dropped", "counts", "-", "", key, v))
+    for key, v in comparator_fit(table("fit-comparator.csv")):
+        rows.append(("comparator-demo", "comparator", "fit-comparator.csv", "", key, v))
+    for df in (1, 2, 5, 30):
+        rows.append((f"t-quantile-df{df}", "special", "-", "", "t_0.975", t_quantile(mpf("0.975"), df)))
+    for x, df in (("7.369", 6), ("1", 1), ("30", 10)):
+        rows.append((f"chi2-sf-{x}-{df}", "special", "-", "", "chi2_sf",
+                     mp.gammainc(mpf(df) / 2, mpf(x) / 2, mp.inf, regularized=True)))
+    return rows
+
+
+FITS_HEADER = (
+    "# Fits of the demo data computed independently with mpmath "
+    f"{mp.dps} digits by scripts/gen_reference.py: Poisson maximum likelihood with "
+    "profile-likelihood 95 % intervals (root finding on the score and on the drop of "
+    "chi2(1, 0.95)/2), least squares with Student-t intervals, and the special functions.\n"
+    "name;kind;file;settings;key;value\n"
+)
+
+
 def main():
     tables = {
+        FITS_OUT: FITS_HEADER
+        + "".join(f"{n};{k};{f};{st};{key};{mp.nstr(v, 20)}\n" for n, k, f, st, key, v in fits_rows()),
         MODELS_OUT: MODELS_HEADER
         + "".join(f"{n};{q};{k};{mp.nstr(v, 25)}\n" for n, q, k, v in models_rows()),
         OUT: HEADER + "".join(row(c) for c in CASES),

@@ -3,6 +3,7 @@
 
 mod cli;
 mod comparator;
+mod fits;
 mod links;
 mod plot;
 mod properties;

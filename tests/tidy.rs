@@ -12,9 +12,22 @@ use latchwise::params::RawInputs;
 use latchwise::registry::{dispatch, ALL};
 use serde_json::Value;
 
+/// A link query carrying a demo data file, percent-encoded.
+fn with_data(kind: &str, file: &str, extra: &str) -> String {
+    let text = std::fs::read_to_string(root().join("examples").join(file)).unwrap();
+    let data: String = text
+        .bytes()
+        .map(|b| match b {
+            b'A'..=b'Z' | b'a'..=b'z' | b'0'..=b'9' | b'-' | b'.' | b'_' => (b as char).to_string(),
+            _ => format!("%{b:02X}"),
+        })
+        .collect();
+    format!("kind={kind}&data={data}{extra}")
+}
+
 /// Cases that together show every result of each calculator.
-fn coverage(name: &str) -> &'static [&'static str] {
-    match name {
+fn coverage(name: &str) -> Vec<String> {
+    let fixed: &[&str] = match name {
         "sync" => &[
             "tau=20ps&tw=40ps&fclk=1GHz&fdata=100MHz&stages=2&tsu=30ps&tcq=50ps&target-years=1e6&devices=1e6&service-years=10",
             "tau=20ps&tw=40ps&fclk=1GHz&fdata=100MHz&tr=900ps&target-fit=1",
@@ -27,8 +40,17 @@ fn coverage(name: &str) -> &'static [&'static str] {
             "tau=15ps&treg=40ps&vmin=0.4&gain=4&input=nrz&amp=40mV&sigma=4mV&fs=28GHz&target-ber=1e-12&vin=1uV",
             "cl=20f&gm=2m&g0=0.4m&treg=1ns&vmin=0.4&input=pam4&amp=150m&sigma=8m&fs=1G&target-ber=1e-15",
         ],
+        "fit" => {
+            return vec![
+                with_data("counts", "fit-counts.csv", "&fclk=1GHz&fdata=50MHz"),
+                with_data("counts", "fit-counts.csv", "&fclk=1GHz&fdata=50MHz&window=t0"),
+                with_data("delay", "fit-delay.csv", ""),
+                with_data("comparator", "fit-comparator.csv", ""),
+            ];
+        }
         other => panic!("no coverage cases for calculator '{other}': add them here"),
-    }
+    };
+    fixed.iter().map(|q| q.to_string()).collect()
 }
 
 fn root() -> PathBuf {
@@ -119,6 +141,7 @@ impl Visit for Vocabulary {
         let inputs: BTreeSet<String> = attr_values(&page, "input", "name")
             .into_iter()
             .chain(attr_values(&page, "select", "name"))
+            .chain(attr_values(&page, "textarea", "name"))
             .collect();
         assert_eq!(fields, inputs, "{}: fields against page inputs", C::NAME);
 
@@ -126,7 +149,7 @@ impl Visit for Vocabulary {
         let outputs: BTreeSet<String> = attr_values(&page, "output", "name").into_iter().collect();
         let mut shown = BTreeSet::new();
         let mut labelled: BTreeSet<String> = BTreeSet::new();
-        for q in coverage(C::NAME) {
+        for q in &coverage(C::NAME) {
             let case = C::read(&RawInputs::from_query(q)).unwrap_or_else(|e| panic!("{q}: {e}"));
             let report = C::evaluate(&case);
             let json = serde_json::to_value(&report).unwrap();

@@ -96,3 +96,9 @@ pub const QUADRATURE_REL: f64 = 1e-9;
 /// expectation: five makes a false alarm a one-in-a-million event.
 #[allow(dead_code)] // Used by the library's unit tests and the coverage tests.
 pub const SAMPLE_SIGMAS: f64 = 5.0;
+
+/// Relative tolerance of fitted estimates and interval ends against the independent
+/// mpmath fit: the interval ends are roots of a likelihood difference that is flat near
+/// them, which f64 arithmetic places to about 1e-8 relative.
+#[allow(dead_code)] // Used by the fit tests.
+pub const FIT_REL: f64 = 1e-6;

@@ -20,7 +20,7 @@
   }
 
   function inputs() {
-    return Array.prototype.slice.call(form.querySelectorAll('input[name], select[name]'));
+    return Array.prototype.slice.call(form.querySelectorAll('input[name], select[name], textarea[name]'));
   }
 
   function query() {
@@ -142,6 +142,18 @@
     });
     list('warnings', state.warnings);
     list('facts', state.facts);
+    var links = document.getElementById('links');
+    if (links) {
+      links.textContent = '';
+      state.links.forEach(function (l) {
+        var li = document.createElement('li');
+        var a = document.createElement('a');
+        a.textContent = l[0];
+        a.href = l[1];
+        li.appendChild(a);
+        links.appendChild(li);
+      });
+    }
     if (state.ignored.length) {
       var more = state.ignored_total - state.ignored.length;
       note('Ignored unknown parameters in the link: ' + state.ignored.join(', ') +
@@ -287,6 +299,33 @@
       inputs().forEach(function (el) { el.value = defaults[el.name]; });
       show(document.getElementById('undo'), true);
       update(true);
+    });
+    // Demos of other experiments: the defaults, then the experiment and its data.
+    each('button[data-demo]', function (b) {
+      b.addEventListener('click', function () {
+        var demo = document.getElementById(b.dataset.demo);
+        if (!demo) return;
+        undoQuery = query();
+        inputs().forEach(function (el) { el.value = defaults[el.name]; });
+        form.elements.namedItem('kind').value = demo.dataset.kind;
+        form.elements.namedItem('data').value = demo.value;
+        show(document.getElementById('undo'), true);
+        update(true);
+      });
+    });
+    // A data file dropped on a text area fills it.
+    each('textarea[name]', function (t) {
+      t.addEventListener('dragover', function (e) { e.preventDefault(); t.classList.add('dropping'); });
+      t.addEventListener('dragleave', function () { t.classList.remove('dropping'); });
+      t.addEventListener('drop', function (e) {
+        e.preventDefault();
+        t.classList.remove('dropping');
+        var f = e.dataTransfer && e.dataTransfer.files && e.dataTransfer.files[0];
+        if (!f) return;
+        var reader = new FileReader();
+        reader.onload = function () { t.value = String(reader.result); update(true); };
+        reader.readAsText(f);
+      });
     });
     document.getElementById('undo').addEventListener('click', function () {
       if (undoQuery === null) return;

@@ -1,6 +1,22 @@
 //! Turns `--name value` options (and `--from-url`) into the core's named raw inputs.
 
+use std::io::Read;
+
 use latchwise::params::{FieldSpec, RawInputs};
+use latchwise::units::Dim;
+
+/// The text of a file operand (`-`: standard input).
+fn read_file(path: &str) -> Result<String, String> {
+    let mut text = String::new();
+    let result = if path == "-" {
+        std::io::stdin().read_to_string(&mut text).map(|_| ())
+    } else {
+        std::fs::read_to_string(path).map(|t| text = t)
+    };
+    result
+        .map(|()| text)
+        .map_err(|e| format!("cannot read '{path}': {e}"))
+}
 
 /// The most unknown link parameters named in a note; the rest are counted.
 pub const MOST_IGNORED_NAMED: usize = 10;
@@ -28,16 +44,24 @@ pub fn parse(
     args: &[String],
     fields: &[FieldSpec],
     aliases: &[(&str, &str)],
+    operands: &[&str],
 ) -> Result<Parsed, String> {
     let mut out = Parsed::default();
     let mut url: Option<RawInputs> = None;
     let mut explicit: Vec<(String, String)> = Vec::new();
+    let mut positional = operands.iter();
     let mut i = 0;
     while i < args.len() {
         let a = &args[i];
         i += 1;
-        let Some(body) = a.strip_prefix("--") else {
-            return Err(format!("unexpected argument '{a}' (options start with --)"));
+        let Some(body) = a.strip_prefix("--").filter(|_| a != "-") else {
+            let Some(name) = positional.next() else {
+                return Err(format!("unexpected argument '{a}' (options start with --)"));
+            };
+            let is_file = fields.iter().any(|f| f.name == *name && f.dim == Dim::Text);
+            let value = if is_file { read_file(a)? } else { a.clone() };
+            explicit.push(((*name).to_string(), value));
+            continue;
         };
         let (given, inline) = match body.split_once('=') {
             Some((n, v)) => (n, Some(v.to_string())),

@@ -52,7 +52,7 @@ pub fn help<C: Calculator>() -> String {
 /// Runs calculator `C`: options, help, notes, errors, output and exit status.
 pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
     let name = C::NAME;
-    let parsed = match parse(args, C::FIELDS, C::ALIASES) {
+    let parsed = match parse(args, C::FIELDS, C::ALIASES, C::OPERANDS) {
         Ok(p) => p,
         Err(msg) => {
             complain(&format!("latchwise {name}: {msg}"));
@@ -186,6 +186,12 @@ pub fn text_report(title: &str, o: &Outcome) -> String {
         s.push_str("\nWarnings\n");
         for w in &o.warnings {
             s.push_str(&format!("  - {w}\n"));
+        }
+    }
+    if !o.links.is_empty() {
+        s.push_str("\nOpen in a calculator (relative to the site)\n");
+        for (text, href) in &o.links {
+            s.push_str(&format!("  {text}: {href}\n"));
         }
     }
     s.push('\n');

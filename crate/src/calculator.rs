@@ -30,6 +30,9 @@ pub trait Calculator {
     const HELP: &'static str;
     /// Old parameter names still read from links and options, as `(old, new)`.
     const ALIASES: &'static [(&'static str, &'static str)] = &[];
+    /// Fields the command takes as positional operands, in order; a text field's operand
+    /// names a file (`-` for standard input).
+    const OPERANDS: &'static [&'static str] = &[];
 
     /// A validated case; evaluating it cannot fail.
     type Case;
@@ -74,6 +77,8 @@ pub struct Outcome {
     pub unused: Vec<&'static str>,
     /// A target was given and is not met (the command exits with status 1).
     pub target_missed: bool,
+    /// Links that carry results into another calculator: (text, relative address).
+    pub links: Vec<(String, String)>,
 }
 
 /// A calculator's identity, for lists and navigation.

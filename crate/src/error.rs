@@ -169,7 +169,9 @@ impl fmt::Display for ParamError {
                 above,
             } => {
                 let b = match dim {
-                    Dim::Count | Dim::Ratio | Dim::Choice => crate::units::format_number(*bound),
+                    Dim::Count | Dim::Ratio | Dim::Choice | Dim::Text => {
+                        crate::units::format_number(*bound)
+                    }
                     d => format_si(*bound, d.symbol()),
                 };
                 if *above {

@@ -22,6 +22,7 @@
 #![deny(clippy::print_stdout, clippy::print_stderr)]
 
 pub mod calculator;
+pub mod characterize;
 pub mod chart;
 pub mod comparator;
 pub mod error;

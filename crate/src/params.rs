@@ -38,7 +38,7 @@ impl FieldSpec {
         let v = quantity::parse(self.name, text, self.dim)?;
         let (lo, hi) = self.limits;
         let a = v.abs();
-        if v != 0.0 && self.dim != Dim::Choice && (a < lo || a > hi) {
+        if v != 0.0 && !matches!(self.dim, Dim::Choice | Dim::Text) && (a < lo || a > hi) {
             return Err(ParamError::new(
                 self.name,
                 ParamErrorKind::Unusable {
@@ -56,7 +56,7 @@ impl FieldSpec {
     pub fn note(&self, v: f64) -> Option<String> {
         let (lo, hi) = self.usual;
         let a = v.abs();
-        if v == 0.0 || self.dim == Dim::Choice || (lo..=hi).contains(&a) {
+        if v == 0.0 || matches!(self.dim, Dim::Choice | Dim::Text) || (lo..=hi).contains(&a) {
             return None;
         }
         let show = |x: f64| match self.dim {
@@ -350,6 +350,15 @@ pub fn echo_fields(raw: &RawInputs, fields: &[FieldSpec]) -> Vec<FieldEcho> {
         .iter()
         .map(|f| {
             let text = raw.get(f.name).unwrap_or("").to_string();
+            if f.dim == Dim::Text {
+                // A table is shown as typed; its problems come from the reader.
+                return FieldEcho {
+                    name: f.name,
+                    normalized: None,
+                    text,
+                    note: None,
+                };
+            }
             if f.dim == Dim::Choice {
                 let t = text.trim().to_ascii_lowercase();
                 return FieldEcho {

@@ -21,7 +21,8 @@ macro_rules! register {
 
 register!(
     crate::synchronizer::SyncCalculator,
-    crate::comparator::ComparatorCalculator
+    crate::comparator::ComparatorCalculator,
+    crate::characterize::FitCalculator
 );
 
 /// The calculator called `name`.

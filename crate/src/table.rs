@@ -20,6 +20,8 @@ pub struct Column {
     pub required: bool,
     /// Whether its values must be zero or more (else any sign).
     pub non_negative: bool,
+    /// Whether its values must be above zero.
+    pub positive: bool,
 }
 
 /// A problem with one place of a table.
@@ -65,7 +67,10 @@ impl Table {
 
     /// The values of wanted column `i` (empty when the table has none).
     pub fn column(&self, i: usize) -> &[f64] {
-        self.columns.get(i).and_then(Option::as_deref).unwrap_or(&[])
+        self.columns
+            .get(i)
+            .and_then(Option::as_deref)
+            .unwrap_or(&[])
     }
 }
 
@@ -101,7 +106,7 @@ fn cells(line: &str, delim: char) -> Vec<String> {
 /// ```
 /// use latchwise::table::{read, Column};
 /// use latchwise::units::Dim;
-/// let cols = [Column { name: "tr", dim: Dim::Time, required: true, non_negative: true }];
+/// let cols = [Column { name: "tr", dim: Dim::Time, required: true, non_negative: true, positive: false }];
 /// let t = read("# a comment\ntr\n1ns\n\n2 ns\n", &cols).unwrap();
 /// assert_eq!(t.column(0), &[1e-9, 2e-9]);
 /// assert_eq!(t.lines, vec![3, 5]);
@@ -144,7 +149,11 @@ pub fn read(text: &str, columns: &[Column]) -> Result<Table, Vec<CellError>> {
             Some(k) => at[k] = Some(i),
             None => errors.push(CellError {
                 line: header_line,
-                column: Some(if n.is_empty() { "(blank)".into() } else { n.clone() }),
+                column: Some(if n.is_empty() {
+                    "(blank)".into()
+                } else {
+                    n.clone()
+                }),
                 message: format!("unknown column (known: {})", known.join(", ")),
             }),
         }
@@ -176,10 +185,14 @@ pub fn read(text: &str, columns: &[Column]) -> Result<Table, Vec<CellError>> {
             let cell = &row[i];
             let v = match parse(c.name, cell, c.dim) {
                 Ok(v) if c.non_negative && v < 0.0 => Err(format!("'{cell}' is negative")),
+                Ok(v) if c.positive && v <= 0.0 => Err("must be above zero".to_string()),
                 Ok(v) => Ok(v),
                 Err(e) => Err(match e.kind {
                     ParamErrorKind::Missing => "the cell is empty".to_string(),
-                    _ => e.to_string().split_once(": ").map_or(e.to_string(), |(_, m)| m.to_string()),
+                    _ => e
+                        .to_string()
+                        .split_once(": ")
+                        .map_or(e.to_string(), |(_, m)| m.to_string()),
                 }),
             };
             match v {

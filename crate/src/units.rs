@@ -25,6 +25,8 @@ pub enum Dim {
     Count,
     /// One of a fixed set of words (not a number).
     Choice,
+    /// Free text, such as a table of data.
+    Text,
 }
 
 impl Dim {
@@ -36,7 +38,7 @@ impl Dim {
             Dim::Voltage => "V",
             Dim::Capacitance => "F",
             Dim::Conductance => "S",
-            Dim::Ratio | Dim::Count | Dim::Choice => "",
+            Dim::Ratio | Dim::Count | Dim::Choice | Dim::Text => "",
         }
     }
 
@@ -51,6 +53,7 @@ impl Dim {
             Dim::Ratio => "ratio",
             Dim::Count => "count",
             Dim::Choice => "choice",
+            Dim::Text => "text",
         }
     }
 
@@ -63,7 +66,7 @@ impl Dim {
             Dim::Capacitance => &["F"],
             Dim::Conductance => &["S", "A/V"],
             Dim::Ratio => &["V/V", "x"],
-            Dim::Count | Dim::Choice => &[],
+            Dim::Count | Dim::Choice | Dim::Text => &[],
         }
     }
 }

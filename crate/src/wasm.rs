@@ -45,6 +45,7 @@ struct PageState {
     fields: Vec<FieldState>,
     readouts: Vec<Readout>,
     facts: Vec<String>,
+    links: Vec<(String, String)>,
     warnings: Vec<String>,
     ignored: Vec<String>,
     ignored_total: usize,
@@ -93,6 +94,7 @@ impl Visit for Page<'_> {
             fields,
             readouts: Vec::new(),
             facts: Vec::new(),
+            links: Vec::new(),
             warnings: Vec::new(),
             ignored,
             ignored_total,
@@ -102,6 +104,7 @@ impl Visit for Page<'_> {
         if let Ok((_, o)) = result {
             state.readouts = o.readouts;
             state.facts = o.facts;
+            state.links = o.links;
             state.warnings = o.warnings;
             state.unused = o.unused;
         }

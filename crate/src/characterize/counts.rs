@@ -107,8 +107,7 @@ fn offsets(d: &Counts, fclk: f64, fdata: f64) -> Vec<f64> {
 
 /// The log likelihood (without the constant `ln k!` terms) at `a = ln w`, `b = 1/tau`.
 fn log_lik(d: &Counts, o: &[f64], a: f64, b: f64) -> f64 {
-    d.tr
-        .iter()
+    d.tr.iter()
         .zip(&d.failures)
         .zip(o)
         .map(|((t, k), o)| {
@@ -129,8 +128,7 @@ fn best_a(d: &Counts, o: &[f64], b: f64) -> f64 {
 fn best_b(d: &Counts, o: &[f64], a: f64, span: f64) -> f64 {
     let target: f64 = d.tr.iter().zip(&d.failures).map(|(t, k)| t * k).sum();
     let excess = |b: f64| -> f64 {
-        d.tr
-            .iter()
+        d.tr.iter()
             .zip(o)
             .map(|(t, o)| t * (a - b * t + o).exp())
             .sum::<f64>()
@@ -155,10 +153,11 @@ fn best_b(d: &Counts, o: &[f64], a: f64, span: f64) -> f64 {
 /// (Poisson log-linear models, deviance); Venzon and Moolgavkar, "A Method for Computing
 /// Profile-Likelihood-Based Confidence Intervals", Applied Statistics 37, 1988.
 pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem> {
-    let (tmin, tmax) = d
-        .tr
-        .iter()
-        .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), t| (lo.min(*t), hi.max(*t)));
+    let (tmin, tmax) =
+        d.tr.iter()
+            .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), t| {
+                (lo.min(*t), hi.max(*t))
+            });
     let total: f64 = d.failures.iter().sum();
     if total <= 0.0 {
         let edges: f64 = d.duration.iter().map(|x| x * fdata).sum();
@@ -173,7 +172,12 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
     }
     let span = tmax - tmin;
     let o = offsets(d, fclk, fdata);
-    let k_mean: f64 = d.tr.iter().zip(&d.failures).map(|(t, k)| t * k).sum::<f64>() / total;
+    let k_mean: f64 =
+        d.tr.iter()
+            .zip(&d.failures)
+            .map(|(t, k)| t * k)
+            .sum::<f64>()
+            / total;
     if k_mean <= tmin * (1.0 + 1e-12) {
         return Err(CountsProblem::AllAtShortest(tmin));
     }
@@ -181,7 +185,10 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
     let w_mean = |b: f64| {
         let ln_w: Vec<f64> = d.tr.iter().zip(&o).map(|(t, o)| -b * t + o).collect();
         let norm = ln_sum_exp(&ln_w);
-        d.tr.iter().zip(&ln_w).map(|(t, l)| t * (l - norm).exp()).sum::<f64>()
+        d.tr.iter()
+            .zip(&ln_w)
+            .map(|(t, l)| t * (l - norm).exp())
+            .sum::<f64>()
     };
     if w_mean(0.0) <= k_mean {
         return Err(CountsProblem::NotFalling);
@@ -196,15 +203,22 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
     let inside_a = |aa: f64| peak - profile_a(aa) <= HALF_CHI2_95;
     // b's interval: below b (towards 0) and above; None where the drop never comes.
     let b_lo = (!inside_b(1e-9 * b)).then(|| {
-        let x = bisect_last(-(b.ln()) , -(1e-9 * b).ln(), 1e-12, 200, |x| inside_b((-x).exp()));
+        let x = bisect_last(-(b.ln()), -(1e-9 * b).ln(), 1e-12, 200, |x| {
+            inside_b((-x).exp())
+        });
         (-x).exp()
     });
     let b_hi = (!inside_b(1e4 / span)).then(|| bisect_last(b, 1e4 / span, 0.0, 200, inside_b));
     // a's interval: the profile falls within a few tens of nepers on either side.
     let reach = 60.0;
-    let a_lo = (!inside_a(a - reach)).then(|| -bisect_last(-a, -(a - reach), 0.0, 200, |x| inside_a(-x)));
+    let a_lo =
+        (!inside_a(a - reach)).then(|| -bisect_last(-a, -(a - reach), 0.0, 200, |x| inside_a(-x)));
     let a_hi = (!inside_a(a + reach)).then(|| bisect_last(a, a + reach, 0.0, 200, inside_a));
-    let expected: Vec<f64> = d.tr.iter().zip(&o).map(|(t, o)| (a - b * t + o).exp()).collect();
+    let expected: Vec<f64> =
+        d.tr.iter()
+            .zip(&o)
+            .map(|(t, o)| (a - b * t + o).exp())
+            .collect();
     let unit: Vec<f64> = d
         .failures
         .iter()

@@ -40,7 +40,8 @@ pub fn fit(vin: &[f64], time: &[f64]) -> Result<DecisionFit, String> {
         return Err(p);
     }
     let x: Vec<f64> = vin.iter().map(|v| v.ln()).collect();
-    let l = line::fit(&x, time).ok_or("every row has the same vin: the sweep needs two or more inputs")?;
+    let l = line::fit(&x, time)
+        .ok_or("every row has the same vin: the sweep needs two or more inputs")?;
     if l.slope >= 0.0 {
         return Err("the decision time does not fall as vin grows: check the columns".into());
     }

@@ -10,8 +10,9 @@ use super::line::{self, Line};
 
 /// Share of the largest extra delay below which a point is taken as nominal.
 pub const NOMINAL_SHARE: f64 = 0.05;
-/// Share of the largest extra delay above which a point is taken as saturated.
-pub const SATURATED_SHARE: f64 = 0.95;
+/// Share of the largest extra delay above which points form a plateau when two or more
+/// reach it: the simulation has saturated there.
+pub const SATURATED_SHARE: f64 = 0.98;
 
 /// Why a point was used or left out.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -30,7 +31,7 @@ impl Use {
         match self {
             Use::Used => "used: in the regenerative region",
             Use::Nominal => "left out: extra delay below 5 % of the largest, nominal delay",
-            Use::Saturated => "left out: extra delay above 95 % of the largest, saturated near the balance point",
+            Use::Saturated => "left out: on the plateau of the largest extra delay, saturated near the balance point",
         }
     }
 }
@@ -81,7 +82,9 @@ fn median(mut v: Vec<f64>) -> f64 {
 pub fn fit(offset: &[f64], delay: &[f64], tcq: Option<f64>) -> Result<DelayFit, String> {
     let n = offset.len();
     if n < 5 {
-        return Err(format!("{n} rows: a delay sweep needs at least five (offset, delay) rows"));
+        return Err(format!(
+            "{n} rows: a delay sweep needs at least five (offset, delay) rows"
+        ));
     }
     let peak = (0..n)
         .max_by(|&i, &j| delay[i].total_cmp(&delay[j]))
@@ -89,20 +92,32 @@ pub fn fit(offset: &[f64], delay: &[f64], tcq: Option<f64>) -> Result<DelayFit, 
     let centre = offset[peak];
     let tcq_value = tcq.unwrap_or_else(|| {
         let mut far: Vec<usize> = (0..n).collect();
-        far.sort_by(|&i, &j| (offset[j] - centre).abs().total_cmp(&(offset[i] - centre).abs()));
+        far.sort_by(|&i, &j| {
+            (offset[j] - centre)
+                .abs()
+                .total_cmp(&(offset[i] - centre).abs())
+        });
         median(far.iter().take((n / 4).max(1)).map(|&i| delay[i]).collect())
     });
     let extra: Vec<f64> = delay.iter().map(|d| d - tcq_value).collect();
     let top = extra[peak];
-    if !(top > 0.0) {
-        return Err("no delay exceeds tcq: the sweep does not reach the regenerative region".into());
+    if top <= 0.0 || top.is_nan() {
+        return Err(
+            "no delay exceeds tcq: the sweep does not reach the regenerative region".into(),
+        );
     }
+    // A plateau: two or more points within 2 % of the largest extra delay.
+    let plateau = extra
+        .iter()
+        .filter(|e| **e >= SATURATED_SHARE * top)
+        .count()
+        >= 2;
     let uses: Vec<Use> = extra
         .iter()
         .map(|e| {
             if *e <= NOMINAL_SHARE * top {
                 Use::Nominal
-            } else if *e > SATURATED_SHARE * top {
+            } else if plateau && *e >= SATURATED_SHARE * top {
                 Use::Saturated
             } else {
                 Use::Used
@@ -112,15 +127,23 @@ pub fn fit(offset: &[f64], delay: &[f64], tcq: Option<f64>) -> Result<DelayFit, 
     let used: Vec<usize> = (0..n).filter(|&i| uses[i] == Use::Used).collect();
     if used.len() < 4 {
         return Err(format!(
-            "{} points in the regenerative region (extra delay between 5 % and 95 % of the \
-             largest): at least four are needed; sweep the offset more finely near the \
-             balance point",
+            "{} points in the regenerative region (extra delay above 5 % of the largest and \
+             off any plateau): at least four are needed; sweep the offset more finely near \
+             the balance point",
             used.len()
         ));
     }
     // m lies between the used points nearest the peak on either side.
-    let left = used.iter().filter(|&&i| offset[i] < centre).map(|&i| offset[i]).fold(f64::NEG_INFINITY, f64::max);
-    let right = used.iter().filter(|&&i| offset[i] > centre).map(|&i| offset[i]).fold(f64::INFINITY, f64::min);
+    let left = used
+        .iter()
+        .filter(|&&i| offset[i] < centre)
+        .map(|&i| offset[i])
+        .fold(f64::NEG_INFINITY, f64::max);
+    let right = used
+        .iter()
+        .filter(|&&i| offset[i] > centre)
+        .map(|&i| offset[i])
+        .fold(f64::INFINITY, f64::min);
     let span = offset.iter().fold(0.0f64, |s, o| s.max((o - centre).abs()));
     let (lo, hi) = match (left.is_finite(), right.is_finite()) {
         (true, true) => (left, right),
@@ -151,7 +174,9 @@ pub fn fit(offset: &[f64], delay: &[f64], tcq: Option<f64>) -> Result<DelayFit, 
     let m = 0.5 * (a + b);
     let l = line_at(m).ok_or("the used points do not spread in distance from the balance point")?;
     if l.slope >= 0.0 {
-        return Err("the extra delay does not fall away from the balance point: check the columns".into());
+        return Err(
+            "the extra delay does not fall away from the balance point: check the columns".into(),
+        );
     }
     let tau = -l.slope;
     let t = l.t95();
@@ -165,7 +190,10 @@ pub fn fit(offset: &[f64], delay: &[f64], tcq: Option<f64>) -> Result<DelayFit, 
         tau,
         tau_ci: (tau - t * se_tau, tau + t * se_tau),
         tw: 2.0 * ln_half.exp(),
-        tw_ci: (2.0 * (ln_half - t * se).exp(), 2.0 * (ln_half + t * se).exp()),
+        tw_ci: (
+            2.0 * (ln_half - t * se).exp(),
+            2.0 * (ln_half + t * se).exp(),
+        ),
         offset_m: m,
         tcq: tcq_value,
         tcq_given: tcq.is_some(),

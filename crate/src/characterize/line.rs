@@ -43,7 +43,7 @@ pub fn fit(x: &[f64], y: &[f64]) -> Option<Line> {
     let mx = x.iter().sum::<f64>() / n;
     let my = y.iter().sum::<f64>() / n;
     let sxx: f64 = x.iter().map(|v| (v - mx).powi(2)).sum();
-    if !(sxx > 0.0) {
+    if sxx <= 0.0 || sxx.is_nan() {
         return None;
     }
     let sxy: f64 = x.iter().zip(y).map(|(a, b)| (a - mx) * (b - my)).sum();

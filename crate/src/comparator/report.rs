@@ -338,6 +338,7 @@ impl CompReport {
             warnings: self.warnings.clone(),
             unused: self.unused.clone(),
             target_missed: self.meets_target == Some(false),
+            links: Vec::new(),
         }
     }
 }

@@ -39,7 +39,7 @@ impl Random {
     /// A Poisson draw of mean `mu`: by multiplying uniforms below 30, by inverting the
     /// cumulative distribution from the mode outward above.
     pub fn poisson(&mut self, mu: f64) -> u64 {
-        if !(mu > 0.0) {
+        if mu <= 0.0 || mu.is_nan() {
             return 0;
         }
         if mu < 30.0 {

@@ -540,6 +540,7 @@ impl SyncReport {
             warnings: self.warnings.clone(),
             unused: self.unused.clone(),
             target_missed: self.meets_target == Some(false),
+            links: Vec::new(),
         }
     }
 }

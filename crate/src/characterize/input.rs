@@ -1,0 +1,218 @@
+//! Reading the fit's raw inputs: the experiment, its table of data and its settings.
+
+use crate::error::{ParamError, ParamErrorKind, ParamErrors};
+use crate::params::{FieldReader, RawInputs};
+use crate::quantity::{Frequency, Time};
+use crate::table::{read, Column, Table};
+use crate::units::Dim;
+
+use super::counts::Counts;
+use super::fields::{DATA, FCLK, FDATA, KIND, TCQ, WINDOW};
+
+/// The choices of the `kind` field.
+pub const KIND_CHOICES: &str = "counts, delay, comparator";
+
+/// A fit case: the experiment and its data, read and checked.
+#[derive(Debug, Clone, PartialEq)]
+pub enum FitCase {
+    /// Failure counts at several resolution times.
+    Counts {
+        /// The rows.
+        counts: Counts,
+        /// The text line of each row.
+        lines: Vec<usize>,
+        /// The sampling clock.
+        fclk: Frequency,
+        /// The data edge rate.
+        fdata: Frequency,
+        /// Whether tr counts from the clock edge (a t0 window).
+        t0: bool,
+    },
+    /// A delay sweep.
+    Delay {
+        /// Data-to-clock offsets, s.
+        offset: Vec<f64>,
+        /// Clock-to-output delays, s.
+        delay: Vec<f64>,
+        /// The text line of each row.
+        lines: Vec<usize>,
+        /// The nominal delay, when given.
+        tcq: Option<Time>,
+    },
+    /// A comparator's decision-time sweep.
+    Comparator {
+        /// Inputs, V.
+        vin: Vec<f64>,
+        /// Decision times, s.
+        time: Vec<f64>,
+        /// The text line of each row.
+        lines: Vec<usize>,
+    },
+}
+
+const fn col(name: &'static str, dim: Dim, non_negative: bool) -> Column {
+    Column {
+        name,
+        dim,
+        required: true,
+        non_negative,
+        positive: false,
+    }
+}
+
+const fn positive(name: &'static str, dim: Dim) -> Column {
+    Column {
+        name,
+        dim,
+        required: true,
+        non_negative: true,
+        positive: true,
+    }
+}
+
+/// Reads the table for `columns`, recording its problems on the `data` field.
+fn table(r: &mut FieldReader, columns: &[Column]) -> Option<Table> {
+    let Some(text) = r.text(&DATA) else {
+        r.push(ParamError::new(DATA.name, ParamErrorKind::Missing));
+        return None;
+    };
+    match read(text, columns) {
+        Ok(t) => Some(t),
+        Err(problems) => {
+            r.push(ParamError::new(
+                DATA.name,
+                ParamErrorKind::Table(problems.iter().map(ToString::to_string).collect()),
+            ));
+            None
+        }
+    }
+}
+
+fn table_problem(r: &mut FieldReader, problems: Vec<String>) {
+    r.push(ParamError::new(DATA.name, ParamErrorKind::Table(problems)));
+}
+
+impl FitCase {
+    /// Reads a fit case from named text inputs.
+    ///
+    /// # Errors
+    /// Every field error found, each naming its field; a table's problems each with its
+    /// line and column.
+    pub fn from_inputs(raw: &RawInputs) -> Result<FitCase, ParamErrors> {
+        let mut r = FieldReader::new(raw);
+        let kind = r.text(&KIND).map(str::to_ascii_lowercase);
+        let case = match kind.as_deref() {
+            Some("counts") => {
+                let fclk = r.required(&FCLK, Frequency::positive);
+                let fdata = r.required(&FDATA, Frequency::positive);
+                let t0 = match r.text(&WINDOW).map(str::to_ascii_lowercase).as_deref() {
+                    None | Some("tw") => Some(false),
+                    Some("t0") => Some(true),
+                    Some(other) => {
+                        r.push(ParamError::new(
+                            WINDOW.name,
+                            ParamErrorKind::UnknownChoice {
+                                text: other.to_string(),
+                                choices: "tw, t0",
+                            },
+                        ));
+                        None
+                    }
+                };
+                let t = table(
+                    &mut r,
+                    &[
+                        col("tr", Dim::Time, true),
+                        col("failures", Dim::Count, true),
+                        positive("duration", Dim::Time),
+                    ],
+                );
+                let t = t.and_then(|t| {
+                    let mut problems = Vec::new();
+                    for (i, line) in t.lines.iter().enumerate() {
+                        if t.column(1)[i].fract() != 0.0 {
+                            problems.push(format!(
+                                "line {line}, column failures: '{}' is not a whole number",
+                                t.column(1)[i]
+                            ));
+                        }
+                    }
+                    if problems.is_empty() {
+                        Some(t)
+                    } else {
+                        table_problem(&mut r, problems);
+                        None
+                    }
+                });
+                match (fclk, fdata, t0, t) {
+                    (Some(fclk), Some(fdata), Some(t0), Some(t)) => Some(FitCase::Counts {
+                        counts: Counts {
+                            tr: t.column(0).to_vec(),
+                            failures: t.column(1).to_vec(),
+                            duration: t.column(2).to_vec(),
+                        },
+                        lines: t.lines,
+                        fclk,
+                        fdata,
+                        t0,
+                    }),
+                    _ => None,
+                }
+            }
+            Some("delay") => {
+                let tcq = r.optional(&TCQ, Time::positive);
+                let t = table(
+                    &mut r,
+                    &[
+                        col("offset", Dim::Time, false),
+                        col("delay", Dim::Time, true),
+                    ],
+                );
+                t.map(|t| FitCase::Delay {
+                    offset: t.column(0).to_vec(),
+                    delay: t.column(1).to_vec(),
+                    lines: t.lines,
+                    tcq,
+                })
+            }
+            Some("comparator") => {
+                let t = table(
+                    &mut r,
+                    &[positive("vin", Dim::Voltage), col("time", Dim::Time, true)],
+                );
+                t.map(|t| FitCase::Comparator {
+                    vin: t.column(0).to_vec(),
+                    time: t.column(1).to_vec(),
+                    lines: t.lines,
+                })
+            }
+            None => {
+                r.push(ParamError::new(KIND.name, ParamErrorKind::Missing));
+                None
+            }
+            Some(other) => {
+                r.push(ParamError::new(
+                    KIND.name,
+                    ParamErrorKind::UnknownChoice {
+                        text: other.to_string(),
+                        choices: KIND_CHOICES,
+                    },
+                ));
+                None
+            }
+        };
+        match case {
+            Some(c) if !r.has_errors() => Ok(c),
+            _ => Err(r.into_errors()),
+        }
+    }
+
+    /// The experiment's name as the `kind` field spells it.
+    pub fn kind(&self) -> &'static str {
+        match self {
+            FitCase::Counts { .. } => "counts",
+            FitCase::Delay { .. } => "delay",
+            FitCase::Comparator { .. } => "comparator",
+        }
+    }
+}

@@ -1,0 +1,106 @@
+//! Characterisation: tau and the metastability window extracted from the engineer's own
+//! data, with honest intervals, ready to carry into the calculators.
+//!
+//! `fields` names the inputs, `input` reads the experiment and its table, `counts`,
+//! `delay` and `decision` fit the three experiments (`line` is their least squares), and
+//! `report` gives the estimates, readouts, links and plots.
+
+pub mod counts;
+pub mod decision;
+pub mod delay;
+pub mod fields;
+pub mod input;
+pub mod line;
+pub mod report;
+
+use crate::calculator::{Calculator, Outcome};
+use crate::chart::Plot;
+use crate::error::{ParamError, ParamErrorKind, ParamErrors};
+use crate::params::{FieldSpec, RawInputs};
+
+pub use fields::FIELDS;
+pub use input::FitCase;
+pub use report::{evaluate, Fit, FitReport, Fitted};
+
+/// The fitting calculator (`latchwise fit`, `characterize.html`).
+pub struct FitCalculator;
+
+/// Runs the fit a case asks for.
+///
+/// # Errors
+/// An `Unfittable` error on the `data` field, saying why the data cannot give the fit.
+pub fn fit(case: FitCase) -> Result<Fitted, ParamError> {
+    let fit = match &case {
+        FitCase::Counts {
+            counts,
+            fclk,
+            fdata,
+            ..
+        } => counts::fit(counts, fclk.get(), fdata.get())
+            .map(Fit::Counts)
+            .map_err(|p| p.message()),
+        FitCase::Delay {
+            offset, delay, tcq, ..
+        } => delay::fit(offset, delay, tcq.map(|t| t.get())).map(Fit::Delay),
+        FitCase::Comparator { vin, time, .. } => decision::fit(vin, time).map(Fit::Comparator),
+    };
+    match fit {
+        Ok(fit) => Ok(Fitted { case, fit }),
+        Err(why) => Err(ParamError::new(
+            fields::DATA.name,
+            ParamErrorKind::Unfittable(why),
+        )),
+    }
+}
+
+impl Calculator for FitCalculator {
+    const NAME: &'static str = "fit";
+    const TITLE: &'static str = "Characterise: tau and the window from data";
+    const SUMMARY: &'static str = "tau and the window from counts, delay or comparator sweeps";
+    const PAGE: &'static str = "characterize.html";
+    const FIELDS: &'static [FieldSpec] = FIELDS;
+    const OPERANDS: &'static [&'static str] = &["kind", "data"];
+    const HELP: &'static str = "\
+Usage: latchwise fit counts FILE --fclk F --fdata F [--window tw|t0]
+       latchwise fit delay FILE [--tcq T]
+       latchwise fit comparator FILE
+       (FILE is a CSV with a header row; - reads standard input)
+
+Experiments:
+  counts      columns tr, failures, duration: failures counted at several resolution
+              times; Poisson maximum likelihood of mu = duration fclk fdata w exp(-tr/tau),
+              zero counts used as they are, 95 % profile-likelihood intervals, deviance
+              and its p-value. --window t0 when tr counts from the clock edge.
+  delay       columns offset, delay: a simulated sweep of data-to-clock offset against
+              clock-to-output delay; fits tau, tw and the balance offset over the
+              regenerative region and says which points it left out and why.
+  comparator  columns vin, time: decision time against input; least squares of
+              time = tau ln(v0/vin), v0 = vmin/gain, with Student-t intervals.
+
+Cells take engineering notation with units (1.2ns, 40 mV); # lines are comments; comma,
+semicolon or tab separated. Every problem is reported with its line and column.
+
+Example:
+  latchwise fit counts lab-counts.csv --fclk 1GHz --fdata 100MHz
+";
+
+    type Case = Fitted;
+    type Report = FitReport;
+
+    fn read(raw: &RawInputs) -> Result<Fitted, ParamErrors> {
+        let case = FitCase::from_inputs(raw)?;
+        fit(case).map_err(|e| ParamErrors(vec![e]))
+    }
+
+    fn evaluate(case: &Fitted) -> FitReport {
+        report::evaluate(case)
+    }
+
+    fn outcome(report: &FitReport) -> Outcome {
+        report.outcome()
+    }
+
+    fn plots(case: &Fitted) -> Vec<Plot> {
+        report::plots(case)
+    }
+}

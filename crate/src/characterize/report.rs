@@ -1,0 +1,695 @@
+//! The fit's report: estimates with intervals, goodness of fit, how each row was used,
+//! readouts, links into the calculators, and plots on the scales where the law is a line.
+
+use serde::Serialize;
+
+use crate::calculator::Outcome;
+use crate::chart::series::{lin_space, log_space, Curve, Plot, Spacing};
+use crate::params::serialize_pairs;
+use crate::readout::Readout;
+use crate::reliability::CAUTION;
+use crate::units::{format_number, format_si, format_sig};
+
+use super::counts::{self, CountsFit};
+use super::decision::DecisionFit;
+use super::delay::{DelayFit, Use};
+use super::input::FitCase;
+
+/// A case with its fit done.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Fitted {
+    /// The data and settings.
+    pub case: FitCase,
+    /// The fit.
+    pub fit: Fit,
+}
+
+/// The fit of one experiment.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Fit {
+    /// Failure counts.
+    Counts(CountsFit),
+    /// A delay sweep.
+    Delay(DelayFit),
+    /// A comparator sweep.
+    Comparator(DecisionFit),
+}
+
+/// One row of a counting experiment at the fit.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct CountRow {
+    /// Its line in the data.
+    pub line: usize,
+    /// Resolution time, s.
+    pub tr_s: f64,
+    /// Failures counted.
+    pub failures: f64,
+    /// Failures the fit expects.
+    pub expected: f64,
+    /// Deviance residual.
+    pub residual: f64,
+}
+
+/// One point of a delay sweep and how it was used.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct DelayPoint {
+    /// Its line in the data.
+    pub line: usize,
+    /// Data-to-clock offset, s.
+    pub offset_s: f64,
+    /// Clock-to-output delay, s.
+    pub delay_s: f64,
+    /// Whether the fit used it.
+    pub used: bool,
+    /// Why, in words.
+    pub reason: &'static str,
+}
+
+/// Everything a fit yields.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct FitReport {
+    /// The experiment: counts, delay or comparator.
+    pub kind: &'static str,
+    /// Normalised inputs (the data as its row count).
+    #[serde(serialize_with = "serialize_pairs")]
+    pub inputs: Vec<(&'static str, String)>,
+    /// tau, s.
+    pub tau_s: f64,
+    /// Low end of tau's 95 % interval, s (null: unbounded, see `not_applicable`).
+    pub tau_s_ci_low: Option<f64>,
+    /// High end of tau's 95 % interval, s (null: unbounded, see `not_applicable`).
+    pub tau_s_ci_high: Option<f64>,
+    /// The window tw, s (counts with tr beyond tcq, and delay sweeps).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub tw_s: Option<f64>,
+    /// Low end of tw's 95 % interval, s.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub tw_s_ci_low: Option<Option<f64>>,
+    /// High end of tw's 95 % interval, s.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub tw_s_ci_high: Option<Option<f64>>,
+    /// The window t0, s (counts with tr from the clock edge).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub t0_s: Option<f64>,
+    /// Low end of t0's 95 % interval, s.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub t0_s_ci_low: Option<Option<f64>>,
+    /// High end of t0's 95 % interval, s.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub t0_s_ci_high: Option<Option<f64>>,
+    /// Deviance against the saturated model (counts).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub deviance: Option<f64>,
+    /// Its degrees of freedom (counts).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub deviance_df: Option<usize>,
+    /// Goodness-of-fit p-value (counts; null with no degrees of freedom).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub p_value: Option<Option<f64>>,
+    /// Each row at the fit (counts).
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub rows: Vec<CountRow>,
+    /// The balance offset, s (delay).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub offset_m_s: Option<f64>,
+    /// The nominal delay used, s (delay).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub tcq_s: Option<f64>,
+    /// Where tcq came from: given, or the points far from the balance point (delay).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub tcq_source: Option<&'static str>,
+    /// How many points the fit used (delay).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub points_used: Option<usize>,
+    /// Every point and how it was used (delay).
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub points: Vec<DelayPoint>,
+    /// v0 = vmin / gain, V (comparator).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub v0_v: Option<f64>,
+    /// Low end of v0's 95 % interval, V.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub v0_v_ci_low: Option<f64>,
+    /// High end of v0's 95 % interval, V.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub v0_v_ci_high: Option<f64>,
+    /// Residual spread of the decision times, s (comparator).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub residual_spread_s: Option<f64>,
+    /// For each result that is null: why.
+    #[serde(serialize_with = "serialize_pairs")]
+    pub not_applicable: Vec<(&'static str, String)>,
+    /// What to watch.
+    pub warnings: Vec<String>,
+    /// The standing caution.
+    pub caution: &'static str,
+}
+
+fn lines(case: &FitCase) -> &[usize] {
+    match case {
+        FitCase::Counts { lines, .. }
+        | FitCase::Delay { lines, .. }
+        | FitCase::Comparator { lines, .. } => lines,
+    }
+}
+
+/// The inputs as understood.
+fn echo(case: &FitCase) -> Vec<(&'static str, String)> {
+    let mut v = vec![
+        ("kind", case.kind().to_string()),
+        ("data", format!("{} rows", lines(case).len())),
+    ];
+    match case {
+        FitCase::Counts {
+            fclk, fdata, t0, ..
+        } => {
+            v.push(("fclk", fclk.display()));
+            v.push(("fdata", fdata.display()));
+            v.push(("window", if *t0 { "t0" } else { "tw" }.to_string()));
+        }
+        FitCase::Delay { tcq: Some(t), .. } => v.push(("tcq", t.display())),
+        _ => {}
+    }
+    v
+}
+
+/// Evaluates a fitted case into its report.
+pub fn evaluate(f: &Fitted) -> FitReport {
+    let mut r = FitReport {
+        kind: f.case.kind(),
+        inputs: echo(&f.case),
+        tau_s: 0.0,
+        tau_s_ci_low: None,
+        tau_s_ci_high: None,
+        tw_s: None,
+        tw_s_ci_low: None,
+        tw_s_ci_high: None,
+        t0_s: None,
+        t0_s_ci_low: None,
+        t0_s_ci_high: None,
+        deviance: None,
+        deviance_df: None,
+        p_value: None,
+        rows: Vec::new(),
+        offset_m_s: None,
+        tcq_s: None,
+        tcq_source: None,
+        points_used: None,
+        points: Vec::new(),
+        v0_v: None,
+        v0_v_ci_low: None,
+        v0_v_ci_high: None,
+        residual_spread_s: None,
+        not_applicable: Vec::new(),
+        warnings: Vec::new(),
+        caution: CAUTION,
+    };
+    let unbounded = "the likelihood does not fall far enough on this side: the data leave it open";
+    match (&f.case, &f.fit) {
+        (
+            FitCase::Counts {
+                counts: d,
+                lines,
+                t0,
+                ..
+            },
+            Fit::Counts(fit),
+        ) => {
+            r.tau_s = fit.tau;
+            (r.tau_s_ci_low, r.tau_s_ci_high) = fit.tau_ci;
+            for (key, v) in [
+                ("tau_s_ci_low", fit.tau_ci.0),
+                ("tau_s_ci_high", fit.tau_ci.1),
+            ] {
+                if v.is_none() {
+                    r.not_applicable.push((key, unbounded.to_string()));
+                }
+            }
+            let (w, lo, hi) = (
+                Some(fit.window),
+                Some(fit.window_ci.0),
+                Some(fit.window_ci.1),
+            );
+            let keys = if *t0 {
+                (r.t0_s, r.t0_s_ci_low, r.t0_s_ci_high) = (w, lo, hi);
+                ["t0_s_ci_low", "t0_s_ci_high"]
+            } else {
+                (r.tw_s, r.tw_s_ci_low, r.tw_s_ci_high) = (w, lo, hi);
+                ["tw_s_ci_low", "tw_s_ci_high"]
+            };
+            for (key, v) in keys.into_iter().zip([fit.window_ci.0, fit.window_ci.1]) {
+                if v.is_none() {
+                    r.not_applicable.push((key, unbounded.to_string()));
+                }
+            }
+            r.deviance = Some(fit.deviance);
+            r.deviance_df = Some(fit.df);
+            r.p_value = Some(fit.p_value);
+            if fit.p_value.is_none() {
+                r.not_applicable.push((
+                    "p_value",
+                    "two rows: no degrees of freedom left to test the fit".to_string(),
+                ));
+            }
+            if fit.p_value.is_some_and(|p| p < 0.01) {
+                r.warnings.push(format!(
+                    "The counts scatter more than Poisson counts would (p = {}): look for \
+                     drift between rows or a second failure mechanism before trusting the \
+                     intervals.",
+                    format_sig(fit.p_value.unwrap_or(0.0), 2)
+                ));
+            }
+            r.rows = lines
+                .iter()
+                .enumerate()
+                .map(|(i, line)| CountRow {
+                    line: *line,
+                    tr_s: d.tr[i],
+                    failures: d.failures[i],
+                    expected: fit.expected[i],
+                    residual: fit.residuals[i],
+                })
+                .collect();
+        }
+        (
+            FitCase::Delay {
+                offset,
+                delay,
+                lines,
+                ..
+            },
+            Fit::Delay(fit),
+        ) => {
+            r.tau_s = fit.tau;
+            (r.tau_s_ci_low, r.tau_s_ci_high) = (Some(fit.tau_ci.0), Some(fit.tau_ci.1));
+            r.tw_s = Some(fit.tw);
+            r.tw_s_ci_low = Some(Some(fit.tw_ci.0));
+            r.tw_s_ci_high = Some(Some(fit.tw_ci.1));
+            r.offset_m_s = Some(fit.offset_m);
+            r.tcq_s = Some(fit.tcq);
+            r.tcq_source = Some(if fit.tcq_given {
+                "given"
+            } else {
+                "the delay far from the balance point"
+            });
+            r.points_used = Some(fit.uses.iter().filter(|u| **u == Use::Used).count());
+            r.points = lines
+                .iter()
+                .enumerate()
+                .map(|(i, line)| DelayPoint {
+                    line: *line,
+                    offset_s: offset[i],
+                    delay_s: delay[i],
+                    used: fit.uses[i] == Use::Used,
+                    reason: fit.uses[i].reason(),
+                })
+                .collect();
+            if !fit.tcq_given {
+                r.warnings.push(format!(
+                    "tcq not given: taken as {}, the median delay of the points farthest from \
+                     the balance point.",
+                    format_si(fit.tcq, "s")
+                ));
+            }
+        }
+        (FitCase::Comparator { .. }, Fit::Comparator(fit)) => {
+            r.tau_s = fit.tau;
+            (r.tau_s_ci_low, r.tau_s_ci_high) = (Some(fit.tau_ci.0), Some(fit.tau_ci.1));
+            r.v0_v = Some(fit.v0);
+            (r.v0_v_ci_low, r.v0_v_ci_high) = (Some(fit.v0_ci.0), Some(fit.v0_ci.1));
+            r.residual_spread_s = Some(fit.spread);
+        }
+        _ => {}
+    }
+    r
+}
+
+impl FitReport {
+    /// The results as readouts; keys equal the JSON keys.
+    pub fn readouts(&self) -> Vec<Readout> {
+        let na = &self.not_applicable;
+        let s = |v: f64| format_si(v, "s");
+        let mut v = vec![Readout::new(
+            "tau_s",
+            "tau",
+            s(self.tau_s),
+            Some(self.tau_s),
+        )];
+        v.push(Readout::maybe(
+            "tau_s_ci_low",
+            "tau, 95 % interval from",
+            self.tau_s_ci_low,
+            s,
+            na,
+        ));
+        v.push(Readout::maybe(
+            "tau_s_ci_high",
+            "tau, 95 % interval to",
+            self.tau_s_ci_high,
+            s,
+            na,
+        ));
+        for (name, lo, hi, label, lo_label, hi_label, value, low, high) in [
+            (
+                "tw_s",
+                "tw_s_ci_low",
+                "tw_s_ci_high",
+                "window tw",
+                "tw, 95 % interval from",
+                "tw, 95 % interval to",
+                self.tw_s,
+                self.tw_s_ci_low,
+                self.tw_s_ci_high,
+            ),
+            (
+                "t0_s",
+                "t0_s_ci_low",
+                "t0_s_ci_high",
+                "window t0",
+                "t0, 95 % interval from",
+                "t0, 95 % interval to",
+                self.t0_s,
+                self.t0_s_ci_low,
+                self.t0_s_ci_high,
+            ),
+        ] {
+            if let Some(w) = value {
+                v.push(Readout::new(name, label, s(w), Some(w)));
+                v.push(Readout::maybe(lo, lo_label, low.flatten(), s, na));
+                v.push(Readout::maybe(hi, hi_label, high.flatten(), s, na));
+            }
+        }
+        if let (Some(d), Some(df)) = (self.deviance, self.deviance_df) {
+            v.push(Readout::new(
+                "deviance",
+                "deviance",
+                format!("{d:.3}"),
+                Some(d),
+            ));
+            v.push(Readout::new(
+                "deviance_df",
+                "degrees of freedom",
+                df.to_string(),
+                Some(df as f64),
+            ));
+        }
+        if let Some(p) = self.p_value {
+            v.push(Readout::maybe(
+                "p_value",
+                "goodness of fit, p-value",
+                p,
+                format_number,
+                na,
+            ));
+        }
+        if let Some(m) = self.offset_m_s {
+            v.push(Readout::new("offset_m_s", "balance offset", s(m), Some(m)));
+        }
+        if let Some(t) = self.tcq_s {
+            v.push(Readout::new("tcq_s", "tcq used", s(t), Some(t)));
+        }
+        if let Some(n) = self.points_used {
+            v.push(Readout::new(
+                "points_used",
+                "points used",
+                format!("{n} of {}", self.points.len()),
+                Some(n as f64),
+            ));
+        }
+        if let Some(x) = self.v0_v {
+            let volts = |x: f64| format_si(x, "V");
+            v.push(Readout::new("v0_v", "v0 = vmin / gain", volts(x), Some(x)));
+            v.push(Readout::maybe(
+                "v0_v_ci_low",
+                "v0, 95 % interval from",
+                self.v0_v_ci_low,
+                volts,
+                na,
+            ));
+            v.push(Readout::maybe(
+                "v0_v_ci_high",
+                "v0, 95 % interval to",
+                self.v0_v_ci_high,
+                volts,
+                na,
+            ));
+        }
+        if let Some(x) = self.residual_spread_s {
+            v.push(Readout::new(
+                "residual_spread_s",
+                "residual spread",
+                s(x),
+                Some(x),
+            ));
+        }
+        v
+    }
+
+    /// Links that open a calculator with the fitted values: the estimate, and the
+    /// pessimistic end of each interval (the larger tau and window).
+    fn links(&self) -> Vec<(String, String)> {
+        let e = |x: f64| format!("{x:.4e}");
+        let pessimistic_tau = self.tau_s_ci_high.unwrap_or(self.tau_s);
+        match self.kind {
+            "comparator" => {
+                let (Some(v0), hi) = (self.v0_v, self.v0_v_ci_high) else {
+                    return Vec::new();
+                };
+                vec![
+                    (
+                        "Open the comparator with these estimates".into(),
+                        format!(
+                            "comparator.html?tau={}&vmin={}&gain=1",
+                            e(self.tau_s),
+                            e(v0)
+                        ),
+                    ),
+                    (
+                        "Open the comparator with the pessimistic ends".into(),
+                        format!(
+                            "comparator.html?tau={}&vmin={}&gain=1",
+                            e(pessimistic_tau),
+                            e(hi.unwrap_or(v0))
+                        ),
+                    ),
+                ]
+            }
+            _ => {
+                let (key, w, hi) = match (self.tw_s, self.t0_s) {
+                    (Some(w), _) => ("tw", w, self.tw_s_ci_high.flatten()),
+                    (None, Some(w)) => ("t0", w, self.t0_s_ci_high.flatten()),
+                    _ => return Vec::new(),
+                };
+                vec![
+                    (
+                        "Open the synchronizer with these estimates".into(),
+                        format!("index.html?tau={}&{key}={}", e(self.tau_s), e(w)),
+                    ),
+                    (
+                        "Open the synchronizer with the pessimistic ends".into(),
+                        format!(
+                            "index.html?tau={}&{key}={}",
+                            e(pessimistic_tau),
+                            e(hi.unwrap_or(w))
+                        ),
+                    ),
+                ]
+            }
+        }
+    }
+
+    /// What a person reads of the report.
+    pub fn outcome(&self) -> Outcome {
+        let mut facts = vec![match self.kind {
+            "counts" => "Poisson maximum likelihood; 95 % intervals from the profile \
+                         likelihood; rows with no failures are used as they are."
+                .to_string(),
+            "delay" => "Least squares of the extra delay against ln |offset - balance offset| \
+                        over the regenerative region; 95 % Student-t intervals with the balance \
+                        offset held at its fit."
+                .to_string(),
+            _ => "Least squares of the decision time against ln vin; 95 % Student-t intervals."
+                .to_string(),
+        }];
+        if self.kind == "delay" {
+            let left: Vec<String> = self
+                .points
+                .iter()
+                .filter(|p| !p.used)
+                .map(|p| {
+                    format!(
+                        "line {} ({})",
+                        p.line,
+                        p.reason.trim_start_matches("left out: ")
+                    )
+                })
+                .collect();
+            if !left.is_empty() {
+                facts.push(format!("Left out: {}.", left.join("; ")));
+            }
+        }
+        Outcome {
+            inputs: self.inputs.clone(),
+            readouts: self.readouts(),
+            facts,
+            warnings: self.warnings.clone(),
+            unused: Vec::new(),
+            target_missed: false,
+            links: self.links(),
+        }
+    }
+}
+
+fn points(label: &str, pts: Vec<(f64, f64)>) -> Curve {
+    Curve {
+        label: label.to_string(),
+        points: pts,
+        points_only: true,
+    }
+}
+
+fn line(label: &str, pts: Vec<(f64, f64)>) -> Curve {
+    Curve {
+        label: label.to_string(),
+        points: pts,
+        points_only: false,
+    }
+}
+
+/// The plots: the data and the fit on the scales where the law is a straight line, and
+/// the residuals.
+pub fn plots(f: &Fitted) -> Vec<Plot> {
+    match (&f.case, &f.fit) {
+        (
+            FitCase::Counts {
+                counts: d,
+                fclk,
+                fdata,
+                ..
+            },
+            Fit::Counts(fit),
+        ) => {
+            let fclk = fclk.get();
+            let measured: Vec<(f64, f64)> = (0..d.tr.len())
+                .filter(|&i| d.failures[i] > 0.0)
+                .map(|i| {
+                    (
+                        d.tr[i],
+                        (d.failures[i] / (d.duration[i] * fdata.get())).log10(),
+                    )
+                })
+                .collect();
+            let (lo, hi) =
+                d.tr.iter()
+                    .fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), t| {
+                        (a.min(*t), b.max(*t))
+                    });
+            let fitted: Vec<(f64, f64)> = lin_space(hi - lo, 100)
+                .map(|x| lo + x)
+                .map(|t| (t, counts::log10_per_edge(fit, fclk, t)))
+                .collect();
+            let mut p = Plot::new(
+                "plot-fit",
+                "Failures per data edge against resolution time (rows with none are off the log axis)",
+                ("tr (s)", "s", Spacing::Linear),
+            )
+            .y("log10_failures_per_edge", "failures per data edge");
+            p.curves = vec![points("measured", measured), line("fit", fitted)];
+            let mut res = Plot::new(
+                "plot-residuals",
+                "Deviance residuals against resolution time",
+                ("tr (s)", "s", Spacing::Linear),
+            )
+            .y("residual", "deviance residual")
+            .linear_y("");
+            res.curves = vec![points(
+                "",
+                d.tr.iter()
+                    .copied()
+                    .zip(fit.residuals.iter().copied())
+                    .collect(),
+            )];
+            vec![p, res]
+        }
+        (FitCase::Delay { offset, delay, .. }, Fit::Delay(fit)) => {
+            let dist = |o: f64| (o - fit.offset_m).abs();
+            let split = |used: bool| -> Vec<(f64, f64)> {
+                (0..offset.len())
+                    .filter(|&i| (fit.uses[i] == Use::Used) == used && dist(offset[i]) > 0.0)
+                    .map(|i| (dist(offset[i]), delay[i] - fit.tcq))
+                    .collect()
+            };
+            let used = split(true);
+            let (lo, hi) = used.iter().fold((f64::INFINITY, 0.0f64), |(a, b), p| {
+                (a.min(p.0), b.max(p.0))
+            });
+            let fitted = log_space(lo.max(f64::MIN_POSITIVE), hi.max(lo * 1.01), 60)
+                .map(|x| (x, fit.line.intercept + fit.line.slope * x.ln()))
+                .collect();
+            let mut p = Plot::new(
+                "plot-fit",
+                "Extra delay against distance from the balance point",
+                ("distance (s)", "s", Spacing::Log),
+            )
+            .y("extra_delay_s", "extra delay")
+            .linear_y("s");
+            p.curves = vec![
+                points("used", used.clone()),
+                points("left out", split(false)),
+                line("fit", fitted),
+            ];
+            let mut res = Plot::new(
+                "plot-residuals",
+                "Residuals of the used points",
+                ("distance (s)", "s", Spacing::Log),
+            )
+            .y("residual_s", "residual")
+            .linear_y("s");
+            res.curves = vec![points(
+                "",
+                used.iter()
+                    .map(|&(x, y)| (x, y - fit.line.intercept - fit.line.slope * x.ln()))
+                    .collect(),
+            )];
+            vec![p, res]
+        }
+        (FitCase::Comparator { vin, time, .. }, Fit::Comparator(fit)) => {
+            let (lo, hi) = vin
+                .iter()
+                .fold((f64::INFINITY, 0.0f64), |(a, b), v| (a.min(*v), b.max(*v)));
+            let fitted = log_space(lo, hi.max(lo * 1.01), 60)
+                .map(|v| (v, fit.line.intercept + fit.line.slope * v.ln()))
+                .collect();
+            let mut p = Plot::new(
+                "plot-fit",
+                "Decision time against input",
+                ("vin (V)", "V", Spacing::Log),
+            )
+            .y("time_s", "decision time")
+            .linear_y("s");
+            p.curves = vec![
+                points(
+                    "measured",
+                    vin.iter().copied().zip(time.iter().copied()).collect(),
+                ),
+                line("fit", fitted),
+            ];
+            let mut res = Plot::new(
+                "plot-residuals",
+                "Residuals",
+                ("vin (V)", "V", Spacing::Log),
+            )
+            .y("residual_s", "residual")
+            .linear_y("s");
+            res.curves = vec![points(
+                "",
+                vin.iter()
+                    .zip(time)
+                    .map(|(v, t)| (*v, t - fit.line.intercept - fit.line.slope * v.ln()))
+                    .collect(),
+            )];
+            vec![p, res]
+        }
+        _ => Vec::new(),
+    }
+}

@@ -1,0 +1,397 @@
+//! Fits: the three experiments against an independent mpmath computation, interval
+//! coverage on synthetic data from known parameters, the zero-count rows that must be
+//! kept, every bad file, and the command line.
+
+use std::process::{Command, Stdio};
+
+use latchwise::calculator::Calculator;
+use latchwise::characterize::FitCalculator;
+use latchwise::numeric::random::Random;
+use latchwise::numeric::special::{chi2_sf, t_quantile};
+use latchwise::params::RawInputs;
+use serde_json::Value;
+
+use crate::tolerance::{assert_rel, table_rows, FIT_REL, SAMPLE_SIGMAS};
+
+fn file(name: &str) -> String {
+    let root = env!("CARGO_MANIFEST_DIR");
+    std::fs::read_to_string(format!("{root}/examples/{name}"))
+        .or_else(|_| std::fs::read_to_string(format!("{root}/tests/fixtures/{name}")))
+        .unwrap()
+}
+
+/// The report of a fit of `data` with the settings `pairs`.
+fn fit(kind: &str, data: &str, pairs: &[(&str, &str)]) -> Result<Value, String> {
+    let mut all = vec![
+        ("kind".to_string(), kind.to_string()),
+        ("data".into(), data.into()),
+    ];
+    all.extend(pairs.iter().map(|(k, v)| (k.to_string(), v.to_string())));
+    FitCalculator::read(&RawInputs::from_pairs(all))
+        .map(|c| serde_json::to_value(FitCalculator::evaluate(&c)).unwrap())
+        .map_err(|e| e.to_string())
+}
+
+fn settings(s: &str) -> Vec<(&str, &str)> {
+    s.split('&')
+        .filter(|p| !p.is_empty())
+        .filter_map(|p| p.split_once('='))
+        .collect()
+}
+
+#[test]
+fn fits_match_mpmath() {
+    // tests/fixtures/fits_reference.csv: mpmath at 50 digits (scripts/gen_reference.py),
+    // an independent Poisson maximum likelihood, profile-likelihood search and least squares.
+    let text = include_str!("fixtures/fits_reference.csv");
+    let rows = table_rows(text);
+    assert!(rows.len() >= 20);
+    for line in rows {
+        let c: Vec<&str> = line.split(';').collect();
+        let (name, kind, src, set, key, want) =
+            (c[0], c[1], c[2], c[3], c[4], c[5].parse::<f64>().unwrap());
+        match kind {
+            "special" if key == "t_0.975" => {
+                let df: f64 = name.trim_start_matches("t-quantile-df").parse().unwrap();
+                assert_rel(name, t_quantile(0.975, df), want, FIT_REL);
+            }
+            "special" => {
+                let parts: Vec<&str> = name.trim_start_matches("chi2-sf-").split('-').collect();
+                let got = chi2_sf(parts[0].parse().unwrap(), parts[1].parse().unwrap());
+                assert_rel(name, got, want, FIT_REL);
+            }
+            _ if src == "-" => {
+                // The zero-count rows dropped: the mistake, computed to show its size.
+                let kept: String = file("counts_with_zero_rows.csv")
+                    .lines()
+                    .filter(|l| !l.contains(",0,"))
+                    .map(|l| format!("{l}\n"))
+                    .collect();
+                let dropped =
+                    fit("counts", &kept, &[("fclk", "1GHz"), ("fdata", "100MHz")]).unwrap();
+                assert_rel(name, dropped[key].as_f64().unwrap(), want, FIT_REL);
+            }
+            _ => {
+                let v =
+                    fit(kind, &file(src), &settings(set)).unwrap_or_else(|e| panic!("{name}: {e}"));
+                let got = v[key]
+                    .as_f64()
+                    .unwrap_or_else(|| panic!("{name}: no {key}"));
+                assert_rel(&format!("{name} {key}"), got, want, FIT_REL);
+            }
+        }
+    }
+}
+
+#[test]
+fn zero_count_rows_are_kept_and_matter() {
+    let set = [("fclk", "1GHz"), ("fdata", "100MHz")];
+    let all = fit("counts", &file("counts_with_zero_rows.csv"), &set).unwrap();
+    let kept: String = file("counts_with_zero_rows.csv")
+        .lines()
+        .filter(|l| !l.contains(",0,"))
+        .map(|l| format!("{l}\n"))
+        .collect();
+    let dropped = fit("counts", &kept, &set).unwrap();
+    let (a, b) = (
+        all["tau_s"].as_f64().unwrap(),
+        dropped["tau_s"].as_f64().unwrap(),
+    );
+    assert!(
+        b / a > 1.05,
+        "dropping the zero rows moves tau from {a:e} to {b:e}"
+    );
+    // Every row is in the report, the zero ones with their expected counts.
+    assert_eq!(all["rows"].as_array().unwrap().len(), 13);
+    assert!(
+        all["rows"][12]["failures"].as_f64() == Some(0.0)
+            && all["rows"][12]["expected"].as_f64().unwrap() > 0.0
+    );
+}
+
+/// Synthetic counts from tau, tw at the demo's resolution times and durations.
+fn synthetic_counts(r: &mut Random, tau: f64, tw: f64) -> String {
+    let mut s = String::from("tr,failures,duration\n");
+    for (tr, d) in [
+        (100e-12, 1.0),
+        (140e-12, 1.0),
+        (180e-12, 2.0),
+        (220e-12, 10.0),
+        (260e-12, 30.0),
+        (300e-12, 100.0),
+    ] {
+        let mu = d * 1e9 * 50e6 * tw * (-tr / tau).exp();
+        s.push_str(&format!("{tr:e},{},{d}\n", r.poisson(mu)));
+    }
+    s
+}
+
+/// Asserts that `hits` of `n` 95 % intervals is a plausible coverage.
+fn check_coverage(what: &str, hits: usize, n: usize) {
+    let p = hits as f64 / n as f64;
+    let se = (0.95 * 0.05 / n as f64).sqrt();
+    assert!(
+        (p - 0.95).abs() < SAMPLE_SIGMAS * se,
+        "{what}: {hits} of {n} intervals cover the truth"
+    );
+}
+
+#[test]
+fn counts_intervals_cover_the_truth_at_the_nominal_rate() {
+    let (tau, tw, n) = (18e-12, 22e-12, 400);
+    let mut r = Random::new(20261202);
+    let (mut tau_hits, mut tw_hits) = (0, 0);
+    for _ in 0..n {
+        let v = fit(
+            "counts",
+            &synthetic_counts(&mut r, tau, tw),
+            &[("fclk", "1GHz"), ("fdata", "50MHz")],
+        )
+        .unwrap();
+        let within = |k: &str, truth: f64| {
+            let (lo, hi) = (
+                v[format!("{k}_ci_low")].as_f64(),
+                v[format!("{k}_ci_high")].as_f64(),
+            );
+            lo.is_none_or(|l| l <= truth) && hi.is_none_or(|h| truth <= h)
+        };
+        tau_hits += usize::from(within("tau_s", tau));
+        tw_hits += usize::from(within("tw_s", tw));
+    }
+    check_coverage("tau", tau_hits, n);
+    check_coverage("tw", tw_hits, n);
+}
+
+#[test]
+fn comparator_intervals_cover_the_truth_and_recover_it() {
+    let (tau, v0, n) = (14e-12, 0.1, 400);
+    let mut r = Random::new(99);
+    let (mut hits, mut sum) = (0, 0.0);
+    for _ in 0..n {
+        let mut data = String::from("vin,time\n");
+        for e in -6..-1 {
+            for m in [1.0, 3.0] {
+                let vin = m * 10f64.powi(e);
+                let t = tau * (v0 / vin).ln() + 0.4e-12 * r.normal();
+                data.push_str(&format!("{vin:e},{t:e}\n"));
+            }
+        }
+        let v = fit("comparator", &data, &[]).unwrap();
+        let (lo, hi) = (
+            v["tau_s_ci_low"].as_f64().unwrap(),
+            v["tau_s_ci_high"].as_f64().unwrap(),
+        );
+        hits += usize::from(lo <= tau && tau <= hi);
+        sum += v["tau_s"].as_f64().unwrap();
+    }
+    check_coverage("comparator tau", hits, n);
+    // Unbiased: the mean estimate is the truth within its standard error.
+    assert!(
+        (sum / n as f64 / tau - 1.0).abs() < 1e-3,
+        "{}",
+        sum / n as f64
+    );
+}
+
+#[test]
+fn delay_sweep_recovers_its_parameters() {
+    // The demo sweep was drawn from tau 16 ps, tw 30 ps, balance offset 3.2 ps
+    // (scripts/gen_examples.py) with 0.15 ps of noise: the intervals hold the truth.
+    let v = fit("delay", &file("fit-delay.csv"), &[]).unwrap();
+    for (k, truth) in [("tau_s", 16e-12), ("tw_s", 30e-12)] {
+        let (lo, hi) = (
+            v[format!("{k}_ci_low")].as_f64().unwrap(),
+            v[format!("{k}_ci_high")].as_f64().unwrap(),
+        );
+        assert!(lo <= truth && truth <= hi, "{k}: {lo:e} .. {hi:e}");
+    }
+    assert!(
+        (v["offset_m_s"].as_f64().unwrap() - 3.2e-12).abs() < 0.05e-12,
+        "{v}"
+    );
+    let points = v["points"].as_array().unwrap();
+    assert!(points
+        .iter()
+        .any(|p| p["reason"].as_str().unwrap().contains("plateau")));
+    assert!(points
+        .iter()
+        .any(|p| p["reason"].as_str().unwrap().contains("nominal delay")));
+    assert_eq!(v["tcq_source"], "the delay far from the balance point");
+}
+
+#[test]
+fn every_bad_file_gets_its_message() {
+    let set = [("fclk", "1GHz"), ("fdata", "100MHz")];
+    for (data, msg) in [
+        ("", "data: a value is required"),
+        ("# only a comment\n", "line 1: the table is empty"),
+        (
+            "tr,failures\n1ns,3\n",
+            "line 1, column duration: the column is missing",
+        ),
+        (
+            "tr,failures,duration,colour\n1ns,3,1s,red\n",
+            "line 1, column colour: unknown column",
+        ),
+        (
+            "tr,failures,duration\n1ns,-3,1s\n2ns,1,1s\n",
+            "line 2, column failures: '-3' is negative",
+        ),
+        (
+            "tr,failures,duration\n1ns,many,1s\n",
+            "line 2, column failures: 'many' is not a number",
+        ),
+        (
+            "tr,failures,duration\n1ns,2.5,1s\n",
+            "line 2, column failures: '2.5' is not a whole number",
+        ),
+        (
+            "tr,failures,duration\n1ns,3,1s,9\n",
+            "line 2: 4 cells, the header has 3",
+        ),
+        (
+            "tr,failures,duration\n1ns,3,1s\n",
+            "every row has tr = 1 ns",
+        ),
+        (
+            "tr,failures,duration\n1ns,3,1s\n1ns,5,2s\n",
+            "every row has tr = 1 ns",
+        ),
+        (
+            "tr,failures,duration\n1ns,0,1s\n2ns,0,1s\n",
+            "no failures were counted",
+        ),
+        (
+            "tr,failures,duration\n1ns,3,0s\n2ns,1,1s\n",
+            "line 2, column duration: must be above zero",
+        ),
+        (
+            "tr;failures;duration\n1ns;3;1s\n2ns;x;1s\n",
+            "line 3, column failures: 'x' is not a number",
+        ),
+    ] {
+        let e = fit("counts", data, &set).expect_err(data);
+        assert!(e.contains(msg), "{data:?}: {e}");
+    }
+    // Every problem at once, each with its line.
+    let e = fit(
+        "counts",
+        "tr,failures,duration\nfast,1,1s\n2ns,x,1s\n3ns,2,-1s\n",
+        &set,
+    )
+    .unwrap_err();
+    assert!(
+        e.contains("line 2, column tr")
+            && e.contains("line 3, column failures")
+            && e.contains("line 4, column duration"),
+        "{e}"
+    );
+    assert!(fit("comparator", "vin,time\n1mV,10ps\n2mV,8ps\n", &[])
+        .unwrap_err()
+        .contains("at least three"));
+    assert!(fit("delay", "offset,delay\n1ps,50ps\n", &[])
+        .unwrap_err()
+        .contains("at least five"));
+    assert!(fit("weather", "x\n1\n", &[])
+        .unwrap_err()
+        .contains("kind: 'weather' is not one of: counts, delay, comparator"));
+}
+
+fn cli(args: &[&str], stdin: Option<&str>) -> (i32, String, String) {
+    let mut child = Command::new(env!("CARGO_BIN_EXE_latchwise"))
+        .args(args)
+        .stdin(Stdio::piped())
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .unwrap();
+    if let Some(text) = stdin {
+        use std::io::Write;
+        child
+            .stdin
+            .take()
+            .unwrap()
+            .write_all(text.as_bytes())
+            .unwrap();
+    }
+    drop(child.stdin.take());
+    let out = child.wait_with_output().unwrap();
+    (
+        out.status.code().unwrap_or(-1),
+        String::from_utf8_lossy(&out.stdout).into(),
+        String::from_utf8_lossy(&out.stderr).into(),
+    )
+}
+
+#[test]
+fn the_command_reads_files_and_standard_input() {
+    let path = format!("{}/examples/fit-counts.csv", env!("CARGO_MANIFEST_DIR"));
+    let (code, out, err) = cli(
+        &[
+            "fit", "counts", &path, "--fclk", "1GHz", "--fdata", "50MHz", "--json",
+        ],
+        None,
+    );
+    assert_eq!(code, 0, "{err}");
+    let v: Value = serde_json::from_str(&out).unwrap();
+    for k in [
+        "tau_s",
+        "tau_s_ci_low",
+        "tau_s_ci_high",
+        "tw_s",
+        "tw_s_ci_low",
+        "tw_s_ci_high",
+        "deviance",
+        "deviance_df",
+        "p_value",
+        "rows",
+    ] {
+        assert!(v.get(k).is_some(), "{k}");
+    }
+    let (code, out, _) = cli(
+        &[
+            "fit", "counts", &path, "--fclk", "1GHz", "--fdata", "50MHz", "--window", "t0",
+            "--json",
+        ],
+        None,
+    );
+    assert_eq!(code, 0);
+    let t: Value = serde_json::from_str(&out).unwrap();
+    assert!(t.get("t0_s").is_some() && t.get("tw_s").is_none());
+    let (code, out, err) = cli(
+        &["fit", "comparator", "-"],
+        Some(&file("fit-comparator.csv")),
+    );
+    assert_eq!(code, 0, "{err}");
+    assert!(
+        out.contains("v0 = vmin / gain") && out.contains("comparator.html?tau="),
+        "{out}"
+    );
+    let (code, _, err) = cli(
+        &[
+            "fit",
+            "counts",
+            "/nonexistent/x.csv",
+            "--fclk",
+            "1G",
+            "--fdata",
+            "1M",
+        ],
+        None,
+    );
+    assert_eq!(code, 2);
+    assert!(err.contains("cannot read '/nonexistent/x.csv'"), "{err}");
+    let (code, _, err) = cli(
+        &["fit", "counts", "-", "--fclk", "1G", "--fdata", "1M"],
+        Some("tr,failures,duration\n1ns,x,1s\n2ns,1,0s\n"),
+    );
+    assert_eq!(code, 2);
+    assert!(
+        err.contains("latchwise fit: data: line 2, column failures")
+            && err.contains("latchwise fit: data: line 3, column duration"),
+        "{err}"
+    );
+    let (code, out, _) = cli(&["help", "fit"], None);
+    assert_eq!(code, 0);
+    assert!(out.contains("latchwise fit counts FILE") && out.contains("first-order estimates"));
+}
