@@ -22,6 +22,42 @@ pub struct Column {
     pub non_negative: bool,
     /// Whether its values must be above zero.
     pub positive: bool,
+    /// Whether a cell may be left blank (read as absent).
+    pub blank_ok: bool,
+}
+
+impl Column {
+    /// A required column of any sign, no blanks.
+    pub const fn any(name: &'static str, dim: Dim) -> Column {
+        Column {
+            name,
+            dim,
+            required: true,
+            non_negative: false,
+            positive: false,
+            blank_ok: false,
+        }
+    }
+
+    /// The same column, values at least zero.
+    pub const fn non_negative(mut self) -> Column {
+        self.non_negative = true;
+        self
+    }
+
+    /// The same column, values above zero.
+    pub const fn positive(mut self) -> Column {
+        self.non_negative = true;
+        self.positive = true;
+        self
+    }
+
+    /// The same column, not required, and its cells may be blank.
+    pub const fn optional(mut self) -> Column {
+        self.required = false;
+        self.blank_ok = true;
+        self
+    }
 }
 
 /// A problem with one place of a table.
@@ -44,12 +80,14 @@ impl fmt::Display for CellError {
     }
 }
 
-/// A table read in full: for each wanted column its values (`None` where the table has
-/// no such column), and the text line each row came from.
+/// A table read in full: for each wanted column its cells (`None` where the table has no
+/// such column), and the text line each row came from.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Table {
-    /// Values by wanted column, in the order of the `columns` asked for.
-    pub columns: Vec<Option<Vec<f64>>>,
+    /// Number cells by wanted column (a blank cell is `None`).
+    pub numbers: Vec<Option<Vec<Option<f64>>>>,
+    /// Text cells by wanted column (for text columns).
+    pub texts: Vec<Option<Vec<String>>>,
     /// The line of each row.
     pub lines: Vec<usize>,
 }
@@ -65,12 +103,25 @@ impl Table {
         self.lines.is_empty()
     }
 
-    /// The values of wanted column `i` (empty when the table has none).
-    pub fn column(&self, i: usize) -> &[f64] {
-        self.columns
-            .get(i)
-            .and_then(Option::as_deref)
-            .unwrap_or(&[])
+    /// The values of wanted column `i`, blanks left out (empty when the table has none).
+    pub fn column(&self, i: usize) -> Vec<f64> {
+        self.optional(i).into_iter().flatten().collect()
+    }
+
+    /// The cells of wanted column `i`, a blank as `None` (empty when the table has none).
+    pub fn optional(&self, i: usize) -> Vec<Option<f64>> {
+        self.numbers.get(i).cloned().flatten().unwrap_or_default()
+    }
+
+    /// Whether the table has wanted column `i`.
+    pub fn has(&self, i: usize) -> bool {
+        self.numbers.get(i).is_some_and(Option::is_some)
+            || self.texts.get(i).is_some_and(Option::is_some)
+    }
+
+    /// The text cells of wanted column `i` (empty when the table has none).
+    pub fn text(&self, i: usize) -> Vec<String> {
+        self.texts.get(i).cloned().flatten().unwrap_or_default()
     }
 }
 
@@ -106,7 +157,7 @@ fn cells(line: &str, delim: char) -> Vec<String> {
 /// ```
 /// use latchwise::table::{read, Column};
 /// use latchwise::units::Dim;
-/// let cols = [Column { name: "tr", dim: Dim::Time, required: true, non_negative: true, positive: false }];
+/// let cols = [Column::any("tr", Dim::Time).non_negative()];
 /// let t = read("# a comment\ntr\n1ns\n\n2 ns\n", &cols).unwrap();
 /// assert_eq!(t.column(0), &[1e-9, 2e-9]);
 /// assert_eq!(t.lines, vec![3, 5]);
@@ -167,7 +218,16 @@ pub fn read(text: &str, columns: &[Column]) -> Result<Table, Vec<CellError>> {
             });
         }
     }
-    let mut values: Vec<Option<Vec<f64>>> = at.iter().map(|a| a.map(|_| Vec::new())).collect();
+    let mut values: Vec<Option<Vec<Option<f64>>>> = at
+        .iter()
+        .zip(columns)
+        .map(|(a, c)| a.filter(|_| c.dim != Dim::Text).map(|_| Vec::new()))
+        .collect();
+    let mut texts: Vec<Option<Vec<String>>> = at
+        .iter()
+        .zip(columns)
+        .map(|(a, c)| a.filter(|_| c.dim == Dim::Text).map(|_| Vec::new()))
+        .collect();
     let mut rows = Vec::new();
     for (line, text) in lines {
         let row = cells(text, delim);
@@ -183,6 +243,18 @@ pub fn read(text: &str, columns: &[Column]) -> Result<Table, Vec<CellError>> {
         for (k, c) in columns.iter().enumerate() {
             let Some(i) = at[k] else { continue };
             let cell = &row[i];
+            if c.dim == Dim::Text {
+                if let Some(col) = texts[k].as_mut() {
+                    col.push(cell.clone());
+                }
+                continue;
+            }
+            if c.blank_ok && cell.is_empty() {
+                if let Some(col) = values[k].as_mut() {
+                    col.push(None);
+                }
+                continue;
+            }
             let v = match parse(c.name, cell, c.dim) {
                 Ok(v) if c.non_negative && v < 0.0 => Err(format!("'{cell}' is negative")),
                 Ok(v) if c.positive && v <= 0.0 => Err("must be above zero".to_string()),
@@ -198,7 +270,7 @@ pub fn read(text: &str, columns: &[Column]) -> Result<Table, Vec<CellError>> {
             match v {
                 Ok(v) => {
                     if let Some(col) = values[k].as_mut() {
-                        col.push(v);
+                        col.push(Some(v));
                     }
                 }
                 Err(message) => errors.push(CellError {
@@ -218,7 +290,8 @@ pub fn read(text: &str, columns: &[Column]) -> Result<Table, Vec<CellError>> {
     }
     if errors.is_empty() {
         Ok(Table {
-            columns: values,
+            numbers: values,
+            texts,
             lines: rows,
         })
     } else {

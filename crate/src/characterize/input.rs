@@ -51,23 +51,16 @@ pub enum FitCase {
 }
 
 const fn col(name: &'static str, dim: Dim, non_negative: bool) -> Column {
-    Column {
-        name,
-        dim,
-        required: true,
-        non_negative,
-        positive: false,
+    let c = Column::any(name, dim);
+    if non_negative {
+        c.non_negative()
+    } else {
+        c
     }
 }
 
 const fn positive(name: &'static str, dim: Dim) -> Column {
-    Column {
-        name,
-        dim,
-        required: true,
-        non_negative: true,
-        positive: true,
-    }
+    Column::any(name, dim).positive()
 }
 
 /// Reads the table for `columns`, recording its problems on the `data` field.
@@ -128,15 +121,16 @@ impl FitCase {
                     ],
                 );
                 let t = t.and_then(|t| {
-                    let mut problems = Vec::new();
-                    for (i, line) in t.lines.iter().enumerate() {
-                        if t.column(1)[i].fract() != 0.0 {
-                            problems.push(format!(
-                                "line {line}, column failures: '{}' is not a whole number",
-                                t.column(1)[i]
-                            ));
-                        }
-                    }
+                    let failures = t.column(1);
+                    let problems: Vec<String> = t
+                        .lines
+                        .iter()
+                        .zip(&failures)
+                        .filter(|(_, k)| k.fract() != 0.0)
+                        .map(|(line, k)| {
+                            format!("line {line}, column failures: '{k}' is not a whole number")
+                        })
+                        .collect();
                     if problems.is_empty() {
                         Some(t)
                     } else {
@@ -147,9 +141,9 @@ impl FitCase {
                 match (fclk, fdata, t0, t) {
                     (Some(fclk), Some(fdata), Some(t0), Some(t)) => Some(FitCase::Counts {
                         counts: Counts {
-                            tr: t.column(0).to_vec(),
-                            failures: t.column(1).to_vec(),
-                            duration: t.column(2).to_vec(),
+                            tr: t.column(0),
+                            failures: t.column(1),
+                            duration: t.column(2),
                         },
                         lines: t.lines,
                         fclk,
@@ -169,8 +163,8 @@ impl FitCase {
                     ],
                 );
                 t.map(|t| FitCase::Delay {
-                    offset: t.column(0).to_vec(),
-                    delay: t.column(1).to_vec(),
+                    offset: t.column(0),
+                    delay: t.column(1),
                     lines: t.lines,
                     tcq,
                 })
@@ -181,8 +175,8 @@ impl FitCase {
                     &[positive("vin", Dim::Voltage), col("time", Dim::Time, true)],
                 );
                 t.map(|t| FitCase::Comparator {
-                    vin: t.column(0).to_vec(),
-                    time: t.column(1).to_vec(),
+                    vin: t.column(0),
+                    time: t.column(1),
                     lines: t.lines,
                 })
             }
