@@ -70,8 +70,58 @@ def comparator():
     return "\n".join(lines) + "\n"
 
 
+def budget_design():
+    """A made-up chip: three clock domains (a 1.2 GHz core, a 400 MHz fabric, a 125 MHz
+    peripheral block) and the crossings between them."""
+    lines = ["# Demo (invented): the clock-domain crossings of a made-up chip with a 1.2 GHz core,",
+             "# a 400 MHz fabric and a 125 MHz peripheral block. count is instances: a bus",
+             "# synchronized bit by bit counts its width.",
+             "name,fclk,fdata,stages,count,tau"]
+    rows = [
+        ("core_irq_sync", "1.2GHz", "2MHz", 2, 16, ""),
+        ("core_dbg_req", "1.2GHz", "100kHz", 2, 1, ""),
+        ("core_fifo_wptr", "1.2GHz", "200MHz", 2, 1, ""),
+        ("core_fifo_rptr", "400MHz", "300MHz", 2, 1, ""),
+        ("core_cfg_bus", "1.2GHz", "1MHz", 2, 32, ""),
+        ("core_reset_sync", "1.2GHz", "10Hz", 3, 1, ""),
+        ("core_pwr_ack", "1.2GHz", "1kHz", 2, 4, ""),
+        ("fabric_dma_req", "400MHz", "50MHz", 2, 8, ""),
+        ("fabric_dma_ack", "1.2GHz", "50MHz", 2, 8, ""),
+        ("fabric_status", "400MHz", "5MHz", 2, 24, ""),
+        ("fabric_err_flags", "400MHz", "10kHz", 2, 12, ""),
+        ("fabric_tlm_ptr", "400MHz", "60MHz", 2, 1, ""),
+        ("periph_uart_rx", "125MHz", "1MHz", 2, 2, ""),
+        ("periph_gpio_in", "125MHz", "5MHz", 2, 48, ""),
+        ("periph_spi_ack", "400MHz", "10MHz", 2, 4, ""),
+        ("periph_timer_evt", "1.2GHz", "1MHz", 2, 6, ""),
+        ("periph_wdog_kick", "125MHz", "1kHz", 2, 1, ""),
+        ("periph_fifo_wptr", "400MHz", "25MHz", 2, 1, ""),
+        ("periph_fifo_rptr", "125MHz", "25MHz", 2, 1, ""),
+        ("periph_cfg_bus", "125MHz", "100kHz", 2, 16, ""),
+        ("io_pad_sync_fast", "1.2GHz", "300MHz", 3, 8, "11ps"),
+        ("io_pad_sync_slow", "125MHz", "20MHz", 2, 8, ""),
+        ("io_test_mode", "125MHz", "1Hz", 2, 3, ""),
+        ("io_pll_lock", "400MHz", "10Hz", 2, 1, ""),
+    ]
+    for r in rows:
+        lines.append(",".join(str(x) for x in r))
+    return "\n".join(lines) + "\n"
+
+
+def budget_corners():
+    return "\n".join([
+        "# Demo (invented): three corners of the made-up process. At the low supply the",
+        "# cold corner is the slowest to regenerate.",
+        "corner,tau,tw,tsu,tcq",
+        "typical,12ps,20ps,25ps,40ps",
+        "slow_hot,18ps,26ps,35ps,60ps",
+        "low_v_cold,24ps,30ps,40ps,70ps",
+    ]) + "\n"
+
+
 def main():
-    files = {"fit-counts.csv": counts(), "fit-delay.csv": delay(), "fit-comparator.csv": comparator()}
+    files = {"fit-counts.csv": counts(), "fit-delay.csv": delay(), "fit-comparator.csv": comparator(),
+             "budget-design.csv": budget_design(), "budget-corners.csv": budget_corners()}
     if "--check" in sys.argv:
         for name, text in files.items():
             if (OUT / name).read_text() != text:

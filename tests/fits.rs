@@ -395,3 +395,27 @@ fn the_command_reads_files_and_standard_input() {
     assert_eq!(code, 0);
     assert!(out.contains("latchwise fit counts FILE") && out.contains("first-order estimates"));
 }
+
+#[test]
+fn scattered_sweeps_leave_open_ends_open_instead_of_printing_inf() {
+    // Found by fuzzing: three scattered rows once gave a v0 interval from 0 V to inf V and
+    // a negative lower end of tau.
+    let v = fit(
+        "comparator",
+        "vin,time\n1uV,100ps\n10uV,820ps\n100uV,65ps\n",
+        &[],
+    )
+    .unwrap();
+    assert!(
+        v["tau_s_ci_low"].is_null() && v["not_applicable"]["tau_s_ci_low"].is_string(),
+        "{v}"
+    );
+    for k in ["v0_v_ci_low", "v0_v_ci_high"] {
+        assert!(
+            v.get(k).is_none() && v["not_applicable"][k].is_string(),
+            "{k}: {v}"
+        );
+    }
+    let text = serde_json::to_string(&v).unwrap();
+    assert!(!text.contains("inf") && !text.contains("NaN"), "{text}");
+}

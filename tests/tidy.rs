@@ -167,6 +167,9 @@ impl Visit for Vocabulary {
                     (Some(v), Value::Bool(b)) => {
                         assert_eq!(*b, v == 1.0, "{q}: {key} readout against JSON")
                     }
+                    (None, Value::String(s)) => {
+                        assert_eq!(s, &r.text, "{q}: {key}: readout text against JSON")
+                    }
                     (None, Value::Null) => assert!(
                         json["not_applicable"][key].is_string(),
                         "{q}: {key} is null in JSON without a reason"
@@ -192,10 +195,28 @@ impl Visit for Vocabulary {
             }
             labelled.extend(outcome.readouts.iter().map(|r| r.name.to_string()));
             // The command prints the same readouts with the same labels.
+            // A table goes to the command line as a file.
             let args: Vec<String> = RawInputs::from_query(q)
                 .pairs()
                 .iter()
-                .flat_map(|(k, v)| [format!("--{k}"), v.clone()])
+                .enumerate()
+                .flat_map(|(i, (k, v))| {
+                    let text = C::FIELDS
+                        .iter()
+                        .any(|f| f.name == k && f.dim == latchwise::units::Dim::Text);
+                    let value = if text {
+                        let path = std::env::temp_dir().join(format!(
+                            "latchwise-tidy-{}-{}-{i}.csv",
+                            C::NAME,
+                            std::process::id()
+                        ));
+                        std::fs::write(&path, v).unwrap();
+                        path.to_string_lossy().into_owned()
+                    } else {
+                        v.clone()
+                    };
+                    [format!("--{k}"), value]
+                })
                 .collect();
             let out = Command::new(env!("CARGO_BIN_EXE_latchwise"))
                 .arg(C::NAME)

@@ -98,6 +98,9 @@ pub fn parse(
                     if explicit.iter().any(|(k, _)| k == name) {
                         return Err(format!("--{name} given twice"));
                     }
+                    // A text field (a table) is given on the command line as a file.
+                    let is_file = fields.iter().any(|f| f.name == name && f.dim == Dim::Text);
+                    let value = if is_file { read_file(&value)? } else { value };
                     explicit.push((name.to_string(), value));
                 } else {
                     return Err(format!(

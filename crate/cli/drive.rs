@@ -170,7 +170,7 @@ pub fn text_report(title: &str, o: &Outcome) -> String {
     s.push_str("\nResults\n");
     for r in &o.readouts {
         let flag = match (r.name, r.state) {
-            ("meets_target", "bad") => "  <-- MISSED",
+            ("meets_target" | "meets_budget", "bad") => "  <-- MISSED",
             (_, "bad") => "  <--",
             _ => "",
         };

@@ -21,6 +21,7 @@
 #![deny(missing_docs)]
 #![deny(clippy::print_stdout, clippy::print_stderr)]
 
+pub mod budget;
 pub mod calculator;
 pub mod characterize;
 pub mod chart;

@@ -22,7 +22,8 @@ macro_rules! register {
 register!(
     crate::synchronizer::SyncCalculator,
     crate::comparator::ComparatorCalculator,
-    crate::characterize::FitCalculator
+    crate::characterize::FitCalculator,
+    crate::budget::BudgetCalculator
 );
 
 /// The calculator called `name`.

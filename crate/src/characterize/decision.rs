@@ -11,12 +11,13 @@ use super::line::{self, Line};
 pub struct DecisionFit {
     /// tau, s.
     pub tau: f64,
-    /// Its 95 % interval (Student t).
-    pub tau_ci: (f64, f64),
+    /// Its 95 % interval (Student t); an end is `None` where the data do not bound it.
+    pub tau_ci: (Option<f64>, Option<f64>),
     /// v0 = vmin / gain, V.
     pub v0: f64,
-    /// Its 95 % interval (from the interval of ln v0 by the delta method).
-    pub v0_ci: (f64, f64),
+    /// Its 95 % interval (from the interval of ln v0 by the delta method); an end is
+    /// `None` where it is beyond any voltage an f64 holds.
+    pub v0_ci: (Option<f64>, Option<f64>),
     /// Residual spread of the decision times, s.
     pub spread: f64,
     /// The line in ln vin.
@@ -53,11 +54,22 @@ pub fn fit(vin: &[f64], time: &[f64]) -> Result<DecisionFit, String> {
     let (da, db) = (-1.0 / l.slope, l.intercept / (l.slope * l.slope));
     let var = da * da * l.var_intercept + db * db * l.var_slope + 2.0 * da * db * l.cov;
     let se_ln_v0 = var.max(0.0).sqrt();
+    let v0 = ln_v0.exp();
+    if !v0.is_normal() {
+        return Err(
+            "the fitted v0 = vmin/gain is beyond any voltage: the decision times do \
+                    not follow tau ln(v0/vin); check the data"
+                .into(),
+        );
+    }
     Ok(DecisionFit {
         tau,
-        tau_ci: (tau - t * se_tau, tau + t * se_tau),
-        v0: ln_v0.exp(),
-        v0_ci: ((ln_v0 - t * se_ln_v0).exp(), (ln_v0 + t * se_ln_v0).exp()),
+        tau_ci: (line::bound(tau - t * se_tau), line::bound(tau + t * se_tau)),
+        v0,
+        v0_ci: (
+            line::bound((ln_v0 - t * se_ln_v0).exp()),
+            line::bound((ln_v0 + t * se_ln_v0).exp()),
+        ),
         spread: l.spread,
         line: l,
     })

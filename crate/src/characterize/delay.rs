@@ -41,12 +41,13 @@ impl Use {
 pub struct DelayFit {
     /// tau, s.
     pub tau: f64,
-    /// Its 95 % interval (Student t, with the balance offset held at its fit).
-    pub tau_ci: (f64, f64),
+    /// Its 95 % interval (Student t, with the balance offset held at its fit); an end is
+    /// `None` where the data do not bound it.
+    pub tau_ci: (Option<f64>, Option<f64>),
     /// tw, s.
     pub tw: f64,
     /// Its 95 % interval (delta method on ln tw, balance offset held).
-    pub tw_ci: (f64, f64),
+    pub tw_ci: (Option<f64>, Option<f64>),
     /// The balance offset, s.
     pub offset_m: f64,
     /// The nominal clock-to-output delay used, s.
@@ -186,13 +187,21 @@ pub fn fit(offset: &[f64], delay: &[f64], tcq: Option<f64>) -> Result<DelayFit, 
     let var = da * da * l.var_intercept + db * db * l.var_slope + 2.0 * da * db * l.cov;
     let se = var.max(0.0).sqrt();
     let se_tau = l.var_slope.sqrt();
+    let tw = 2.0 * ln_half.exp();
+    if !tw.is_normal() {
+        return Err(
+            "the fitted tw is beyond any time: the delays do not follow \
+                    tau ln(tw / (2 |offset - m|)); check the data"
+                .into(),
+        );
+    }
     Ok(DelayFit {
         tau,
-        tau_ci: (tau - t * se_tau, tau + t * se_tau),
-        tw: 2.0 * ln_half.exp(),
+        tau_ci: (line::bound(tau - t * se_tau), line::bound(tau + t * se_tau)),
+        tw,
         tw_ci: (
-            2.0 * (ln_half - t * se).exp(),
-            2.0 * (ln_half + t * se).exp(),
+            line::bound(2.0 * (ln_half - t * se).exp()),
+            line::bound(2.0 * (ln_half + t * se).exp()),
         ),
         offset_m: m,
         tcq: tcq_value,

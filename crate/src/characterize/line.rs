@@ -24,6 +24,12 @@ pub struct Line {
     pub sse: f64,
 }
 
+/// An interval end that a fit can give only when it is a positive, normal number (a time
+/// constant below zero, or a voltage beyond an f64, is no bound at all).
+pub fn bound(v: f64) -> Option<f64> {
+    Some(v).filter(|v| v.is_normal() && *v > 0.0)
+}
+
 impl Line {
     /// The two-sided 95 % Student-t multiplier for this line's degrees of freedom.
     pub fn t95(&self) -> f64 {

@@ -281,10 +281,21 @@ pub fn evaluate(f: &Fitted) -> FitReport {
             Fit::Delay(fit),
         ) => {
             r.tau_s = fit.tau;
-            (r.tau_s_ci_low, r.tau_s_ci_high) = (Some(fit.tau_ci.0), Some(fit.tau_ci.1));
+            (r.tau_s_ci_low, r.tau_s_ci_high) = fit.tau_ci;
             r.tw_s = Some(fit.tw);
-            r.tw_s_ci_low = Some(Some(fit.tw_ci.0));
-            r.tw_s_ci_high = Some(Some(fit.tw_ci.1));
+            r.tw_s_ci_low = Some(fit.tw_ci.0);
+            r.tw_s_ci_high = Some(fit.tw_ci.1);
+            let open = "the data do not bound it on this side";
+            for (key, v) in [
+                ("tau_s_ci_low", fit.tau_ci.0),
+                ("tau_s_ci_high", fit.tau_ci.1),
+                ("tw_s_ci_low", fit.tw_ci.0),
+                ("tw_s_ci_high", fit.tw_ci.1),
+            ] {
+                if v.is_none() {
+                    r.not_applicable.push((key, open.to_string()));
+                }
+            }
             r.offset_m_s = Some(fit.offset_m);
             r.tcq_s = Some(fit.tcq);
             r.tcq_source = Some(if fit.tcq_given {
@@ -314,9 +325,20 @@ pub fn evaluate(f: &Fitted) -> FitReport {
         }
         (FitCase::Comparator { .. }, Fit::Comparator(fit)) => {
             r.tau_s = fit.tau;
-            (r.tau_s_ci_low, r.tau_s_ci_high) = (Some(fit.tau_ci.0), Some(fit.tau_ci.1));
+            (r.tau_s_ci_low, r.tau_s_ci_high) = fit.tau_ci;
             r.v0_v = Some(fit.v0);
-            (r.v0_v_ci_low, r.v0_v_ci_high) = (Some(fit.v0_ci.0), Some(fit.v0_ci.1));
+            (r.v0_v_ci_low, r.v0_v_ci_high) = fit.v0_ci;
+            let open = "the data do not bound it on this side";
+            for (key, v) in [
+                ("tau_s_ci_low", fit.tau_ci.0),
+                ("tau_s_ci_high", fit.tau_ci.1),
+                ("v0_v_ci_low", fit.v0_ci.0),
+                ("v0_v_ci_high", fit.v0_ci.1),
+            ] {
+                if v.is_none() {
+                    r.not_applicable.push((key, open.to_string()));
+                }
+            }
             r.residual_spread_s = Some(fit.spread);
         }
         _ => {}

@@ -1,0 +1,98 @@
+//! The budget's input fields: one vocabulary for the URL, the CLI options and JSON.
+
+use crate::params::FieldSpec;
+use crate::units::Dim;
+
+const fn time(name: &'static str, help: &'static str) -> FieldSpec {
+    FieldSpec {
+        name,
+        dim: Dim::Time,
+        help,
+        limits: (1e-21, 1e6),
+        usual: (1e-14, 1e-8),
+    }
+}
+
+/// The design: one row per crossing.
+pub const DESIGN: FieldSpec = FieldSpec {
+    name: "design",
+    dim: Dim::Text,
+    help: "the crossings, CSV: name, fclk, fdata, stages or tr, count; optional tau, tw or \
+           t0, tsu, tcq per row",
+    limits: (0.0, 0.0),
+    usual: (0.0, 0.0),
+};
+/// The corners: one row per named corner.
+pub const CORNERS: FieldSpec = FieldSpec {
+    name: "corners",
+    dim: Dim::Text,
+    help: "the corners, CSV: corner, tau, tw or t0, tsu, tcq (instead of --tau, --tw ...)",
+    limits: (0.0, 0.0),
+    usual: (0.0, 0.0),
+};
+/// tau of the one corner given by options.
+pub const TAU: FieldSpec = time("tau", "without corners: tau of the one corner 'given'");
+/// tw of the one corner given by options.
+pub const TW: FieldSpec = time("tw", "without corners: the window tw");
+/// t0 of the one corner given by options.
+pub const T0: FieldSpec = time("t0", "without corners: the window t0 (instead of tw)");
+/// tsu of the one corner given by options.
+pub const TSU: FieldSpec = time("tsu", "without corners: setup time");
+/// tcq of the one corner given by options.
+pub const TCQ: FieldSpec = time("tcq", "without corners: clock-to-output delay");
+/// The FIT budget.
+pub const BUDGET_FIT: FieldSpec = FieldSpec {
+    name: "budget-fit",
+    dim: Dim::Ratio,
+    help: "the chip's FIT budget for these crossings (optional)",
+    limits: (1e-300, 1e300),
+    usual: (1e-6, 1e4),
+};
+/// Devices in the field.
+pub const DEVICES: FieldSpec = FieldSpec {
+    name: "devices",
+    dim: Dim::Count,
+    help: "devices in the field, for fleet figures (optional)",
+    limits: (1.0, 1e12),
+    usual: (1.0, 1e11),
+};
+/// Operating years per device.
+pub const SERVICE_YEARS: FieldSpec = FieldSpec {
+    name: "service-years",
+    dim: Dim::Ratio,
+    help: "operating years per device, for fleet figures (optional)",
+    limits: (1e-6, 1e4),
+    usual: (0.01, 100.0),
+};
+/// Systematic uncertainty of tau.
+pub const TAU_SIGMA: FieldSpec = FieldSpec {
+    name: "tau-sigma",
+    dim: Dim::Ratio,
+    help: "standard deviation of ln(tau), shared by every row (optional)",
+    limits: (1e-9, 2.0),
+    usual: (0.005, 0.3),
+};
+/// Systematic uncertainty of the window.
+pub const TW_SIGMA: FieldSpec = FieldSpec {
+    name: "tw-sigma",
+    dim: Dim::Ratio,
+    help: "standard deviation of ln(tw), shared by every row (optional)",
+    limits: (1e-9, 5.0),
+    usual: (0.01, 1.0),
+};
+
+/// The input fields of the budget, in display order.
+pub const FIELDS: &[FieldSpec] = &[
+    DESIGN,
+    CORNERS,
+    TAU,
+    TW,
+    T0,
+    TSU,
+    TCQ,
+    BUDGET_FIT,
+    DEVICES,
+    SERVICE_YEARS,
+    TAU_SIGMA,
+    TW_SIGMA,
+];

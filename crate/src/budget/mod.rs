@@ -1,0 +1,74 @@
+//! The whole-design budget: every crossing of a chip at every corner, the total against a
+//! FIT budget, the cheapest fix, the fleet and the spread under uncertainty (domain notes
+//! section 7).
+//!
+//! `fields` names the inputs, `input` reads the design and its corners, `rollup` holds the
+//! arithmetic (totals, fix plan, percentiles), `report` the results, readouts and plots.
+
+pub mod fields;
+pub mod input;
+pub mod report;
+pub mod rollup;
+
+use crate::calculator::{Calculator, Outcome};
+use crate::chart::Plot;
+use crate::error::ParamErrors;
+use crate::params::{FieldSpec, RawInputs};
+
+pub use fields::FIELDS;
+pub use input::BudgetCase;
+pub use report::{evaluate, BudgetReport};
+
+/// The budget calculator (`latchwise budget`, `budget.html`).
+pub struct BudgetCalculator;
+
+impl Calculator for BudgetCalculator {
+    const NAME: &'static str = "budget";
+    const TITLE: &'static str = "Design budget: every crossing, every corner";
+    const SUMMARY: &'static str = "a whole design's crossings against a FIT budget";
+    const PAGE: &'static str = "budget.html";
+    const FIELDS: &'static [FieldSpec] = FIELDS;
+    const OPERANDS: &'static [&'static str] = &["design"];
+    const HELP: &'static str = "\
+Usage: latchwise budget DESIGN.csv [--corners FILE | --tau T --tw W|--t0 W --tsu T --tcq T]
+                        [--budget-fit F] [--devices N --service-years Y]
+                        [--tau-sigma S --tw-sigma S] [--json]
+
+DESIGN.csv: one row per crossing: name, fclk, fdata, stages or tr, count (instances,
+default 1: a 32-bit bus synchronized bit by bit counts 32); optional tau, tw or t0, tsu,
+tcq, which hold for that row at every corner. The corners file: corner, tau, tw or t0,
+tsu, tcq, one row per named corner; without it the options give one corner, 'given'.
+Comma, semicolon or tab separated, # comments, cells in engineering notation; every
+problem is reported with its file, line and column.
+
+Rates of independent crossings add. The worst corner is the one with the largest total.
+With a budget, the fix plan adds stages where they remove the most FIT per added
+flip-flop, one at a time, until every corner is within the budget (rows given by tr are
+left alone). --tau-sigma and --tw-sigma are the standard deviations of ln tau and ln tw,
+shared by every row; the report gives the median and the 95th percentile of the worst
+total, computed exactly by quadrature: sign off with the 95th percentile.
+
+Example:
+  latchwise budget examples/budget-design.csv --corners examples/budget-corners.csv \\
+                   --budget-fit 10 --tau-sigma 0.05
+";
+
+    type Case = BudgetCase;
+    type Report = BudgetReport;
+
+    fn read(raw: &RawInputs) -> Result<BudgetCase, ParamErrors> {
+        BudgetCase::from_inputs(raw)
+    }
+
+    fn evaluate(case: &BudgetCase) -> BudgetReport {
+        report::evaluate(case)
+    }
+
+    fn outcome(report: &BudgetReport) -> Outcome {
+        report.outcome()
+    }
+
+    fn plots(case: &BudgetCase) -> Vec<Plot> {
+        report::plots(case, &report::evaluate(case))
+    }
+}

@@ -1,0 +1,429 @@
+//! The budget's report: totals per corner, the worst corner and its offenders, the fix
+//! plan, the fleet and the spread under uncertainty; readouts and plots.
+
+use serde::Serialize;
+
+use crate::calculator::Outcome;
+use crate::chart::series::{Curve, Plot, Spacing};
+use crate::params::serialize_pairs;
+use crate::readout::Readout;
+use crate::reliability::{fleet_outcome, FleetOutcome, CAUTION, FIT_PER_RATE};
+use crate::units::{format_decades, format_log10, format_number};
+
+use super::input::BudgetCase;
+use super::rollup::Rollup;
+
+/// One corner's total.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct CornerTotal {
+    /// The corner.
+    pub name: String,
+    /// log10 of its total FIT.
+    pub log10_total_fit: f64,
+}
+
+/// One row at the worst corner.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct RowFit {
+    /// The crossing.
+    pub name: String,
+    /// Its instances.
+    pub count: f64,
+    /// Its stages (0 when tr is given).
+    pub stages: u32,
+    /// log10 of its FIT, count included.
+    pub log10_fit: f64,
+    /// Its share of the worst corner's total.
+    pub share: f64,
+}
+
+/// A row the fix plan changes.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct FixRow {
+    /// The crossing.
+    pub name: String,
+    /// Its new stage count.
+    pub stages: u32,
+}
+
+/// Everything a budget yields.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct BudgetReport {
+    /// The inputs as understood.
+    #[serde(serialize_with = "serialize_pairs")]
+    pub inputs: Vec<(&'static str, String)>,
+    /// log10 of the worst corner's total FIT.
+    pub log10_total_fit: f64,
+    /// The worst corner.
+    pub worst_corner: String,
+    /// The largest shares at the worst corner, in words.
+    pub worst_offenders: String,
+    /// Every corner's total.
+    pub corners: Vec<CornerTotal>,
+    /// Every row at the worst corner, in file order.
+    pub rows: Vec<RowFit>,
+    /// The budget, FIT.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub budget_fit: Option<f64>,
+    /// Whether every corner is within the budget.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub meets_budget: Option<bool>,
+    /// Decades between the worst total and the budget (negative: missed).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub margin_decades: Option<f64>,
+    /// The rows the fix plan changes (null: the budget cannot be met by adding stages).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub fix: Option<Option<Vec<FixRow>>>,
+    /// Flip-flops the fix plan adds (count times added stages).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub added_flip_flops: Option<Option<f64>>,
+    /// log10 of the worst total after the fix.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub log10_total_fit_after_fix: Option<Option<f64>>,
+    /// Median of log10 worst total under the uncertainty.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub log10_total_fit_p50: Option<f64>,
+    /// 95th percentile of log10 worst total under the uncertainty: the sign-off figure.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub log10_total_fit_p95: Option<f64>,
+    /// Fleet figures.
+    #[serde(flatten, skip_serializing_if = "Option::is_none")]
+    pub fleet: Option<FleetOutcome>,
+    /// For each result that is null: why.
+    #[serde(serialize_with = "serialize_pairs")]
+    pub not_applicable: Vec<(&'static str, String)>,
+    /// What to watch.
+    pub warnings: Vec<String>,
+    /// The standing caution.
+    pub caution: &'static str,
+}
+
+/// Evaluates a budget case.
+pub fn evaluate(c: &BudgetCase) -> BudgetReport {
+    let r = &c.rollup;
+    let totals = r.totals(&r.stages, 1.0);
+    let (worst, log10_total) = Rollup::worst(&totals);
+    let fits = r.row_fits(worst, &r.stages);
+    let rows: Vec<RowFit> = fits
+        .iter()
+        .enumerate()
+        .map(|(i, f)| RowFit {
+            name: c.names[i].clone(),
+            count: r.counts[i],
+            stages: if c.tr_given[i] { 0 } else { r.stages[i] },
+            log10_fit: *f,
+            share: 10f64.powf(f - log10_total),
+        })
+        .collect();
+    let mut order: Vec<usize> = (0..rows.len()).collect();
+    order.sort_by(|&a, &b| rows[b].share.total_cmp(&rows[a].share));
+    let worst_offenders = order
+        .iter()
+        .take(3)
+        .map(|&i| format!("{} ({:.0} %)", rows[i].name, 100.0 * rows[i].share))
+        .collect::<Vec<_>>()
+        .join(", ");
+    let mut not_applicable = Vec::new();
+    let budget = c.budget_fit.map(f64::log10);
+    let fixed = budget.map(|b| r.fix(b));
+    let fix = fixed.as_ref().map(|f| {
+        f.as_ref().map(|st| {
+            st.iter()
+                .enumerate()
+                .filter(|(i, s)| **s != r.stages[*i])
+                .map(|(i, s)| FixRow {
+                    name: c.names[i].clone(),
+                    stages: *s,
+                })
+                .collect::<Vec<_>>()
+        })
+    });
+    if let Some(None) = fixed {
+        for key in ["fix", "added_flip_flops", "log10_total_fit_after_fix"] {
+            not_applicable.push((
+                key,
+                "adding stages cannot meet the budget: rows given by tr or at 1000 stages \
+                 already exceed it"
+                    .to_string(),
+            ));
+        }
+    }
+    let added = fixed.as_ref().map(|f| {
+        f.as_ref().map(|st| {
+            st.iter()
+                .zip(&r.stages)
+                .zip(&r.counts)
+                .map(|((a, b), n)| f64::from(a - b) * n)
+                .sum::<f64>()
+        })
+    });
+    let after = fixed
+        .as_ref()
+        .map(|f| f.as_ref().map(|st| Rollup::worst(&r.totals(st, 1.0)).1));
+    let pcts = c.sigmas.map(|(ts, ws)| r.percentiles(ts, ws, &[0.5, 0.95]));
+    let mut warnings = Vec::new();
+    if let Some(p) = &pcts {
+        if let Some(b) = budget {
+            if p[1] > b && log10_total <= b {
+                warnings.push(
+                    "The design meets the budget at its nominal tau and window but not at the \
+                     95th percentile of their uncertainty: sign off with the 95th percentile."
+                        .into(),
+                );
+            }
+        }
+    }
+    let mut inputs = vec![
+        ("design", format!("{} rows", c.names.len())),
+        ("corners", c.corners.join(", ")),
+    ];
+    if let Some(b) = c.budget_fit {
+        inputs.push(("budget-fit", format_number(b)));
+    }
+    if let Some(f) = c.fleet {
+        inputs.push(("devices", f.devices.to_string()));
+        inputs.push(("service-years", format_number(f.years)));
+    }
+    if let Some((ts, ws)) = c.sigmas {
+        inputs.push(("tau-sigma", format_number(ts)));
+        inputs.push(("tw-sigma", format_number(ws)));
+    }
+    BudgetReport {
+        inputs,
+        log10_total_fit: log10_total,
+        worst_corner: c.corners[worst].clone(),
+        worst_offenders,
+        corners: c
+            .corners
+            .iter()
+            .zip(&totals)
+            .map(|(n, t)| CornerTotal {
+                name: n.clone(),
+                log10_total_fit: *t,
+            })
+            .collect(),
+        rows,
+        budget_fit: c.budget_fit,
+        meets_budget: budget.map(|b| log10_total <= b),
+        margin_decades: budget.map(|b| b - log10_total),
+        fix,
+        added_flip_flops: added,
+        log10_total_fit_after_fix: after,
+        log10_total_fit_p50: pcts.as_ref().map(|p| p[0]),
+        log10_total_fit_p95: pcts.as_ref().map(|p| p[1]),
+        fleet: c
+            .fleet
+            .map(|f| fleet_outcome(log10_total - FIT_PER_RATE.log10(), f)),
+        not_applicable,
+        warnings,
+        caution: CAUTION,
+    }
+}
+
+impl BudgetReport {
+    /// The results as readouts, the verdict first; keys equal the JSON keys.
+    pub fn readouts(&self) -> Vec<Readout> {
+        let na = &self.not_applicable;
+        let mut v = Vec::new();
+        if let (Some(met), Some(m)) = (self.meets_budget, self.margin_decades) {
+            let words = format_decades(m.abs());
+            v.push(
+                Readout::new(
+                    "meets_budget",
+                    "budget",
+                    format!(
+                        "{} by {} decades",
+                        if met { "met" } else { "missed" },
+                        words.trim_start_matches('+')
+                    ),
+                    Some(if met { 1.0 } else { 0.0 }),
+                )
+                .judged(met),
+            );
+            v.push(Readout::margin(m));
+        }
+        v.push(Readout::new(
+            "log10_total_fit",
+            "total FIT at the worst corner",
+            format_log10(self.log10_total_fit, 3),
+            Some(self.log10_total_fit),
+        ));
+        v.push(Readout::new(
+            "worst_corner",
+            "worst corner",
+            self.worst_corner.clone(),
+            None,
+        ));
+        v.push(Readout::new(
+            "worst_offenders",
+            "largest shares",
+            self.worst_offenders.clone(),
+            None,
+        ));
+        if let Some(a) = self.added_flip_flops {
+            v.push(Readout::maybe(
+                "added_flip_flops",
+                "flip-flops the fix adds",
+                a,
+                |n| format!("{n:.0}"),
+                na,
+            ));
+        }
+        if let Some(t) = self.log10_total_fit_after_fix {
+            v.push(Readout::maybe(
+                "log10_total_fit_after_fix",
+                "total FIT after the fix",
+                t,
+                |t| format_log10(t, 3),
+                na,
+            ));
+        }
+        if let (Some(p50), Some(p95)) = (self.log10_total_fit_p50, self.log10_total_fit_p95) {
+            v.push(Readout::new(
+                "log10_total_fit_p50",
+                "total FIT, median under uncertainty",
+                format_log10(p50, 3),
+                Some(p50),
+            ));
+            v.push(Readout::new(
+                "log10_total_fit_p95",
+                "total FIT, 95th percentile (sign off with this)",
+                format_log10(p95, 3),
+                Some(p95),
+            ));
+        }
+        if let Some(f) = self.fleet {
+            v.push(Readout::new(
+                "log10_expected_failures",
+                "expected failures in the fleet",
+                format_log10(f.log10_expected_failures, 3),
+                Some(f.log10_expected_failures),
+            ));
+            v.push(Readout::new(
+                "log10_p_any_failure",
+                "probability of at least one",
+                format_log10(f.log10_p_any_failure, 3),
+                Some(f.log10_p_any_failure),
+            ));
+        }
+        v
+    }
+
+    /// What a person reads of the report.
+    pub fn outcome(&self) -> Outcome {
+        let mut facts: Vec<String> = self
+            .corners
+            .iter()
+            .map(|c| {
+                format!(
+                    "Corner {}: total FIT {}.",
+                    c.name,
+                    format_log10(c.log10_total_fit, 3)
+                )
+            })
+            .collect();
+        match &self.fix {
+            Some(Some(rows)) if !rows.is_empty() => facts.push(format!(
+                "Fix plan: {}.",
+                rows.iter()
+                    .map(|r| format!("{} to {} stages", r.name, r.stages))
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            )),
+            Some(Some(_)) => facts.push("Fix plan: nothing to change.".into()),
+            _ => {}
+        }
+        if self.log10_total_fit_p95.is_some() {
+            facts.push(
+                "The uncertainty of tau and tw is systematic, shared by every row: sign off \
+                 with the 95th percentile of the worst corner's total."
+                    .into(),
+            );
+        }
+        facts.push("Independent crossings add their FIT; a row counts its instances.".into());
+        Outcome {
+            inputs: self.inputs.clone(),
+            readouts: self.readouts(),
+            facts,
+            warnings: self.warnings.clone(),
+            unused: Vec::new(),
+            target_missed: self.meets_budget == Some(false),
+            links: Vec::new(),
+        }
+    }
+}
+
+/// The plots: each row's FIT at the worst corner, largest first, and each corner's total,
+/// with the budget line; the spread of the total under uncertainty when it is asked.
+pub fn plots(c: &BudgetCase, report: &BudgetReport) -> Vec<Plot> {
+    let budget = report.budget_fit.map(|b| (b.log10(), "budget".to_string()));
+    let mut fits: Vec<f64> = report.rows.iter().map(|r| r.log10_fit).collect();
+    fits.sort_by(|a, b| b.total_cmp(a));
+    let mut rows = Plot::new(
+        "plot-rows",
+        "FIT of each crossing at the worst corner, largest first (the first 500)",
+        ("rank", "", Spacing::Integer),
+    )
+    .y("log10_fit", "FIT")
+    .clip_y(60.0);
+    rows.curves = vec![Curve {
+        label: String::new(),
+        points: fits
+            .iter()
+            .take(500)
+            .enumerate()
+            .map(|(i, f)| ((i + 1) as f64, *f))
+            .collect(),
+        points_only: true,
+    }];
+    rows.hline.clone_from(&budget);
+    let mut corners = Plot::new(
+        "plot-corners",
+        &format!(
+            "Total FIT at each corner: {}",
+            c.corners
+                .iter()
+                .enumerate()
+                .map(|(i, n)| format!("{} = {n}", i + 1))
+                .collect::<Vec<_>>()
+                .join(", ")
+        ),
+        ("corner", "", Spacing::Integer),
+    )
+    .y("log10_total_fit", "total FIT");
+    corners.curves = vec![Curve {
+        label: String::new(),
+        points: report
+            .corners
+            .iter()
+            .enumerate()
+            .map(|(i, t)| ((i + 1) as f64, t.log10_total_fit))
+            .collect(),
+        points_only: true,
+    }];
+    corners.hline.clone_from(&budget);
+    let mut v = vec![rows, corners];
+    if let Some((ts, ws)) = c.sigmas {
+        let ps: Vec<f64> = (1..=99).map(|i| f64::from(i) / 100.0).collect();
+        let xs = c.rollup.percentiles(ts, ws, &ps);
+        let mut spread = Plot::new(
+            "plot-spread",
+            "Distribution of the worst corner's total FIT under the uncertainty",
+            ("FIT", "", Spacing::Log),
+        )
+        .y("probability", "probability of a total at most this")
+        .linear_y("");
+        spread.curves = vec![Curve {
+            label: String::new(),
+            points: xs
+                .iter()
+                .zip(&ps)
+                .map(|(x, p)| (10f64.powf(*x), *p))
+                .collect(),
+            points_only: false,
+        }];
+        spread.vline = report.budget_fit.map(|b| (b, "budget".to_string()));
+        v.push(spread);
+    }
+    v
+}

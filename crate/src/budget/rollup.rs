@@ -1,0 +1,240 @@
+//! The roll-up of a whole design: every crossing at every corner, the totals, the worst
+//! corner, the cheapest fix, and the spread of the total under a shared uncertainty of
+//! tau and the window (domain notes section 7).
+
+use std::cmp::Ordering;
+use std::collections::BinaryHeap;
+use std::f64::consts::{LN_10, PI};
+
+use crate::numeric::normal::{ln_q, ln_sum_exp};
+use crate::numeric::solve::bisect_last;
+use crate::reliability::FIT_PER_RATE;
+
+/// The longest chain the fix plan builds.
+pub const MAX_STAGES: u32 = 1000;
+
+/// One crossing at one corner, reduced to what its FIT needs.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Cell {
+    /// log10 FIT of the row at zero resolution time: count fdata fclk w 3.6e12.
+    pub log10_fit0: f64,
+    /// Resolution time per added stage, s (the hop; 0 when tr is given).
+    pub hop: f64,
+    /// The resolution time given directly, s, if any.
+    pub tr: Option<f64>,
+    /// The corner's (or the row's) tau, s.
+    pub tau: f64,
+}
+
+impl Cell {
+    /// log10 FIT with `stages` flip-flops and every tau times `scale`.
+    pub fn log10_fit(&self, stages: u32, scale: f64) -> f64 {
+        let tr = self
+            .tr
+            .unwrap_or(f64::from(stages.saturating_sub(1)) * self.hop);
+        self.log10_fit0 - tr / (self.tau * scale * LN_10)
+    }
+
+    /// log10 of the FIT at `stages` from the parts, for the cell of a row.
+    pub fn new(
+        count: f64,
+        fdata: f64,
+        fclk: f64,
+        window: f64,
+        hop: f64,
+        tr: Option<f64>,
+        tau: f64,
+    ) -> Cell {
+        Cell {
+            log10_fit0: (count * fdata * fclk * window).log10() + FIT_PER_RATE.log10(),
+            hop,
+            tr,
+            tau,
+        }
+    }
+}
+
+/// The design at its corners: `cells[row][corner]`, each row's stages and count.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Rollup {
+    /// Every row at every corner.
+    pub cells: Vec<Vec<Cell>>,
+    /// Stages of each row.
+    pub stages: Vec<u32>,
+    /// Instances of each row.
+    pub counts: Vec<f64>,
+}
+
+/// log10 of a sum of numbers given by their log10.
+pub fn log10_sum(logs: impl IntoIterator<Item = f64>) -> f64 {
+    let ln: Vec<f64> = logs.into_iter().map(|l| l * LN_10).collect();
+    ln_sum_exp(&ln) / LN_10
+}
+
+impl Rollup {
+    /// The number of corners.
+    pub fn corners(&self) -> usize {
+        self.cells.first().map_or(0, Vec::len)
+    }
+
+    /// log10 FIT of every row at `corner`, with `stages`.
+    pub fn row_fits(&self, corner: usize, stages: &[u32]) -> Vec<f64> {
+        self.cells
+            .iter()
+            .zip(stages)
+            .map(|(c, s)| c[corner].log10_fit(*s, 1.0))
+            .collect()
+    }
+
+    /// log10 total FIT at each corner with `stages`, taus times `scale`.
+    pub fn totals(&self, stages: &[u32], scale: f64) -> Vec<f64> {
+        (0..self.corners())
+            .map(|k| {
+                log10_sum(
+                    self.cells
+                        .iter()
+                        .zip(stages)
+                        .map(|(c, s)| c[k].log10_fit(*s, scale)),
+                )
+            })
+            .collect()
+    }
+
+    /// The worst corner and its log10 total: the largest total.
+    pub fn worst(totals: &[f64]) -> (usize, f64) {
+        totals
+            .iter()
+            .copied()
+            .enumerate()
+            .fold((0, f64::NEG_INFINITY), |best, (k, t)| {
+                if t > best.1 {
+                    (k, t)
+                } else {
+                    best
+                }
+            })
+    }
+
+    /// The fewest added flip-flops, greedily, that bring every corner within
+    /// `10^log10_budget` FIT: one stage at a time on the row that removes the most FIT per
+    /// added flip-flop at the current worst corner. Rows given by `tr` are left alone.
+    /// Returns the new stage counts, or `None` when adding stages cannot meet the budget.
+    pub fn fix(&self, log10_budget: f64) -> Option<Vec<u32>> {
+        let mut stages = self.stages.clone();
+        let budget = 10f64.powf(log10_budget);
+        // Linear totals for the search (each row's FIT is far from f64's limits under the
+        // fields' limits); the report recomputes the totals exactly in logarithms.
+        let lin = |k: usize, r: usize, s: u32| 10f64.powf(self.cells[r][k].log10_fit(s, 1.0));
+        let mut totals: Vec<f64> = (0..self.corners())
+            .map(|k| (0..self.cells.len()).map(|r| lin(k, r, stages[r])).sum())
+            .collect();
+        let worst_of = |t: &[f64]| {
+            t.iter()
+                .copied()
+                .enumerate()
+                .fold(
+                    (0, f64::NEG_INFINITY),
+                    |b, (k, v)| if v > b.1 { (k, v) } else { b },
+                )
+        };
+        #[derive(PartialEq)]
+        struct Gain(f64, usize, u32);
+        impl Eq for Gain {}
+        impl PartialOrd for Gain {
+            fn partial_cmp(&self, o: &Self) -> Option<Ordering> {
+                Some(self.cmp(o))
+            }
+        }
+        impl Ord for Gain {
+            fn cmp(&self, o: &Self) -> Ordering {
+                self.0.total_cmp(&o.0)
+            }
+        }
+        let gain = |k: usize, r: usize, s: u32| (lin(k, r, s) - lin(k, r, s + 1)) / self.counts[r];
+        let candidates = |k: usize, stages: &[u32]| -> BinaryHeap<Gain> {
+            (0..self.cells.len())
+                .filter(|&r| self.cells[r][k].tr.is_none() && stages[r] < MAX_STAGES)
+                .map(|r| Gain(gain(k, r, stages[r]), r, stages[r]))
+                .collect()
+        };
+        let (mut at, _) = worst_of(&totals);
+        let mut heap = candidates(at, &stages);
+        let mut steps: u64 = 0;
+        while worst_of(&totals).1 > budget * (1.0 + 1e-12) {
+            steps += 1;
+            if steps > 10_000_000 {
+                return None;
+            }
+            let (k, _) = worst_of(&totals);
+            if k != at {
+                at = k;
+                heap = candidates(at, &stages);
+            }
+            let Gain(g, r, s) = heap.pop()?;
+            if s != stages[r] {
+                continue; // Stale: the row has grown since.
+            }
+            if g <= 0.0 {
+                return None;
+            }
+            for (k, t) in totals.iter_mut().enumerate() {
+                *t += lin(k, r, s + 1) - lin(k, r, s);
+            }
+            stages[r] = s + 1;
+            if stages[r] < MAX_STAGES {
+                heap.push(Gain(gain(at, r, stages[r]), r, stages[r]));
+            }
+        }
+        Some(stages)
+    }
+
+    /// log10 of the worst corner's total with every tau times `scale`.
+    pub fn log10_worst_at(&self, scale: f64) -> f64 {
+        Rollup::worst(&self.totals(&self.stages, scale)).1
+    }
+
+    /// Percentiles (as fractions, e.g. 0.5 and 0.95) of log10 of the worst corner's total
+    /// when ln tau and ln tw are normal with standard deviations `tau_sigma`, `tw_sigma`,
+    /// shared by every row and independent of each other.
+    ///
+    /// # Formula
+    /// The worst total is `s_w G(s_tau)` with G rising in `s_tau`. So
+    /// `P(ln T <= x) = integral of phi(z) Phi((x - ln G(exp(tau_sigma z))) / tw_sigma) dz`,
+    /// by the trapezoid rule on z in [-8, 8] (exact to rounding for this smooth integrand);
+    /// each percentile by bisection on x. With `tw_sigma = 0` the percentile is G at the
+    /// same percentile of `s_tau`; with `tau_sigma = 0` the total is lognormal.
+    pub fn percentiles(&self, tau_sigma: f64, tw_sigma: f64, ps: &[f64]) -> Vec<f64> {
+        let z_of = |p: f64| bisect_last(-40.0, 40.0, 1e-13, 200, |z| (1.0 - ln_q(z).exp()) <= p);
+        if tau_sigma <= 0.0 {
+            let g = self.log10_worst_at(1.0) * LN_10;
+            return ps
+                .iter()
+                .map(|&p| (g + tw_sigma * z_of(p)) / LN_10)
+                .collect();
+        }
+        let nodes: Vec<f64> = (0..=160).map(|i| -8.0 + 0.1 * f64::from(i)).collect();
+        let ln_g: Vec<f64> = nodes
+            .iter()
+            .map(|z| self.log10_worst_at((tau_sigma * z).exp()) * LN_10)
+            .collect();
+        if tw_sigma <= 0.0 {
+            return ps
+                .iter()
+                .map(|&p| self.log10_worst_at((tau_sigma * z_of(p)).exp()))
+                .collect();
+        }
+        let weight = |z: f64| (-0.5 * z * z).exp() / (2.0 * PI).sqrt() * 0.1;
+        let cdf = |x: f64| -> f64 {
+            nodes
+                .iter()
+                .zip(&ln_g)
+                .map(|(z, g)| weight(*z) * (1.0 - ln_q((x - g) / tw_sigma).exp()))
+                .sum()
+        };
+        let lo = ln_g.iter().copied().fold(f64::INFINITY, f64::min) - 10.0 * tw_sigma;
+        let hi = ln_g.iter().copied().fold(f64::NEG_INFINITY, f64::max) + 10.0 * tw_sigma;
+        ps.iter()
+            .map(|&p| bisect_last(lo, hi, 1e-12, 200, |x| cdf(x) <= p) / LN_10)
+            .collect()
+    }
+}
