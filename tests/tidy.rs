@@ -48,6 +48,22 @@ fn coverage(name: &str) -> Vec<String> {
                 with_data("comparator", "fit-comparator.csv", ""),
             ];
         }
+        "budget" => {
+            let corners = std::fs::read_to_string(root().join("examples/budget-corners.csv")).unwrap();
+            let enc: String = corners
+                .bytes()
+                .map(|b| match b {
+                    b'A'..=b'Z' | b'a'..=b'z' | b'0'..=b'9' | b'-' | b'.' | b'_' => (b as char).to_string(),
+                    _ => format!("%{b:02X}"),
+                })
+                .collect();
+            return vec![
+                with_data("", "budget-design.csv", &format!("&corners={enc}&budget-fit=10&tau-sigma=0.05&tw-sigma=0.3&devices=1000000&service-years=10"))
+                    .replacen("kind=&data=", "design=", 1),
+                with_data("", "budget-design.csv", "&tau=12ps&tw=20ps&tsu=25ps&tcq=40ps&budget-fit=1e-30")
+                    .replacen("kind=&data=", "design=", 1),
+            ];
+        }
         other => panic!("no coverage cases for calculator '{other}': add them here"),
     };
     fixed.iter().map(|q| q.to_string()).collect()

@@ -364,8 +364,7 @@ pub fn plots(c: &BudgetCase, report: &BudgetReport) -> Vec<Plot> {
         "FIT of each crossing at the worst corner, largest first (the first 500)",
         ("rank", "", Spacing::Integer),
     )
-    .y("log10_fit", "FIT")
-    .clip_y(60.0);
+    .y("log10_fit", "FIT");
     rows.curves = vec![Curve {
         label: String::new(),
         points: fits
@@ -379,16 +378,8 @@ pub fn plots(c: &BudgetCase, report: &BudgetReport) -> Vec<Plot> {
     rows.hline.clone_from(&budget);
     let mut corners = Plot::new(
         "plot-corners",
-        &format!(
-            "Total FIT at each corner: {}",
-            c.corners
-                .iter()
-                .enumerate()
-                .map(|(i, n)| format!("{} = {n}", i + 1))
-                .collect::<Vec<_>>()
-                .join(", ")
-        ),
-        ("corner", "", Spacing::Integer),
+        "Total FIT at each corner",
+        ("corner (in the order of the corners table)", "", Spacing::Integer),
     )
     .y("log10_total_fit", "total FIT");
     corners.curves = vec![Curve {
@@ -408,7 +399,7 @@ pub fn plots(c: &BudgetCase, report: &BudgetReport) -> Vec<Plot> {
         let xs = c.rollup.percentiles(ts, ws, &ps);
         let mut spread = Plot::new(
             "plot-spread",
-            "Distribution of the worst corner's total FIT under the uncertainty",
+            "The worst total under the uncertainty",
             ("FIT", "", Spacing::Log),
         )
         .y("probability", "probability of a total at most this")

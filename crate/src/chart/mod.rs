@@ -133,6 +133,8 @@ fn to_axis_x(spacing: Spacing, x: f64) -> f64 {
 fn x_label_text(spec: &Plot, x: f64) -> String {
     match spec.spacing {
         Spacing::Integer => format!("{}", x.round()),
+        // A plain quantity (FIT) reads as 1e6, not as 1 M.
+        Spacing::Log if spec.x_unit.is_empty() => format_number(10f64.powf(x)),
         Spacing::Log => format_si(10f64.powf(x), spec.x_unit),
         // A plain fraction reads as 0.25, not as 250 m.
         Spacing::Linear if spec.x_unit.is_empty() => format_number(x),
