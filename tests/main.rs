@@ -1,6 +1,7 @@
 //! Integration tests: one binary with a module per area.
 #![allow(clippy::unwrap_used, clippy::print_stdout)]
 
+mod budget;
 mod cli;
 mod comparator;
 mod fits;

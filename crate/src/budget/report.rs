@@ -379,7 +379,11 @@ pub fn plots(c: &BudgetCase, report: &BudgetReport) -> Vec<Plot> {
     let mut corners = Plot::new(
         "plot-corners",
         "Total FIT at each corner",
-        ("corner (in the order of the corners table)", "", Spacing::Integer),
+        (
+            "corner (in the order of the corners table)",
+            "",
+            Spacing::Integer,
+        ),
     )
     .y("log10_total_fit", "total FIT");
     corners.curves = vec![Curve {

@@ -177,10 +177,20 @@ impl Rollup {
             if g <= 0.0 {
                 return None;
             }
-            for (k, t) in totals.iter_mut().enumerate() {
-                *t += lin(k, r, s + 1) - lin(k, r, s);
-            }
             stages[r] = s + 1;
+            let mut cancelled = false;
+            for (k, t) in totals.iter_mut().enumerate() {
+                let before = *t;
+                *t += lin(k, r, s + 1) - lin(k, r, s);
+                // A total that falls by orders of magnitude keeps the rounding of what it
+                // lost: sum it afresh.
+                cancelled |= *t < before * 1e-3;
+            }
+            if cancelled {
+                for (k, t) in totals.iter_mut().enumerate() {
+                    *t = (0..self.cells.len()).map(|r| lin(k, r, stages[r])).sum();
+                }
+            }
             if stages[r] < MAX_STAGES {
                 heap.push(Gain(gain(at, r, stages[r]), r, stages[r]));
             }

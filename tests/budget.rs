@@ -1,0 +1,277 @@
+//! The design budget: totals against mpmath, the exact lognormal case of the uncertainty,
+//! properties of the roll-up and the fix plan, every bad file, and the command line.
+
+use std::process::Command;
+
+use latchwise::budget::BudgetCalculator;
+use latchwise::calculator::Calculator;
+use latchwise::params::RawInputs;
+use proptest::prelude::*;
+use serde_json::Value;
+
+use crate::tolerance::{assert_log10, table_rows, F64_REL};
+
+fn example(name: &str) -> String {
+    std::fs::read_to_string(format!("{}/examples/{name}", env!("CARGO_MANIFEST_DIR"))).unwrap()
+}
+
+fn budget(design: &str, corners: Option<&str>, pairs: &[(&str, &str)]) -> Result<Value, String> {
+    let mut all = vec![("design".to_string(), design.to_string())];
+    if let Some(c) = corners {
+        all.push(("corners".into(), c.into()));
+    }
+    all.extend(pairs.iter().map(|(k, v)| (k.to_string(), v.to_string())));
+    BudgetCalculator::read(&RawInputs::from_pairs(all))
+        .map(|c| serde_json::to_value(BudgetCalculator::evaluate(&c)).unwrap())
+        .map_err(|e| e.to_string())
+}
+
+fn demo(pairs: &[(&str, &str)]) -> Value {
+    budget(
+        &example("budget-design.csv"),
+        Some(&example("budget-corners.csv")),
+        pairs,
+    )
+    .unwrap()
+}
+
+#[test]
+fn totals_match_mpmath() {
+    // tests/fixtures/budget_reference.csv: the demo chip's totals, mpmath at 50 digits.
+    let v = demo(&[]);
+    let rows = table_rows(include_str!("fixtures/budget_reference.csv"));
+    assert_eq!(rows.len(), 3);
+    for line in rows {
+        let (corner, want) = line.split_once(',').unwrap();
+        let got = v["corners"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .find(|c| c["name"] == corner)
+            .unwrap()["log10_total_fit"]
+            .as_f64()
+            .unwrap();
+        assert_log10(corner, got, want.parse().unwrap());
+    }
+    assert_eq!(v["worst_corner"], "low_v_cold");
+    // Shares at the worst corner add to one.
+    let shares: f64 = v["rows"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|r| r["share"].as_f64().unwrap())
+        .sum();
+    assert!((shares - 1.0).abs() < F64_REL, "{shares}");
+}
+
+#[test]
+fn tw_uncertainty_alone_gives_the_lognormal_percentiles() {
+    // With only ln tw uncertain the total is exactly lognormal (domain notes section 7):
+    // median = the nominal total, 95th percentile = total * exp(1.6448536 sigma)
+    // (1.6448536269514722 is the normal 95 % point, mpmath).
+    let sigma = 0.3;
+    let v = demo(&[("tw-sigma", "0.3")]);
+    let total = v["log10_total_fit"].as_f64().unwrap();
+    assert_log10("p50", v["log10_total_fit_p50"].as_f64().unwrap(), total);
+    let p95 = total + 1.644_853_626_951_472_2 * sigma / std::f64::consts::LN_10;
+    assert_log10("p95", v["log10_total_fit_p95"].as_f64().unwrap(), p95);
+    // tau uncertainty alone: the 95th percentile is the total at tau scaled by exp(1.645 s).
+    let t = demo(&[("tau-sigma", "0.05")]);
+    let scaled = demo(&[]);
+    assert!(
+        t["log10_total_fit_p95"].as_f64().unwrap() > scaled["log10_total_fit"].as_f64().unwrap()
+    );
+}
+
+#[test]
+fn the_fix_plan_meets_the_budget_at_every_corner() {
+    let v = demo(&[("budget-fit", "10")]);
+    assert_eq!(v["meets_budget"], Value::Bool(false));
+    assert!(v["log10_total_fit_after_fix"].as_f64().unwrap() <= 1.0);
+    let fix = v["fix"].as_array().unwrap();
+    assert!(!fix.is_empty());
+    // Apply the plan to the design and evaluate again: every corner within the budget.
+    let mut design = example("budget-design.csv");
+    for f in fix {
+        let name = f["name"].as_str().unwrap();
+        let stages = f["stages"].as_u64().unwrap();
+        design = design
+            .lines()
+            .map(|l| {
+                let mut cells: Vec<String> = l.split(',').map(str::to_string).collect();
+                if cells[0] == name {
+                    cells[3] = stages.to_string();
+                }
+                cells.join(",") + "\n"
+            })
+            .collect();
+    }
+    let after = budget(
+        &design,
+        Some(&example("budget-corners.csv")),
+        &[("budget-fit", "10")],
+    )
+    .unwrap();
+    assert_eq!(
+        after["meets_budget"],
+        Value::Bool(true),
+        "{}",
+        after["corners"]
+    );
+    // A row given by tr that alone exceeds the budget: no plan, and the reason.
+    let stuck = budget(
+        "name,fclk,fdata,tr\nhot,1GHz,100MHz,0\n",
+        None,
+        &[("tau", "20ps"), ("tw", "40ps"), ("budget-fit", "1")],
+    )
+    .unwrap();
+    assert!(
+        stuck["fix"].is_null() && stuck["not_applicable"]["fix"].is_string(),
+        "{stuck}"
+    );
+}
+
+fn design_of(rows: &[(f64, f64, u32, u32)]) -> String {
+    let mut s = String::from("name,fclk,fdata,stages,count\n");
+    for (i, (fclk, fdata, stages, count)) in rows.iter().enumerate() {
+        s.push_str(&format!("r{i},{fclk:e},{fdata:e},{stages},{count}\n"));
+    }
+    s
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(60))]
+
+    #[test]
+    fn totals_and_fixes_behave(
+        rows in proptest::collection::vec((1e8..2e9f64, 1e3..1e8f64, 1u32..4, 1u32..40), 1..12),
+        extra in (1e8..2e9f64, 1e3..1e8f64, 1u32..4, 1u32..40),
+        log_budget in -6.0..3.0f64,
+    ) {
+        let corner = [("tau", "20ps"), ("tw", "30ps"), ("tsu", "30ps"), ("tcq", "40ps")];
+        let base = budget(&design_of(&rows), None, &corner).unwrap();
+        let total = base["log10_total_fit"].as_f64().unwrap();
+        // Adding a crossing never lowers the total.
+        let mut more = rows.clone();
+        more.push(extra);
+        let bigger = budget(&design_of(&more), None, &corner).unwrap();
+        prop_assert!(bigger["log10_total_fit"].as_f64().unwrap() >= total - crate::tolerance::ROUNDING_LOG10_ABS);
+        // One more stage never raises a row's FIT.
+        let mut deeper = rows.clone();
+        deeper[0].2 += 1;
+        let d = budget(&design_of(&deeper), None, &corner).unwrap();
+        prop_assert!(d["rows"][0]["log10_fit"].as_f64().unwrap() <= base["rows"][0]["log10_fit"].as_f64().unwrap());
+        // The fix plan always meets the budget.
+        let b = format!("{:e}", 10f64.powf(log_budget));
+        let mut with_budget = corner.to_vec();
+        with_budget.push(("budget-fit", &b));
+        let f = budget(&design_of(&rows), None, &with_budget).unwrap();
+        prop_assert!(f["log10_total_fit_after_fix"].as_f64().unwrap() <= log_budget + crate::tolerance::ROUNDING_LOG10_ABS);
+    }
+}
+
+#[test]
+fn every_bad_file_gets_its_message() {
+    let corner = [
+        ("tau", "20ps"),
+        ("tw", "30ps"),
+        ("tsu", "30ps"),
+        ("tcq", "40ps"),
+    ];
+    for (design, msg) in [
+        ("", "design: a value is required"),
+        ("# nothing\n", "design, line 1: the table is empty"),
+        ("name,fclk,stages\na,1GHz,2\n", "design, line 1, column fdata: the column is missing"),
+        ("name,fclk,fdata,stages,colour\na,1GHz,1MHz,2,red\n", "design, line 1, column colour: unknown column"),
+        ("name,fclk,fdata,stages\na,1GHz,fast,2\n", "design, line 2, column fdata: 'fast' is not a number"),
+        ("name,fclk,fdata,stages,count\na,1GHz,1MHz,2,-4\n", "design, line 2, column count: '-4' is negative"),
+        ("name,fclk,fdata\na,1GHz,1MHz\n", "design, line 2, columns stages, tr: give one of the two"),
+        ("name,fclk,fdata,stages\na,20GHz,1MHz,2\n", "design, line 2, corner given: the clock period 50 ps is not longer than tsu + tcq = 70 ps"),
+    ] {
+        let e = budget(design, None, &corner).expect_err(design);
+        assert!(e.contains(msg), "{design:?}: {e}");
+    }
+    let design = "name,fclk,fdata,stages\na,1GHz,1MHz,2\n";
+    for (corners, msg) in [
+        (
+            "corner,tau,tw,tsu,tcq\nslow,20ps,30ps,30ps,40ps\nslow,25ps,30ps,30ps,40ps\n",
+            "corners, line 3, column corner: 'slow' is named twice",
+        ),
+        (
+            "corner,tau,tsu\nslow,20ps,30ps\n",
+            "corners, line 2: the corner needs tw or t0",
+        ),
+        ("", "no tau or window, in the row or the corner"),
+    ] {
+        match budget(design, Some(corners), &[]) {
+            Err(e) => assert!(e.contains(msg), "{corners:?}: {e}"),
+            Ok(v) => panic!("{corners:?} accepted: {v}"),
+        }
+    }
+}
+
+#[test]
+fn the_command_reads_the_design_and_corners_files() {
+    let root = env!("CARGO_MANIFEST_DIR");
+    let run = |extra: &[&str]| {
+        let out = Command::new(env!("CARGO_BIN_EXE_latchwise"))
+            .args([
+                "budget",
+                &format!("{root}/examples/budget-design.csv"),
+                "--corners",
+                &format!("{root}/examples/budget-corners.csv"),
+            ])
+            .args(extra)
+            .output()
+            .unwrap();
+        (
+            out.status.code().unwrap_or(-1),
+            String::from_utf8_lossy(&out.stdout).into_owned(),
+            String::from_utf8_lossy(&out.stderr).into_owned(),
+        )
+    };
+    let (code, out, err) = run(&[
+        "--json",
+        "--budget-fit",
+        "10",
+        "--tau-sigma",
+        "0.05",
+        "--devices",
+        "1e6",
+        "--service-years",
+        "10",
+    ]);
+    assert_eq!(code, 1, "{err}");
+    let v: Value = serde_json::from_str(&out).unwrap();
+    for k in [
+        "log10_total_fit",
+        "worst_corner",
+        "corners",
+        "rows",
+        "budget_fit",
+        "meets_budget",
+        "margin_decades",
+        "fix",
+        "log10_total_fit_after_fix",
+        "log10_total_fit_p50",
+        "log10_total_fit_p95",
+        "log10_expected_failures",
+        "log10_p_any_failure",
+    ] {
+        assert!(v.get(k).is_some(), "{k}");
+    }
+    let (code, out, _) = run(&["--budget-fit", "1e9"]);
+    assert_eq!(code, 0);
+    let first = out
+        .lines()
+        .skip_while(|l| *l != "Results")
+        .nth(1)
+        .unwrap_or("");
+    assert!(
+        first.trim_start().starts_with("budget"),
+        "the verdict comes first among the results:\n{out}"
+    );
+    let (code, _, err) = run(&["--budget-fit", "-1"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("budget-fit"), "{err}");
+}
