@@ -150,3 +150,53 @@ fn related_clock_example_numbers_hold() {
     );
     assert_eq!(v["min_stages"], serde_json::json!(3));
 }
+
+#[test]
+fn budget_demo_numbers_hold() {
+    let prose = readme().split_whitespace().collect::<Vec<_>>().join(" ");
+    let root = env!("CARGO_MANIFEST_DIR");
+    let out = std::process::Command::new(env!("CARGO_BIN_EXE_latchwise"))
+        .args([
+            "budget",
+            &format!("{root}/examples/budget-design.csv"),
+            "--corners",
+        ])
+        .arg(format!("{root}/examples/budget-corners.csv"))
+        .args(["--budget-fit", "10", "--json"])
+        .output()
+        .unwrap();
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let total = v["log10_total_fit"].as_f64().unwrap();
+    let top = v["rows"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|r| r["share"].as_f64().unwrap())
+        .fold(0.0, f64::max);
+    for (quoted, value) in [
+        (
+            "worst at 7.07e6 FIT",
+            format!("worst at {} FIT", latchwise::units::format_log10(total, 3)),
+        ),
+        (
+            "missing 10 FIT by 5.85 decades",
+            format!(
+                "missing 10 FIT by {:.2} decades",
+                -v["margin_decades"].as_f64().unwrap()
+            ),
+        ),
+        ("60 % of it", format!("{:.0} % of it", 100.0 * top)),
+        (
+            "here 68 flip-flops on seven crossings",
+            format!(
+                "here {:.0} flip-flops on seven crossings",
+                v["added_flip_flops"].as_f64().unwrap()
+            ),
+        ),
+    ] {
+        assert!(prose.contains(quoted), "README no longer says '{quoted}'");
+        assert_eq!(value, quoted, "the command against the README");
+    }
+    assert_eq!(v["worst_corner"], "low_v_cold");
+    assert_eq!(v["fix"].as_array().unwrap().len(), 7);
+}
