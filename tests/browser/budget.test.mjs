@@ -1,0 +1,43 @@
+// Real-browser tests of the design budget page: the demo chip against the command line,
+// bad values flagged at their field, and names from a pasted design shown as text.
+import { test, before, after } from 'node:test';
+import assert from 'node:assert/strict';
+import path from 'node:path';
+import { setup, open, fileUrl, outputs, root, cli, fill, inked } from './harness.mjs';
+
+const env = setup({ before, after });
+
+test('the demo chip gives the command line\'s numbers, with its plots', async () => {
+  const { context, page, problems, foreign } = await open(env.browser, fileUrl('budget.html'));
+  const out = await outputs(page);
+  const want = cli('budget', [path.join(root, 'examples/budget-design.csv'), '--corners', path.join(root, 'examples/budget-corners.csv'),
+    '--budget-fit', '10', '--tau-sigma', '0.05', '--tw-sigma', '0.3']);
+  for (const k of ['log10_total_fit', 'margin_decades', 'log10_total_fit_p95', 'log10_total_fit_after_fix']) {
+    assert.equal(Number(out[k].value), want[k], k);
+  }
+  assert.equal(out.worst_corner.text, want.worst_corner);
+  assert.match(out.meets_budget.text, /^missed by 5\.85 decades$/);
+  for (const id of ['plot-rows', 'plot-corners', 'plot-spread']) assert.ok(await inked(page, id) > 1000, id);
+  assert.deepEqual(problems, []);
+  assert.deepEqual(foreign, []);
+  await context.close();
+});
+
+test('bad values are flagged at their field and hostile names stay text', async () => {
+  const { context, page } = await open(env.browser, fileUrl('budget.html'));
+  await fill(page, '[name="budget-fit"]', '-1');
+  assert.match(await page.textContent('#m-budget-fit'), /budget-fit: negative/);
+  await fill(page, '[name="budget-fit"]', '10');
+  await fill(page, '[name="tau-sigma"]', 'wide');
+  assert.match(await page.textContent('#m-tau-sigma'), /'wide' is not a number/);
+  await fill(page, '[name="tau-sigma"]', '0.05');
+  await fill(page, '[name="corners"]', 'corner,tau,tw,tsu,tcq\nslow,20ps,30ps,30ps,40ps\nslow,24ps,30ps,30ps,40ps\n');
+  assert.match(await page.textContent('#m-corners'), /corners, line 3, column corner: 'slow' is named twice/);
+  await fill(page, '[name="corners"]', 'corner,tau,tw,tsu,tcq\nslow,20ps,30ps,30ps,40ps\n');
+  const evil = '<img src=x onerror="window.__owned=1">';
+  await fill(page, '[name="design"]', `name,fclk,fdata,stages\n"${evil.replace(/"/g, '""')}",1GHz,100MHz,1\n`);
+  assert.equal(await page.evaluate(() => window.__owned), undefined);
+  assert.match(await page.textContent('output[name="worst_offenders"]'), /<img src=x onerror="window.__owned=1"> \(100 %\)/);
+  assert.equal(await page.$$eval('.results img', (e) => e.length), 0);
+  await context.close();
+});
