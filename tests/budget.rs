@@ -84,6 +84,37 @@ fn tw_uncertainty_alone_gives_the_lognormal_percentiles() {
 }
 
 #[test]
+fn the_spread_curve_passes_through_the_reported_percentiles() {
+    // Both uncertainties at once: the plotted distribution (a grid of totals) and the
+    // reported p50 / p95 (bisection) come from the same integral, so reading the curve
+    // at 0.5 and 0.95 gives the reported totals to within the grid spacing.
+    let pairs = [("tau-sigma", "0.05"), ("tw-sigma", "0.4")];
+    let v = demo(&pairs);
+    let mut all = vec![
+        ("design".to_string(), example("budget-design.csv")),
+        ("corners".to_string(), example("budget-corners.csv")),
+    ];
+    all.extend(pairs.iter().map(|(k, v)| (k.to_string(), v.to_string())));
+    let case = BudgetCalculator::read(&RawInputs::from_pairs(all)).unwrap();
+    let plots = BudgetCalculator::plots(&case);
+    let spread = plots.iter().find(|p| p.id == "plot-spread").unwrap();
+    let pts: Vec<(f64, f64)> = spread.curves[0]
+        .points
+        .iter()
+        .map(|(x, p)| (x.log10(), *p))
+        .collect();
+    let step = pts[1].0 - pts[0].0;
+    for (p, key) in [(0.5, "log10_total_fit_p50"), (0.95, "log10_total_fit_p95")] {
+        let i = pts.iter().position(|q| q.1 >= p).unwrap();
+        let (a, b) = (pts[i - 1], pts[i]);
+        let x = a.0 + (b.0 - a.0) * (p - a.1) / (b.1 - a.1);
+        let want = v[key].as_f64().unwrap();
+        assert!((x - want).abs() < step, "{key}: curve {x}, reported {want}");
+    }
+    assert!(pts.windows(2).all(|w| w[1].1 >= w[0].1 - 1e-12));
+}
+
+#[test]
 fn the_fix_plan_meets_the_budget_at_every_corner() {
     let v = demo(&[("budget-fit", "10")]);
     assert_eq!(v["meets_budget"], Value::Bool(false));

@@ -254,6 +254,27 @@
     setTimeout(function () { URL.revokeObjectURL(a.href); a.remove(); }, 0);
   }
 
+  // Fills a data text area from a file the user picks (the same as dropping it there).
+  function openInto(name) {
+    var area = form.elements.namedItem(name);
+    if (!area) return;
+    var picker = document.createElement('input');
+    picker.type = 'file';
+    picker.accept = '.csv,.tsv,.txt,text/csv,text/plain';
+    picker.hidden = true;
+    picker.id = 'pick-' + name;
+    picker.addEventListener('change', function () {
+      var f = picker.files && picker.files[0];
+      picker.remove();
+      if (!f) return;
+      var reader = new FileReader();
+      reader.onload = function () { area.value = String(reader.result); update(true); };
+      reader.readAsText(f);
+    });
+    document.body.appendChild(picker);
+    picker.click();
+  }
+
   function link() {
     return location.href.split('?')[0].split('#')[0] + '?' + query();
   }
@@ -360,6 +381,26 @@
         if (text) download(t.dataset.csv + '.csv', new Blob([text], { type: 'text/csv' }));
       } else if (t.dataset.png) {
         try { png(t.dataset.png); } catch (err) { fatal('Internal error while exporting: ' + err); }
+      } else if (t.dataset.save) {
+        // A data text area as the file it came from (CSV), as typed.
+        var area = form.elements.namedItem(t.dataset.save);
+        if (area) download(page + '-' + t.dataset.save + '.csv', new Blob([area.value], { type: 'text/csv' }));
+      } else if (t.dataset.open) {
+        openInto(t.dataset.open);
+      } else if (t.dataset.report !== undefined) {
+        var report = wasm_bindgen.report(page, query());
+        if (report === null || report === undefined) {
+          note('The inputs have errors (marked at their fields): there is no report to export yet.');
+          return;
+        }
+        var doc = {
+          calculator: page,
+          version: wasm_bindgen.version(),
+          exported: new Date().toISOString().slice(0, 19) + 'Z',
+          link: link(),
+          report: report
+        };
+        download(page + '-report.json', new Blob([JSON.stringify(doc, null, 2) + '\n'], { type: 'application/json' }));
       }
     });
     window.addEventListener('resize', function () { if (ready) schedulePlots(); });

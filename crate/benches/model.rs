@@ -4,6 +4,7 @@
 use criterion::{criterion_group, criterion_main, Criterion};
 use latchwise::comparator::sweep::p_vs_tau;
 use latchwise::comparator::{self, CompCase};
+use latchwise::numeric::normal::ln_q;
 use latchwise::params::RawInputs;
 use latchwise::synchronizer::sweep::sweep_tau;
 use latchwise::synchronizer::{evaluate, SyncCase};
@@ -52,6 +53,15 @@ fn bench(c: &mut Criterion) {
         b.iter(|| p_vs_tau(black_box(&nrz.comp), 1_000_000))
     });
     g.finish();
+
+    // The normal tail far out, where the budget's uncertainty integral lands for
+    // extreme designs: 1000 arguments spread over 10 to 1e200.
+    let xs: Vec<f64> = (0..1000)
+        .map(|i| 10f64.powf(1.0 + 0.199 * f64::from(i)))
+        .collect();
+    c.bench_function("normal/ln_q_1000_large_arguments", |b| {
+        b.iter(|| black_box(&xs).iter().map(|&x| ln_q(x)).sum::<f64>())
+    });
 }
 
 criterion_group!(benches, bench);

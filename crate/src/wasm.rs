@@ -145,6 +145,29 @@ pub fn read_query(name: &str, query: &str) -> Result<JsValue, JsError> {
     to_js(&dispatch(name, Read(query)).ok_or_else(|| unknown(name))?)
 }
 
+struct Report<'a>(&'a str);
+
+impl Visit for Report<'_> {
+    type Out = Result<JsValue, JsError>;
+
+    fn visit<C: Calculator>(self) -> Result<JsValue, JsError> {
+        match C::read(&query_inputs::<C>(self.0)) {
+            Ok(case) => to_js(&C::evaluate(&case)),
+            Err(_) => Ok(JsValue::NULL),
+        }
+    }
+}
+
+/// The full report of calculator `name` for a query, as the command line's `--json`
+/// prints it (the page's JSON export); `null` when the inputs cannot be read.
+///
+/// # Errors
+/// An unknown calculator, or a report that cannot be converted to a JS value.
+#[wasm_bindgen]
+pub fn report(name: &str, query: &str) -> Result<JsValue, JsError> {
+    dispatch(name, Report(query)).ok_or_else(|| unknown(name))?
+}
+
 /// Evaluates the query of calculator `name`'s page: field states (text, echo, error),
 /// readouts, facts, warnings and unknown keys. Plots are drawn separately by [`draw`],
 /// so that the numbers can show before the first chart is laid out.

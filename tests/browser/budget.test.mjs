@@ -3,6 +3,7 @@
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import path from 'node:path';
+import fs from 'node:fs';
 import { setup, open, fileUrl, outputs, root, cli, fill, inked } from './harness.mjs';
 
 const env = setup({ before, after });
@@ -41,3 +42,50 @@ test('bad values are flagged at their field and hostile names stay text', async 
   assert.equal(await page.$$eval('.results img', (e) => e.length), 0);
   await context.close();
 });
+
+test('design and corners round-trip through CSV files; the JSON export is the command line\'s', async () => {
+  const { context, page, problems } = await open(env.browser, fileUrl('budget.html'));
+  const before = await outputs(page);
+  const design = await page.inputValue('[name="design"]');
+  const [saved] = await Promise.all([page.waitForEvent('download'), page.click('[data-save="design"]')]);
+  assert.equal(saved.suggestedFilename(), 'budget-design.csv');
+  const savedPath = await saved.path();
+  assert.equal(fs.readFileSync(savedPath, 'utf8'), design);
+  // Replace the design, then open the saved file: the same results come back.
+  await fill(page, '[name="design"]', 'name,fclk,fdata,stages\nonly,1GHz,100MHz,3\n');
+  assert.notEqual((await outputs(page)).log10_total_fit.value, before.log10_total_fit.value);
+  const [chooser] = await Promise.all([page.waitForEvent('filechooser'), page.click('[data-open="design"]')]);
+  await chooser.setFiles(savedPath);
+  await page.waitForFunction((d) => document.querySelector('[name="design"]').value === d, design);
+  const after = await outputs(page);
+  for (const k of Object.keys(before)) assert.equal(after[k].value, before[k].value, k);
+  // The JSON export carries the same report as `latchwise budget --json`.
+  const [json] = await Promise.all([page.waitForEvent('download'), page.click('[data-report]')]);
+  assert.equal(json.suggestedFilename(), 'budget-report.json');
+  const doc = JSON.parse(fs.readFileSync(await json.path(), 'utf8'));
+  const want = cli('budget', [path.join(root, 'examples/budget-design.csv'), '--corners', path.join(root, 'examples/budget-corners.csv'),
+    '--budget-fit', '10', '--tau-sigma', '0.05', '--tw-sigma', '0.3']);
+  // Same keys, same text; numbers to 1e-12 relative (the page's exp and log are the
+  // WebAssembly build's, which may differ from the native ones in the last bit).
+  assertClose(doc.report, want, 'report');
+  assert.equal(doc.calculator, 'budget');
+  assert.match(doc.link, /budget\.html\?/);
+  // With a bad input there is no report: a note says why, nothing is downloaded.
+  await fill(page, '[name="budget-fit"]', 'lots');
+  await page.click('[data-report]');
+  assert.match(await page.textContent('#ignored'), /no report to export/);
+  assert.deepEqual(problems, []);
+  await context.close();
+});
+
+function assertClose(got, want, where) {
+  if (typeof want === 'number' && typeof got === 'number') {
+    assert.ok(Math.abs(got - want) <= 1e-12 * Math.max(Math.abs(want), Math.abs(got)), `${where}: ${got} vs ${want}`);
+  } else if (want !== null && typeof want === 'object') {
+    assert.equal(typeof got, 'object', where);
+    assert.deepEqual(Object.keys(got).sort(), Object.keys(want).sort(), where);
+    for (const k of Object.keys(want)) assertClose(got[k], want[k], `${where}.${k}`);
+  } else {
+    assert.equal(got, want, where);
+  }
+}

@@ -167,6 +167,13 @@ test('CSV and PNG downloads carry the plot data', async () => {
   assert.ok(lines.length - header >= 7);
   const [png] = await Promise.all([page.waitForEvent('download'), page.click('[data-png="plot-tau"]')]);
   assert.equal(png.suggestedFilename(), 'plot-tau.png');
+  // The whole report as JSON, the figures of the outputs on the page.
+  const [json] = await Promise.all([page.waitForEvent('download'), page.click('[data-report]')]);
+  assert.equal(json.suggestedFilename(), 'sync-report.json');
+  const doc = JSON.parse(Buffer.concat(await (await json.createReadStream()).toArray()).toString('utf8'));
+  assert.equal(doc.calculator, 'sync');
+  const out = await outputs(page);
+  assert.equal(doc.report.log10_mtbf_years, Number(out.log10_mtbf_years.value));
   await context.close();
 });
 

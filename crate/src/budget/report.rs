@@ -399,8 +399,7 @@ pub fn plots(c: &BudgetCase, report: &BudgetReport) -> Vec<Plot> {
     corners.hline.clone_from(&budget);
     let mut v = vec![rows, corners];
     if let Some((ts, ws)) = c.sigmas {
-        let ps: Vec<f64> = (1..=99).map(|i| f64::from(i) / 100.0).collect();
-        let xs = c.rollup.percentiles(ts, ws, &ps);
+        let dist = c.rollup.distribution(ts, ws, 120);
         let mut spread = Plot::new(
             "plot-spread",
             "The worst total under the uncertainty",
@@ -410,11 +409,7 @@ pub fn plots(c: &BudgetCase, report: &BudgetReport) -> Vec<Plot> {
         .linear_y("");
         spread.curves = vec![Curve {
             label: String::new(),
-            points: xs
-                .iter()
-                .zip(&ps)
-                .map(|(x, p)| (10f64.powf(*x), *p))
-                .collect(),
+            points: dist.iter().map(|(x, p)| (10f64.powf(*x), *p)).collect(),
             points_only: false,
         }];
         spread.vline = report.budget_fit.map(|b| (b, "budget".to_string()));

@@ -203,6 +203,54 @@ impl Rollup {
         Rollup::worst(&self.totals(&self.stages, scale)).1
     }
 
+    /// The distribution of log10 of the worst corner's total under the uncertainty, as
+    /// `n` points (log10 total, probability of a total at most this), for plotting.
+    ///
+    /// # Formula
+    /// As [`Rollup::percentiles`]: with one uncertain quantity the points follow from the
+    /// normal quantiles directly; with both, the cumulative distribution is evaluated by
+    /// the same quadrature on a grid of totals.
+    pub fn distribution(&self, tau_sigma: f64, tw_sigma: f64, n: usize) -> Vec<(f64, f64)> {
+        let n = n.max(2);
+        let zs: Vec<f64> = (0..n)
+            .map(|i| -3.5 + 7.0 * i as f64 / (n - 1) as f64)
+            .collect();
+        let phi = |z: f64| 1.0 - ln_q(z).exp();
+        if tau_sigma <= 0.0 || tw_sigma <= 0.0 {
+            let g = self.log10_worst_at(1.0);
+            return zs
+                .iter()
+                .map(|&z| {
+                    let x = if tau_sigma <= 0.0 {
+                        g + tw_sigma * z / LN_10
+                    } else {
+                        self.log10_worst_at((tau_sigma * z).exp())
+                    };
+                    (x, phi(z))
+                })
+                .collect();
+        }
+        let nodes: Vec<f64> = (0..=160).map(|i| -8.0 + 0.1 * f64::from(i)).collect();
+        let ln_g: Vec<f64> = nodes
+            .iter()
+            .map(|z| self.log10_worst_at((tau_sigma * z).exp()) * LN_10)
+            .collect();
+        let weight = |z: f64| (-0.5 * z * z).exp() / (2.0 * PI).sqrt() * 0.1;
+        let lo = ln_g[45] - 3.5 * tw_sigma;
+        let hi = ln_g[115] + 3.5 * tw_sigma;
+        (0..n)
+            .map(|i| {
+                let x = lo + (hi - lo) * i as f64 / (n - 1) as f64;
+                let p: f64 = nodes
+                    .iter()
+                    .zip(&ln_g)
+                    .map(|(z, g)| weight(*z) * phi((x - g) / tw_sigma))
+                    .sum();
+                (x / LN_10, p.clamp(0.0, 1.0))
+            })
+            .collect()
+    }
+
     /// Percentiles (as fractions, e.g. 0.5 and 0.95) of log10 of the worst corner's total
     /// when ln tau and ln tw are normal with standard deviations `tau_sigma`, `tw_sigma`,
     /// shared by every row and independent of each other.
