@@ -115,6 +115,31 @@ fn the_spread_curve_passes_through_the_reported_percentiles() {
 }
 
 #[test]
+fn shares_hold_at_totals_of_1e27_decades() {
+    // Found by fuzzing: at a total of 10^(-4.3e27) FIT one rounding step of the log is
+    // 5e11 decades, and a share taken as 10^(row - total) came out infinite.
+    let corners = "corner,tau,tw,tsu,tcq\nc,1e-43,1e6,0,0\n";
+    let one = budget(
+        "name,fclk,fdata,stages\nx,1e18,1e18,1000\n",
+        Some(corners),
+        &[],
+    )
+    .unwrap();
+    assert!(one["log10_total_fit"].as_f64().unwrap() < -1e27);
+    assert_eq!(one["rows"][0]["share"].as_f64(), Some(1.0));
+    assert_eq!(one["worst_offenders"], "x (100 %)");
+    let two = budget(
+        "name,fclk,fdata,stages\nx,1e18,1e18,1000\ny,1e18,1e18,1000\n",
+        Some(corners),
+        &[("tau-sigma", "2"), ("tw-sigma", "5")],
+    )
+    .unwrap();
+    for row in two["rows"].as_array().unwrap() {
+        assert_eq!(row["share"].as_f64(), Some(0.5));
+    }
+}
+
+#[test]
 fn the_fix_plan_meets_the_budget_at_every_corner() {
     let v = demo(&[("budget-fit", "10")]);
     assert_eq!(v["meets_budget"], Value::Bool(false));
@@ -199,6 +224,37 @@ proptest! {
         let f = budget(&design_of(&rows), None, &with_budget).unwrap();
         prop_assert!(f["log10_total_fit_after_fix"].as_f64().unwrap() <= log_budget + crate::tolerance::ROUNDING_LOG10_ABS);
     }
+}
+
+#[test]
+fn the_fix_plan_meets_a_budget_26_decades_down() {
+    // Found by the property test below: the plan's running totals, reduced step by step
+    // from 1e21 FIT, kept 1e5 FIT of rounding and stopped at 10^-5.10 against 10^-5.13.
+    let rows = [
+        (1_373_654_145.642_575_7, 1000.0, 1, 14),
+        (1_000_054_635.421_173_5, 95_776_855.839_486_12, 1, 5),
+        (1_575_673_686.348_993_3, 6_747_994.305_775_905, 1, 23),
+        (1_313_723_693.863_472, 61_271_728.688_700_646, 1, 13),
+        (1_603_190_315.997_861_9, 91_958_360.065_256_37, 1, 27),
+        (1_916_746_105.488_429_3, 1000.0, 3, 5),
+        (1_084_294_369.424_622_5, 1000.0, 1, 10),
+        (1_967_226_652.986_329_3, 65_477_787.726_006_67, 1, 4),
+        (1_152_497_403.946_340_8, 53_519_945.356_415_16, 1, 19),
+    ];
+    let budget_fit = -5.128_096_203_749_367;
+    let b = format!("{:e}", 10f64.powf(budget_fit));
+    let corner = [
+        ("tau", "20ps"),
+        ("tw", "30ps"),
+        ("tsu", "30ps"),
+        ("tcq", "40ps"),
+    ];
+    let mut pairs = corner.to_vec();
+    pairs.push(("budget-fit", &b));
+    let f = budget(&design_of(&rows), None, &pairs).unwrap();
+    assert!(f["log10_total_fit"].as_f64().unwrap() > 20.0);
+    let after = f["log10_total_fit_after_fix"].as_f64().unwrap();
+    assert!(after <= budget_fit, "{after}");
 }
 
 #[test]

@@ -271,3 +271,34 @@ fn csv_opens_with_the_case_and_writes_plain_numbers() {
     );
     assert!(latchwise::calculator::plot_csv::<SyncCalculator>(&raw, "plot-nothing", "").is_none());
 }
+
+#[test]
+fn the_budget_line_stays_in_view_of_the_spread() {
+    // The demo chip's total spreads over 1e4..1e9 FIT against a 10 FIT budget: the x axis
+    // reaches down to the budget, so the line is drawn rather than clipped away (the
+    // axis once began at 1e4, its ticks now reach 100 or below).
+    use latchwise::budget::BudgetCalculator;
+    let read = |name: &str| {
+        std::fs::read_to_string(format!("{}/examples/{name}", env!("CARGO_MANIFEST_DIR"))).unwrap()
+    };
+    let raw = RawInputs::from_pairs(vec![
+        ("design".to_string(), read("budget-design.csv")),
+        ("corners".to_string(), read("budget-corners.csv")),
+        ("budget-fit".to_string(), "10".to_string()),
+        ("tau-sigma".to_string(), "0.05".to_string()),
+        ("tw-sigma".to_string(), "0.3".to_string()),
+    ]);
+    let case = BudgetCalculator::read(&raw).unwrap();
+    let spread = BudgetCalculator::plots(&case)
+        .into_iter()
+        .find(|p| p.id == "plot-spread")
+        .unwrap();
+    let (out, _) = svg(&spread, None);
+    let labels = texts(&out);
+    let smallest = labels
+        .iter()
+        .filter_map(|t| t.parse::<f64>().ok())
+        .filter(|v| *v > 1.0)
+        .fold(f64::INFINITY, f64::min);
+    assert!(smallest <= 100.0, "{labels:?}");
+}

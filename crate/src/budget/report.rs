@@ -104,6 +104,12 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
     let totals = r.totals(&r.stages, 1.0);
     let (worst, log10_total) = Rollup::worst(&totals);
     let fits = r.row_fits(worst, &r.stages);
+    // Shares relative to the largest row, so that no difference of two huge logs (whose
+    // rounding alone can be 1e11 decades at 1e27) reaches the exponent: each term is at
+    // most 1 and their sum at least 1.
+    let top = fits.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+    let rel: Vec<f64> = fits.iter().map(|f| 10f64.powf(f - top)).collect();
+    let sum: f64 = rel.iter().sum();
     let rows: Vec<RowFit> = fits
         .iter()
         .enumerate()
@@ -112,7 +118,7 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
             count: r.counts[i],
             stages: if c.tr_given[i] { 0 } else { r.stages[i] },
             log10_fit: *f,
-            share: 10f64.powf(f - log10_total),
+            share: rel[i] / sum,
         })
         .collect();
     let mut order: Vec<usize> = (0..rows.len()).collect();
@@ -353,23 +359,31 @@ impl BudgetReport {
     }
 }
 
+/// The most crossings the per-row plot shows (the largest): more points are no more
+/// readable, and the CSV export of the design has them all.
+const MOST_ROWS_PLOTTED: usize = 500;
+
 /// The plots: each row's FIT at the worst corner, largest first, and each corner's total,
 /// with the budget line; the spread of the total under uncertainty when it is asked.
 pub fn plots(c: &BudgetCase, report: &BudgetReport) -> Vec<Plot> {
     let budget = report.budget_fit.map(|b| (b.log10(), "budget".to_string()));
     let mut fits: Vec<f64> = report.rows.iter().map(|r| r.log10_fit).collect();
     fits.sort_by(|a, b| b.total_cmp(a));
-    let mut rows = Plot::new(
-        "plot-rows",
-        "FIT of each crossing at the worst corner, largest first (the first 500)",
-        ("rank", "", Spacing::Integer),
-    )
-    .y("log10_fit", "FIT");
+    let title = if fits.len() > MOST_ROWS_PLOTTED {
+        format!(
+            "FIT of each crossing, the largest {MOST_ROWS_PLOTTED} of {}",
+            fits.len()
+        )
+    } else {
+        "FIT of each crossing, largest first".to_string()
+    };
+    let mut rows = Plot::new("plot-rows", &title, ("rank", "", Spacing::Integer))
+        .y("log10_fit", "FIT at the worst corner");
     rows.curves = vec![Curve {
         label: String::new(),
         points: fits
             .iter()
-            .take(500)
+            .take(MOST_ROWS_PLOTTED)
             .enumerate()
             .map(|(i, f)| ((i + 1) as f64, *f))
             .collect(),

@@ -160,7 +160,23 @@ impl Rollup {
         let (mut at, _) = worst_of(&totals);
         let mut heap = candidates(at, &stages);
         let mut steps: u64 = 0;
-        while worst_of(&totals).1 > budget * (1.0 + 1e-12) {
+        // Each corner's total when last summed afresh: the running sums carry rounding
+        // of that size, so they are summed afresh once they fall 1000-fold below it.
+        let mut summed = totals.clone();
+        let resum = |totals: &mut Vec<f64>, summed: &mut Vec<f64>, stages: &[u32]| {
+            for (k, t) in totals.iter_mut().enumerate() {
+                *t = (0..self.cells.len()).map(|r| lin(k, r, stages[r])).sum();
+            }
+            summed.clone_from(totals);
+        };
+        loop {
+            if worst_of(&totals).1 <= budget * (1.0 + 1e-12) {
+                // Met by the running sums: confirm by summing afresh.
+                resum(&mut totals, &mut summed, &stages);
+                if worst_of(&totals).1 <= budget * (1.0 + 1e-12) {
+                    break;
+                }
+            }
             steps += 1;
             if steps > 10_000_000 {
                 return None;
@@ -180,16 +196,11 @@ impl Rollup {
             stages[r] = s + 1;
             let mut cancelled = false;
             for (k, t) in totals.iter_mut().enumerate() {
-                let before = *t;
                 *t += lin(k, r, s + 1) - lin(k, r, s);
-                // A total that falls by orders of magnitude keeps the rounding of what it
-                // lost: sum it afresh.
-                cancelled |= *t < before * 1e-3;
+                cancelled |= *t < summed[k] * 1e-3;
             }
             if cancelled {
-                for (k, t) in totals.iter_mut().enumerate() {
-                    *t = (0..self.cells.len()).map(|r| lin(k, r, stages[r])).sum();
-                }
+                resum(&mut totals, &mut summed, &stages);
             }
             if stages[r] < MAX_STAGES {
                 heap.push(Gain(gain(at, r, stages[r]), r, stages[r]));

@@ -110,6 +110,15 @@ fn x_range(spec: &Plot) -> (f64, f64) {
             }
         }
     }
+    // A reference line (a budget, a resolution time) is part of the reading: keep it in
+    // view even when the curves lie decades away from it.
+    if let Some((v, _)) = &spec.vline {
+        let x = to_axis_x(spec.spacing, *v);
+        if x.is_finite() && lo.is_finite() {
+            lo = lo.min(x);
+            hi = hi.max(x);
+        }
+    }
     if !lo.is_finite() {
         return (0.0, 1.0);
     }
