@@ -226,6 +226,9 @@
     }
   }
 
+  // The longest link "Copy link" offers; see the copy-link handler.
+  var LINK_MOST_CHARS = 8000;
+
   function save(q) {
     try { history.replaceState(null, '', '?' + q + location.hash); } catch (e) { /* file:// in some browsers */ }
     store(storeKey, q);
@@ -359,6 +362,17 @@
       var text = link();
       var status = document.getElementById('copy-status');
       var box = document.getElementById('link-text');
+      if (text.length > LINK_MOST_CHARS) {
+        // Common practice: many servers, proxies and mail tools cut request lines near
+        // 8 KiB (from memory: Apache's LimitRequestLine defaults to 8190), so a longer
+        // link may arrive cut short, silently losing rows.
+        show(box, false);
+        var files = document.querySelector('[data-save]') ? ' Save the design and corners as CSV files (Save CSV) and share those instead;' : '';
+        status.textContent = 'This case makes a link of ' + text.length + ' characters, too long to share reliably ' +
+          '(links over ' + LINK_MOST_CHARS + ' characters are often cut short).' + files +
+          ' this browser keeps the case for this page.';
+        return;
+      }
       box.value = text;
       function fallback() {
         show(box, true);

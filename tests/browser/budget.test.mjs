@@ -89,3 +89,20 @@ function assertClose(got, want, where) {
     assert.equal(got, want, where);
   }
 }
+
+test('a design too large for a link says so and points to the CSV files', async () => {
+  const { context, page, problems } = await open(env.browser, fileUrl('budget.html'));
+  await page.click('#copy-link');
+  assert.doesNotMatch(await page.textContent('#copy-status'), /too long/);
+  let design = 'name,fclk,fdata,stages,count\n';
+  for (let i = 0; i < 400; i++) design += `bus_${i},1.2GHz,20MHz,2,8\n`;
+  await fill(page, '[name="design"]', design);
+  assert.equal(await page.textContent('output[name="worst_corner"]'), 'low_v_cold');
+  // The fix plan names the first changes and counts the rest, rather than 400 of them.
+  assert.match(await page.textContent('#facts'), /Fix plan \(400 crossings\): bus_0 to 3 stages, .* and 388 more; the JSON report lists every change\./);
+  await page.click('#copy-link');
+  assert.match(await page.textContent('#copy-status'), /link of \d+ characters, too long to share reliably.*Save CSV/);
+  assert.equal(await page.isVisible('#link-text'), false);
+  assert.deepEqual(problems, []);
+  await context.close();
+});

@@ -329,13 +329,24 @@ impl BudgetReport {
             })
             .collect();
         match &self.fix {
-            Some(Some(rows)) if !rows.is_empty() => facts.push(format!(
-                "Fix plan: {}.",
-                rows.iter()
+            Some(Some(rows)) if !rows.is_empty() => {
+                let named = rows
+                    .iter()
+                    .take(MOST_FIXES_NAMED)
                     .map(|r| format!("{} to {} stages", r.name, r.stages))
                     .collect::<Vec<_>>()
-                    .join(", ")
-            )),
+                    .join(", ");
+                facts.push(if rows.len() > MOST_FIXES_NAMED {
+                    format!(
+                        "Fix plan ({} crossings): {named}, and {} more; the JSON report \
+                         lists every change.",
+                        rows.len(),
+                        rows.len() - MOST_FIXES_NAMED
+                    )
+                } else {
+                    format!("Fix plan: {named}.")
+                });
+            }
             Some(Some(_)) => facts.push("Fix plan: nothing to change.".into()),
             _ => {}
         }
@@ -358,6 +369,9 @@ impl BudgetReport {
         }
     }
 }
+
+/// The most changed crossings the fix plan's sentence names; the JSON has them all.
+const MOST_FIXES_NAMED: usize = 12;
 
 /// The most crossings the per-row plot shows (the largest): more points are no more
 /// readable, and the CSV export of the design has them all.
