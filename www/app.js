@@ -226,6 +226,9 @@
     }
   }
 
+  // The most lines of a data text area a printed report shows.
+  var PRINT_MOST_LINES = 120;
+
   // The longest link "Copy link" offers; see the copy-link handler.
   var LINK_MOST_CHARS = 8000;
 
@@ -422,9 +425,29 @@
     window.addEventListener('beforeprint', function () {
       var stamp = document.getElementById('print-stamp');
       if (stamp) {
+        var here = link();
+        if (here.length > LINK_MOST_CHARS / 20) {
+          // A design-sized link is pages of noise on paper: the inputs above are the case.
+          here = here.split('?')[0] + ' (the case is printed above; its link has ' + here.length + ' characters)';
+        }
         stamp.textContent = 'latchwise ' + wasm_bindgen.version() + ' · printed ' +
-          new Date().toISOString().slice(0, 16).replace('T', ' ') + ' UTC · ' + link();
+          new Date().toISOString().slice(0, 16).replace('T', ' ') + ' UTC · ' + here;
       }
+      // Data text areas print as text: every line up to a page or so, then a count.
+      each('textarea[name]', function (t) {
+        var pre = t.parentNode.querySelector('pre.print-text');
+        if (!pre) {
+          pre = document.createElement('pre');
+          pre.className = 'print-only print-text';
+          t.parentNode.insertBefore(pre, t.nextSibling);
+        }
+        var lines = t.value.replace(/\s+$/, '').split('\n');
+        var shown = lines.slice(0, PRINT_MOST_LINES).join('\n');
+        if (lines.length > PRINT_MOST_LINES) {
+          shown += '\n… and ' + (lines.length - PRINT_MOST_LINES) + ' more lines (Save CSV has them all)';
+        }
+        pre.textContent = shown;
+      });
       try { draw(query()); } catch (e) { /* the screen plots stay */ }
     });
     window.addEventListener('afterprint', function () { schedulePlots(); });

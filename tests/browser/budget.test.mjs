@@ -94,6 +94,11 @@ test('a design too large for a link says so and points to the CSV files', async 
   const { context, page, problems } = await open(env.browser, fileUrl('budget.html'));
   await page.click('#copy-link');
   assert.doesNotMatch(await page.textContent('#copy-status'), /too long/);
+  // Printed, the design and corners are text in full (a text area prints its view only).
+  const demo = (await page.inputValue('[name="design"]')).trim();
+  await page.pdf({ format: 'A4' });
+  assert.equal((await page.textContent('pre.print-text')).trim(), demo);
+  assert.match(await page.textContent('#print-stamp'), /budget\.html \(the case is printed above; its link has \d+ characters\)$/);
   let design = 'name,fclk,fdata,stages,count\n';
   for (let i = 0; i < 400; i++) design += `bus_${i},1.2GHz,20MHz,2,8\n`;
   await fill(page, '[name="design"]', design);
@@ -103,6 +108,8 @@ test('a design too large for a link says so and points to the CSV files', async 
   await page.click('#copy-link');
   assert.match(await page.textContent('#copy-status'), /link of \d+ characters, too long to share reliably.*Save CSV/);
   assert.equal(await page.isVisible('#link-text'), false);
+  await page.pdf({ format: 'A4' });
+  assert.match(await page.textContent('pre.print-text'), /bus_118,1\.2GHz,20MHz,2,8\n… and 281 more lines \(Save CSV has them all\)$/);
   assert.deepEqual(problems, []);
   await context.close();
 });

@@ -114,9 +114,11 @@ fn x_range(spec: &Plot) -> (f64, f64) {
     // view even when the curves lie decades away from it.
     if let Some((v, _)) = &spec.vline {
         let x = to_axis_x(spec.spacing, *v);
-        if x.is_finite() && lo.is_finite() {
-            lo = lo.min(x);
-            hi = hi.max(x);
+        if x.is_finite() && lo.is_finite() && (x < lo || x > hi) {
+            // Off the curves' span: a little room so the line is not the axis itself.
+            let room = 0.04 * (hi.max(x) - lo.min(x));
+            lo = lo.min(x - room);
+            hi = hi.max(x + room);
         }
     }
     if !lo.is_finite() {
