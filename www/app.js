@@ -260,6 +260,13 @@
     setTimeout(function () { URL.revokeObjectURL(a.href); a.remove(); }, 0);
   }
 
+  // A data file's text into a text area, then a recompute.
+  function readInto(area, file) {
+    var reader = new FileReader();
+    reader.onload = function () { area.value = String(reader.result); update(true); };
+    reader.readAsText(file);
+  }
+
   // Fills a data text area from a file the user picks (the same as dropping it there).
   function openInto(name) {
     var area = form.elements.namedItem(name);
@@ -272,10 +279,7 @@
     picker.addEventListener('change', function () {
       var f = picker.files && picker.files[0];
       picker.remove();
-      if (!f) return;
-      var reader = new FileReader();
-      reader.onload = function () { area.value = String(reader.result); update(true); };
-      reader.readAsText(f);
+      if (f) readInto(area, f);
     });
     document.body.appendChild(picker);
     picker.click();
@@ -348,10 +352,7 @@
         e.preventDefault();
         t.classList.remove('dropping');
         var f = e.dataTransfer && e.dataTransfer.files && e.dataTransfer.files[0];
-        if (!f) return;
-        var reader = new FileReader();
-        reader.onload = function () { t.value = String(reader.result); update(true); };
-        reader.readAsText(f);
+        if (f) readInto(t, f);
       });
     });
     document.getElementById('undo').addEventListener('click', function () {

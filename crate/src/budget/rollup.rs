@@ -125,9 +125,12 @@ impl Rollup {
         // Linear totals for the search (each row's FIT is far from f64's limits under the
         // fields' limits); the report recomputes the totals exactly in logarithms.
         let lin = |k: usize, r: usize, s: u32| 10f64.powf(self.cells[r][k].log10_fit(s, 1.0));
-        let mut totals: Vec<f64> = (0..self.corners())
-            .map(|k| (0..self.cells.len()).map(|r| lin(k, r, stages[r])).sum())
-            .collect();
+        let sum_afresh = |stages: &[u32]| -> Vec<f64> {
+            (0..self.corners())
+                .map(|k| (0..self.cells.len()).map(|r| lin(k, r, stages[r])).sum())
+                .collect()
+        };
+        let mut totals = sum_afresh(&stages);
         let worst_of = |t: &[f64]| {
             t.iter()
                 .copied()
@@ -163,16 +166,11 @@ impl Rollup {
         // Each corner's total when last summed afresh: the running sums carry rounding
         // of that size, so they are summed afresh once they fall 1000-fold below it.
         let mut summed = totals.clone();
-        let resum = |totals: &mut Vec<f64>, summed: &mut Vec<f64>, stages: &[u32]| {
-            for (k, t) in totals.iter_mut().enumerate() {
-                *t = (0..self.cells.len()).map(|r| lin(k, r, stages[r])).sum();
-            }
-            summed.clone_from(totals);
-        };
         loop {
             if worst_of(&totals).1 <= budget * (1.0 + 1e-12) {
                 // Met by the running sums: confirm by summing afresh.
-                resum(&mut totals, &mut summed, &stages);
+                totals = sum_afresh(&stages);
+                summed.clone_from(&totals);
                 if worst_of(&totals).1 <= budget * (1.0 + 1e-12) {
                     break;
                 }
@@ -200,7 +198,8 @@ impl Rollup {
                 cancelled |= *t < summed[k] * 1e-3;
             }
             if cancelled {
-                resum(&mut totals, &mut summed, &stages);
+                totals = sum_afresh(&stages);
+                summed.clone_from(&totals);
             }
             if stages[r] < MAX_STAGES {
                 heap.push(Gain(gain(at, r, stages[r]), r, stages[r]));
@@ -241,23 +240,28 @@ impl Rollup {
                 })
                 .collect();
         }
-        let nodes: Vec<f64> = (0..=160).map(|i| -8.0 + 0.1 * f64::from(i)).collect();
-        let ln_g: Vec<f64> = nodes
-            .iter()
-            .map(|z| self.log10_worst_at((tau_sigma * z).exp()) * LN_10)
-            .collect();
-        let weight = |z: f64| (-0.5 * z * z).exp() / (2.0 * PI).sqrt() * 0.1;
-        let lo = ln_g[45] - 3.5 * tw_sigma;
-        let hi = ln_g[115] + 3.5 * tw_sigma;
+        let nodes = self.spread_nodes(tau_sigma);
+        // From the total at tau's -3.5 sigma (node 45) to that at +3.5 sigma (node 115).
+        let lo = nodes[45].1 - 3.5 * tw_sigma;
+        let hi = nodes[115].1 + 3.5 * tw_sigma;
         (0..n)
             .map(|i| {
                 let x = lo + (hi - lo) * i as f64 / (n - 1) as f64;
-                let p: f64 = nodes
-                    .iter()
-                    .zip(&ln_g)
-                    .map(|(z, g)| weight(*z) * phi((x - g) / tw_sigma))
-                    .sum();
+                let p = spread_cdf(&nodes, tw_sigma, x);
                 (x / LN_10, p.clamp(0.0, 1.0))
+            })
+            .collect()
+    }
+
+    /// The quadrature nodes of [`Rollup::percentiles`]: z from -8 to 8 by 0.1, each as
+    /// (trapezoid weight times the normal density at z, ln of the worst total with every
+    /// tau scaled by `exp(tau_sigma z)`).
+    fn spread_nodes(&self, tau_sigma: f64) -> Vec<(f64, f64)> {
+        (0..=160)
+            .map(|i| {
+                let z = -8.0 + 0.1 * f64::from(i);
+                let weight = (-0.5 * z * z).exp() / (2.0 * PI).sqrt() * 0.1;
+                (weight, self.log10_worst_at((tau_sigma * z).exp()) * LN_10)
             })
             .collect()
     }
@@ -281,29 +285,28 @@ impl Rollup {
                 .map(|&p| (g + tw_sigma * z_of(p)) / LN_10)
                 .collect();
         }
-        let nodes: Vec<f64> = (0..=160).map(|i| -8.0 + 0.1 * f64::from(i)).collect();
-        let ln_g: Vec<f64> = nodes
-            .iter()
-            .map(|z| self.log10_worst_at((tau_sigma * z).exp()) * LN_10)
-            .collect();
         if tw_sigma <= 0.0 {
             return ps
                 .iter()
                 .map(|&p| self.log10_worst_at((tau_sigma * z_of(p)).exp()))
                 .collect();
         }
-        let weight = |z: f64| (-0.5 * z * z).exp() / (2.0 * PI).sqrt() * 0.1;
-        let cdf = |x: f64| -> f64 {
-            nodes
-                .iter()
-                .zip(&ln_g)
-                .map(|(z, g)| weight(*z) * (1.0 - ln_q((x - g) / tw_sigma).exp()))
-                .sum()
-        };
-        let lo = ln_g.iter().copied().fold(f64::INFINITY, f64::min) - 10.0 * tw_sigma;
-        let hi = ln_g.iter().copied().fold(f64::NEG_INFINITY, f64::max) + 10.0 * tw_sigma;
+        let nodes = self.spread_nodes(tau_sigma);
+        let lo = nodes.iter().map(|n| n.1).fold(f64::INFINITY, f64::min) - 10.0 * tw_sigma;
+        let hi = nodes.iter().map(|n| n.1).fold(f64::NEG_INFINITY, f64::max) + 10.0 * tw_sigma;
         ps.iter()
-            .map(|&p| bisect_last(lo, hi, 1e-12, 200, |x| cdf(x) <= p) / LN_10)
+            .map(|&p| {
+                bisect_last(lo, hi, 1e-12, 200, |x| spread_cdf(&nodes, tw_sigma, x) <= p) / LN_10
+            })
             .collect()
     }
+}
+
+/// `P(ln T <= x)` by the quadrature over [`Rollup::spread_nodes`]: each node's weight
+/// times the normal probability that ln tw's shift keeps the total at most `x`.
+fn spread_cdf(nodes: &[(f64, f64)], tw_sigma: f64, x: f64) -> f64 {
+    nodes
+        .iter()
+        .map(|(w, ln_g)| w * (1.0 - ln_q((x - ln_g) / tw_sigma).exp()))
+        .sum()
 }
