@@ -96,7 +96,7 @@ fn the_spread_curve_passes_through_the_reported_percentiles() {
     ];
     all.extend(pairs.iter().map(|(k, v)| (k.to_string(), v.to_string())));
     let case = BudgetCalculator::read(&RawInputs::from_pairs(all)).unwrap();
-    let plots = BudgetCalculator::plots(&case);
+    let plots = BudgetCalculator::plots(&case, &BudgetCalculator::evaluate(&case));
     let spread = plots.iter().find(|p| p.id == "plot-spread").unwrap();
     let pts: Vec<(f64, f64)> = spread.curves[0]
         .points
@@ -361,4 +361,31 @@ fn the_command_reads_the_design_and_corners_files() {
     let (code, _, err) = run(&["--budget-fit", "-1"]);
     assert_eq!(code, 2);
     assert!(err.contains("budget-fit"), "{err}");
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(60))]
+
+    /// The spread sums rows merged by exponent: at any tau scale it must equal the sum
+    /// over every row taken one by one. Clocks and depths drawn from a few values, as in
+    /// a design, so that many rows merge.
+    #[test]
+    fn merged_terms_sum_as_the_rows_do(
+        rows in proptest::collection::vec((0usize..3, 1e3..1e8f64, 1u32..4, 1u32..40), 1..40),
+        scale in 0.3..3.0f64,
+    ) {
+        let clocks = [1.2e9, 4e8, 1.25e8];
+        let rows: Vec<(f64, f64, u32, u32)> =
+            rows.iter().map(|&(c, fd, s, n)| (clocks[c], fd, s, n)).collect();
+        let raw = RawInputs::from_pairs([
+            ("design", design_of(&rows)),
+            ("corners", example("budget-corners.csv")),
+        ]);
+        let case = BudgetCalculator::read(&raw).unwrap();
+        let r = &case.rollup;
+        let one_by_one = latchwise::budget::rollup::Rollup::worst(&r.totals(&r.stages, scale)).1;
+        let merged = r.log10_worst_at(scale);
+        prop_assert!((merged - one_by_one).abs() <= 1e-12 * one_by_one.abs().max(1.0),
+            "merged {merged} one by one {one_by_one}");
+    }
 }

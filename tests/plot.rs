@@ -137,7 +137,7 @@ fn comparator_charts_render_natively_with_their_lines() {
         "tau=15p&treg=80p&vmin=0.4&gain=4&input=nrz&amp=40m&sigma=4m&fs=5G&target-ber=1e-12",
     );
     let case = ComparatorCalculator::read(&raw).unwrap();
-    let plots = ComparatorCalculator::plots(&case);
+    let plots = ComparatorCalculator::plots(&case, &ComparatorCalculator::evaluate(&case));
     let ids: Vec<&str> = plots.iter().map(|p| p.id).collect();
     assert_eq!(
         ids,
@@ -165,7 +165,7 @@ fn comparator_charts_render_natively_with_their_lines() {
 /// Every plot of a case, drawn to SVG: what the page would draw.
 fn draw_all<C: Calculator>(q: &str) -> Vec<(Plot, latchwise::chart::Drawn)> {
     let case = C::read(&RawInputs::from_query(q)).unwrap_or_else(|e| panic!("{q}: {e}"));
-    C::plots(&case)
+    C::plots(&case, &C::evaluate(&case))
         .into_iter()
         .map(|p| {
             let mut out = String::new();
@@ -203,7 +203,7 @@ fn plots_reach_the_answer_and_clip_to_a_readable_span() {
         latchwise::synchronizer::StagesNeeded::Stages(n) => n as f64,
         other => panic!("{other:?}"),
     };
-    let stages = &SyncCalculator::plots(&case)[0];
+    let stages = &SyncCalculator::plots(&case, &SyncCalculator::evaluate(&case))[0];
     assert!(
         stages.points().last().unwrap().0 > need,
         "plot ends before {need} stages"
@@ -289,7 +289,7 @@ fn the_budget_line_stays_in_view_of_the_spread() {
         ("tw-sigma".to_string(), "0.3".to_string()),
     ]);
     let case = BudgetCalculator::read(&raw).unwrap();
-    let spread = BudgetCalculator::plots(&case)
+    let spread = BudgetCalculator::plots(&case, &BudgetCalculator::evaluate(&case))
         .into_iter()
         .find(|p| p.id == "plot-spread")
         .unwrap();

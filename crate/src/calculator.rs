@@ -14,7 +14,7 @@ use crate::readout::Readout;
 ///
 /// A readout's `name` is the report's JSON key and the `name` of the page's `<output>`;
 /// a field's `name` is its URL key and its command-line option.
-pub trait Calculator {
+pub trait Calculator: 'static {
     /// The command name (`latchwise NAME`), the page's `data-page` and its storage key.
     const NAME: &'static str;
     /// The page's title and the text report's heading.
@@ -35,9 +35,9 @@ pub trait Calculator {
     const OPERANDS: &'static [&'static str] = &[];
 
     /// A validated case; evaluating it cannot fail.
-    type Case;
+    type Case: 'static;
     /// Everything the case yields, as the command line's `--json` prints it.
-    type Report: Serialize;
+    type Report: Serialize + 'static;
 
     /// Reads raw named inputs into a case.
     ///
@@ -58,8 +58,9 @@ pub trait Calculator {
     /// What a person reads of a report, in display order.
     fn outcome(report: &Self::Report) -> Outcome;
 
-    /// The plots of a case, each keyed by its canvas id.
-    fn plots(case: &Self::Case) -> Vec<Plot>;
+    /// The plots of a case, each keyed by its canvas id (`report` is the case's own
+    /// evaluation, so that plots need not evaluate it again).
+    fn plots(case: &Self::Case, report: &Self::Report) -> Vec<Plot>;
 }
 
 /// What a person reads of a report: the inputs as understood, the results, and notes.
@@ -123,8 +124,11 @@ pub fn query_inputs<C: Calculator>(query: &str) -> RawInputs {
 /// the inputs are not valid or there is no such plot.
 pub fn plot_csv<C: Calculator>(raw: &RawInputs, plot: &str, link: &str) -> Option<String> {
     let case = C::read(raw).ok()?;
-    let p = C::plots(&case).into_iter().find(|p| p.id == plot)?;
-    let outcome = C::outcome(&C::evaluate(&case));
+    let report = C::evaluate(&case);
+    let p = C::plots(&case, &report)
+        .into_iter()
+        .find(|p| p.id == plot)?;
+    let outcome = C::outcome(&report);
     let mut preface = vec![format!("latchwise {}: {}", C::NAME, p.title)];
     preface.extend(outcome.inputs.iter().map(|(k, v)| format!("{k} = {v}")));
     if !link.is_empty() {

@@ -16,9 +16,14 @@ use wasm_bindgen::JsCast;
 use web_sys::CanvasRenderingContext2d;
 use web_sys::HtmlCanvasElement;
 
+use std::any::Any;
+use std::cell::RefCell;
+use std::rc::Rc;
+
 use crate::calculator::{plot_csv, query_inputs, Calculator, Visit};
 use crate::chart::{draw as draw_chart, Plot};
-use crate::params::{echo_fields, FieldEcho};
+use crate::error::ParamErrors;
+use crate::params::{echo_fields, FieldEcho, RawInputs};
 use crate::readout::Readout;
 use crate::registry::dispatch;
 use crate::reliability::CAUTION;
@@ -65,20 +70,61 @@ fn unknown(name: &str) -> JsError {
     JsError::new(&format!("no calculator is called '{name}'"))
 }
 
+/// A query as calculator `C` reads and evaluates it.
+struct Evaluation<C: Calculator> {
+    raw: RawInputs,
+    result: Result<(C::Case, C::Report), ParamErrors>,
+}
+
+/// A remembered evaluation: the calculator, the query, and its [`Evaluation`].
+type Remembered = Option<(&'static str, String, Rc<dyn Any>)>;
+
+thread_local! {
+    /// The last evaluation, by calculator and query: a page computes its numbers, then
+    /// draws its plots from the same query in the next frame, and a large design is read
+    /// and evaluated once for both.
+    static LAST: RefCell<Remembered> = const { RefCell::new(None) };
+}
+
+/// Calculator `C`'s evaluation of `query`, from the last one when it is the same.
+fn evaluation<C: Calculator>(query: &str) -> Rc<Evaluation<C>> {
+    LAST.with(|last| {
+        if let Some((name, q, value)) = &*last.borrow() {
+            if *name == C::NAME && q == query {
+                if let Ok(e) = Rc::clone(value).downcast::<Evaluation<C>>() {
+                    return e;
+                }
+            }
+        }
+        let raw = query_inputs::<C>(query);
+        let result = C::read(&raw).map(|case| {
+            let report = C::evaluate(&case);
+            (case, report)
+        });
+        let e = Rc::new(Evaluation::<C> { raw, result });
+        let value: Rc<dyn Any> = e.clone();
+        *last.borrow_mut() = Some((C::NAME, query.to_string(), value));
+        e
+    })
+}
+
 struct Page<'a>(&'a str);
 
 impl Visit for Page<'_> {
     type Out = PageState;
 
     fn visit<C: Calculator>(self) -> PageState {
-        let raw = query_inputs::<C>(self.0);
-        let result =
-            C::read(&raw).map(|case| (C::conflicts(&case), C::outcome(&C::evaluate(&case))));
+        let e = evaluation::<C>(self.0);
+        let raw = &e.raw;
+        let result = e
+            .result
+            .as_ref()
+            .map(|(case, report)| (C::conflicts(case), C::outcome(report)));
         let errors = match &result {
             Ok((conflicts, _)) => conflicts.clone(),
             Err(e) => e.0.clone(),
         };
-        let fields = echo_fields(&raw, C::FIELDS)
+        let fields = echo_fields(raw, C::FIELDS)
             .into_iter()
             .map(|echo| FieldState {
                 error: errors
@@ -118,9 +164,10 @@ impl Visit for Plots<'_> {
     type Out = Vec<Plot>;
 
     fn visit<C: Calculator>(self) -> Vec<Plot> {
-        C::read(&query_inputs::<C>(self.0))
-            .map(|case| C::plots(&case))
-            .unwrap_or_default()
+        match &evaluation::<C>(self.0).result {
+            Ok((case, report)) => C::plots(case, report),
+            Err(_) => Vec::new(),
+        }
     }
 }
 
@@ -151,8 +198,8 @@ impl Visit for Report<'_> {
     type Out = Result<JsValue, JsError>;
 
     fn visit<C: Calculator>(self) -> Result<JsValue, JsError> {
-        match C::read(&query_inputs::<C>(self.0)) {
-            Ok(case) => to_js(&C::evaluate(&case)),
+        match &evaluation::<C>(self.0).result {
+            Ok((_, report)) => to_js(report),
             Err(_) => Ok(JsValue::NULL),
         }
     }

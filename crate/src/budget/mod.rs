@@ -68,7 +68,7 @@ Example:
         report.outcome()
     }
 
-    fn plots(case: &BudgetCase) -> Vec<Plot> {
-        report::plots(case, &report::evaluate(case))
+    fn plots(case: &BudgetCase, report: &BudgetReport) -> Vec<Plot> {
+        report::plots(case, report)
     }
 }

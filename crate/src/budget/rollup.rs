@@ -210,7 +210,38 @@ impl Rollup {
 
     /// log10 of the worst corner's total with every tau times `scale`.
     pub fn log10_worst_at(&self, scale: f64) -> f64 {
-        Rollup::worst(&self.totals(&self.stages, scale)).1
+        self.terms().log10_worst_at(scale)
+    }
+
+    /// Each corner's rows (at their own stages) merged by exponent, for sums at many tau
+    /// scales: rows sharing resolution time and tau (the same clock, depth and corner,
+    /// as most rows of a design do) add their FIT at zero resolution time once.
+    pub fn terms(&self) -> Terms {
+        Terms(
+            (0..self.corners())
+                .map(|k| {
+                    let mut t: Vec<(f64, f64)> = self
+                        .cells
+                        .iter()
+                        .zip(&self.stages)
+                        .map(|(c, s)| {
+                            let c = &c[k];
+                            (c.log10_fit0, c.log10_fit0 - c.log10_fit(*s, 1.0))
+                        })
+                        .collect();
+                    t.sort_unstable_by(|a, b| a.1.total_cmp(&b.1));
+                    let mut merged: Vec<(f64, f64)> = Vec::new();
+                    let mut start = 0;
+                    for i in 1..=t.len() {
+                        if i == t.len() || t[i].1.to_bits() != t[start].1.to_bits() {
+                            merged.push((log10_sum(t[start..i].iter().map(|x| x.0)), t[start].1));
+                            start = i;
+                        }
+                    }
+                    merged
+                })
+                .collect(),
+        )
     }
 
     /// The distribution of log10 of the worst corner's total under the uncertainty, as
@@ -227,20 +258,21 @@ impl Rollup {
             .collect();
         let phi = |z: f64| 1.0 - ln_q(z).exp();
         if tau_sigma <= 0.0 || tw_sigma <= 0.0 {
-            let g = self.log10_worst_at(1.0);
+            let terms = self.terms();
+            let g = terms.log10_worst_at(1.0);
             return zs
                 .iter()
                 .map(|&z| {
                     let x = if tau_sigma <= 0.0 {
                         g + tw_sigma * z / LN_10
                     } else {
-                        self.log10_worst_at((tau_sigma * z).exp())
+                        terms.log10_worst_at((tau_sigma * z).exp())
                     };
                     (x, phi(z))
                 })
                 .collect();
         }
-        let nodes = self.spread_nodes(tau_sigma);
+        let nodes = self.terms().spread_nodes(tau_sigma);
         // From the total at tau's -3.5 sigma (node 45) to that at +3.5 sigma (node 115).
         let lo = nodes[45].1 - 3.5 * tw_sigma;
         let hi = nodes[115].1 + 3.5 * tw_sigma;
@@ -249,19 +281,6 @@ impl Rollup {
                 let x = lo + (hi - lo) * i as f64 / (n - 1) as f64;
                 let p = spread_cdf(&nodes, tw_sigma, x);
                 (x / LN_10, p.clamp(0.0, 1.0))
-            })
-            .collect()
-    }
-
-    /// The quadrature nodes of [`Rollup::percentiles`]: z from -8 to 8 by 0.1, each as
-    /// (trapezoid weight times the normal density at z, ln of the worst total with every
-    /// tau scaled by `exp(tau_sigma z)`).
-    fn spread_nodes(&self, tau_sigma: f64) -> Vec<(f64, f64)> {
-        (0..=160)
-            .map(|i| {
-                let z = -8.0 + 0.1 * f64::from(i);
-                let weight = (-0.5 * z * z).exp() / (2.0 * PI).sqrt() * 0.1;
-                (weight, self.log10_worst_at((tau_sigma * z).exp()) * LN_10)
             })
             .collect()
     }
@@ -285,13 +304,14 @@ impl Rollup {
                 .map(|&p| (g + tw_sigma * z_of(p)) / LN_10)
                 .collect();
         }
+        let terms = self.terms();
         if tw_sigma <= 0.0 {
             return ps
                 .iter()
-                .map(|&p| self.log10_worst_at((tau_sigma * z_of(p)).exp()))
+                .map(|&p| terms.log10_worst_at((tau_sigma * z_of(p)).exp()))
                 .collect();
         }
-        let nodes = self.spread_nodes(tau_sigma);
+        let nodes = terms.spread_nodes(tau_sigma);
         let lo = nodes.iter().map(|n| n.1).fold(f64::INFINITY, f64::min) - 10.0 * tw_sigma;
         let hi = nodes.iter().map(|n| n.1).fold(f64::NEG_INFINITY, f64::max) + 10.0 * tw_sigma;
         ps.iter()
@@ -302,7 +322,37 @@ impl Rollup {
     }
 }
 
-/// `P(ln T <= x)` by the quadrature over [`Rollup::spread_nodes`]: each node's weight
+/// A design's terms at each corner, as [`Rollup::terms`] merges them: (log10 of the
+/// summed FIT at zero resolution time, log10 of the factor resolution time divides it by
+/// at unit tau scale).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Terms(Vec<Vec<(f64, f64)>>);
+
+impl Terms {
+    /// log10 of the worst corner's total with every tau times `scale`: each term's
+    /// exponent divides by the scale, as tr / (tau scale) does.
+    pub fn log10_worst_at(&self, scale: f64) -> f64 {
+        self.0
+            .iter()
+            .map(|c| log10_sum(c.iter().map(|(p, e)| p - e / scale)))
+            .fold(f64::NEG_INFINITY, f64::max)
+    }
+
+    /// The quadrature nodes of [`Rollup::percentiles`]: z from -8 to 8 by 0.1, each as
+    /// (trapezoid weight times the normal density at z, ln of the worst total with every
+    /// tau scaled by `exp(tau_sigma z)`).
+    fn spread_nodes(&self, tau_sigma: f64) -> Vec<(f64, f64)> {
+        (0..=160)
+            .map(|i| {
+                let z = -8.0 + 0.1 * f64::from(i);
+                let weight = (-0.5 * z * z).exp() / (2.0 * PI).sqrt() * 0.1;
+                (weight, self.log10_worst_at((tau_sigma * z).exp()) * LN_10)
+            })
+            .collect()
+    }
+}
+
+/// `P(ln T <= x)` by the quadrature over [`Terms::spread_nodes`]: each node's weight
 /// times the normal probability that ln tw's shift keeps the total at most `x`.
 fn spread_cdf(nodes: &[(f64, f64)], tw_sigma: f64, x: f64) -> f64 {
     nodes

@@ -100,7 +100,7 @@ Example:
         report.outcome()
     }
 
-    fn plots(case: &Fitted) -> Vec<Plot> {
+    fn plots(case: &Fitted, _report: &Self::Report) -> Vec<Plot> {
         report::plots(case)
     }
 }

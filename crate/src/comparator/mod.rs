@@ -67,7 +67,7 @@ Example:
         report.outcome()
     }
 
-    fn plots(case: &CompCase) -> Vec<Plot> {
+    fn plots(case: &CompCase, _report: &Self::Report) -> Vec<Plot> {
         report::plots(case)
     }
 }

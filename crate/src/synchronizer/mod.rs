@@ -64,7 +64,7 @@ Example:
         report.outcome()
     }
 
-    fn plots(case: &SyncCase) -> Vec<Plot> {
+    fn plots(case: &SyncCase, _report: &Self::Report) -> Vec<Plot> {
         report::plots(case)
     }
 }
