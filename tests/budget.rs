@@ -389,3 +389,68 @@ proptest! {
             "merged {merged} one by one {one_by_one}");
     }
 }
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(200))]
+
+    /// The page's table editor writes a row with `table::join` and reads it with
+    /// `table::split`: every row of printable cells comes back cell for cell, and stays
+    /// one data row of the table (never a comment or a blank line).
+    #[test]
+    fn a_row_written_by_the_table_editor_reads_back(
+        cells in proptest::collection::vec("[ -~]{0,10}", 1..6),
+        d in 0usize..3,
+    ) {
+        use latchwise::table::{join, layout, split};
+        let delim = [',', ';', '\t'][d];
+        let cells: Vec<String> = cells.iter().map(|c| c.trim().to_string()).collect();
+        let line = join(&cells, delim);
+        prop_assert_eq!(split(&line, delim), cells.clone());
+        let header = vec!["h".to_string(); cells.len()];
+        let text = format!("{}\n{line}\n{line}\n", join(&header, delim));
+        let l = layout(&text);
+        prop_assert_eq!(l.rows, vec![1, 2]);
+        prop_assert_eq!(l.delimiter, if cells.len() > 1 { delim } else { ',' });
+    }
+}
+
+/// The figures beside the page's table rows are the report's: each row's FIT and share
+/// at the worst corner in file order, the fix plan's new depth on the rows it changes,
+/// and each corner's total.
+#[test]
+fn the_table_figures_are_the_reports() {
+    let raw = RawInputs::from_pairs([
+        ("design", example("budget-design.csv")),
+        ("corners", example("budget-corners.csv")),
+        ("budget-fit", "10".to_string()),
+    ]);
+    let case = BudgetCalculator::read(&raw).unwrap();
+    let report = BudgetCalculator::evaluate(&case);
+    let figures = BudgetCalculator::figures(&case, &report);
+    let design = &figures[0];
+    assert_eq!(design.field, "design");
+    let col = |k: &str| design.columns.iter().find(|c| c.key == k).unwrap();
+    let shares: f64 = col("share").values.iter().map(|v| v.unwrap()).sum();
+    assert!((shares - 1.0).abs() < 1e-12);
+    for (row, v) in report.rows.iter().zip(&col("log10_fit").values) {
+        assert_eq!(Some(row.log10_fit), *v);
+    }
+    let fix = report.fix.clone().flatten().unwrap();
+    assert!(!fix.is_empty());
+    let changed: Vec<(String, u32)> = report
+        .rows
+        .iter()
+        .zip(&col("fix").values)
+        .filter_map(|(r, v)| v.map(|s| (r.name.clone(), s as u32)))
+        .collect();
+    let planned: Vec<(String, u32)> = fix.iter().map(|f| (f.name.clone(), f.stages)).collect();
+    assert_eq!(changed, planned);
+    let corners = &figures[1];
+    assert_eq!(corners.field, "corners");
+    let totals: Vec<Option<f64>> = report
+        .corners
+        .iter()
+        .map(|c| Some(c.log10_total_fit))
+        .collect();
+    assert_eq!(corners.columns[0].values, totals);
+}

@@ -267,3 +267,63 @@ fn the_reproductions_that_once_printed_nan_inf_or_a_sentinel() {
         "{v}"
     );
 }
+
+/// A design shared as a compact link reads back exactly on the command line, in a link
+/// a fraction of the plain one's length; a link cut short is refused at its field.
+#[test]
+fn a_compact_design_link_reads_back_on_the_command_line() {
+    use latchwise::budget::BudgetCalculator;
+    use latchwise::calculator::compact_query;
+    let design = std::fs::read_to_string("examples/budget-design.csv").unwrap();
+    let corners = std::fs::read_to_string("examples/budget-corners.csv").unwrap();
+    let enc = |s: &str| {
+        s.bytes()
+            .map(|b| match b {
+                b'a'..=b'z' | b'A'..=b'Z' | b'0'..=b'9' | b'-' | b'.' | b'_' | b'*' => {
+                    char::from(b).to_string()
+                }
+                b' ' => "+".into(),
+                _ => format!("%{b:02X}"),
+            })
+            .collect::<String>()
+    };
+    let plain = format!(
+        "design={}&corners={}&budget-fit=10",
+        enc(&design),
+        enc(&corners)
+    );
+    let compact = compact_query::<BudgetCalculator>(&plain);
+    assert!(
+        compact.contains("design=~1") && compact.contains("corners=~1"),
+        "{compact}"
+    );
+    assert!(
+        compact.len() * 10 < plain.len() * 6,
+        "{} vs {}",
+        compact.len(),
+        plain.len()
+    );
+    let url = format!("file:///x/budget.html?{compact}");
+    let from_link = report(&["budget", "--from-url", &url]);
+    let from_files = report(&[
+        "budget",
+        "examples/budget-design.csv",
+        "--corners",
+        "examples/budget-corners.csv",
+        "--budget-fit",
+        "10",
+    ]);
+    assert_eq!(from_link["log10_total_fit"], from_files["log10_total_fit"]);
+    assert_eq!(from_link["rows"], from_files["rows"]);
+    assert_eq!(from_link["fix"], from_files["fix"]);
+    // The same link cut short inside the design's packed value.
+    let at = url.find("design=~1").unwrap() + 40;
+    let cut = &url[..at];
+    let out = latchwise(&["budget", "--from-url", cut]);
+    assert_eq!(out.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        err.contains("design: the packed value in the link cannot be read: its compressed data is cut short or altered"),
+        "{err}"
+    );
+}

@@ -61,6 +61,55 @@ pub trait Calculator: 'static {
     /// The plots of a case, each keyed by its canvas id (`report` is the case's own
     /// evaluation, so that plots need not evaluate it again).
     fn plots(case: &Self::Case, report: &Self::Report) -> Vec<Plot>;
+
+    /// Figures the page shows beside the data rows of its table fields (none by default).
+    fn figures(_case: &Self::Case, _report: &Self::Report) -> Vec<RowFigures> {
+        Vec::new()
+    }
+}
+
+/// Figures a page shows beside each data row of one of its table fields, in the order of
+/// the table's data rows (`table::layout`).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct RowFigures {
+    /// The table field, e.g. `design`.
+    pub field: &'static str,
+    /// The figures, column by column.
+    pub columns: Vec<FigureColumn>,
+}
+
+/// One column of [`RowFigures`].
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct FigureColumn {
+    /// Its key (the report's name for it).
+    pub key: &'static str,
+    /// Its heading.
+    pub label: String,
+    /// How a value reads: `log10` (a number given by its log10), `fraction` (shown as a
+    /// percentage) or `count`.
+    pub kind: &'static str,
+    /// Whether the table may sort by it, largest first.
+    pub sorts: bool,
+    /// One value per data row (`None`: does not apply to the row).
+    pub values: Vec<Option<f64>>,
+}
+
+/// A figure as the page's table shows it (see [`FigureColumn::kind`]).
+///
+/// # Examples
+/// ```
+/// use latchwise::calculator::format_figure;
+/// assert_eq!(format_figure("fraction", 0.4213), "42.1 %");
+/// assert_eq!(format_figure("log10", -3.5), "3.162e-4");
+/// assert_eq!(format_figure("count", 3.0), "3");
+/// ```
+pub fn format_figure(kind: &str, value: f64) -> String {
+    match kind {
+        "fraction" if value * 100.0 >= 0.1 || value == 0.0 => format!("{:.1} %", value * 100.0),
+        "fraction" => format!("{} %", crate::units::format_number(value * 100.0)),
+        "log10" => crate::units::format_log10(value, 4),
+        _ => crate::units::format_number(value),
+    }
 }
 
 /// What a person reads of a report: the inputs as understood, the results, and notes.
@@ -136,6 +185,17 @@ pub fn plot_csv<C: Calculator>(raw: &RawInputs, plot: &str, link: &str) -> Optio
     }
     preface.push(format!("{} is log10 of {}", p.y_name, p.y_label));
     Some(p.to_csv(&preface))
+}
+
+/// A link's query for calculator `C` with its long text values (data tables) packed,
+/// where that makes them shorter (see [`crate::link`]).
+pub fn compact_query<C: Calculator>(query: &str) -> String {
+    let texts: Vec<&str> = C::FIELDS
+        .iter()
+        .filter(|f| f.dim == crate::units::Dim::Text)
+        .map(|f| f.name)
+        .collect();
+    crate::link::pack_query(query, &texts)
 }
 
 /// Something to do with a calculator chosen by name at run time (see

@@ -83,6 +83,8 @@ pub enum ParamErrorKind {
         /// Values wanted (0: no list is possible here).
         wanted: usize,
     },
+    /// A packed value in a link that cannot be unpacked, and why.
+    Damaged(String),
     /// Problems in a table of data, each with its line and column.
     Table(Vec<String>),
     /// Data that cannot give the fit asked of it, and why.
@@ -198,6 +200,11 @@ impl fmt::Display for ParamError {
             ListLength { given, wanted } => write!(
                 f,
                 "{given} values given, {wanted} wanted: one per hop, stages - 1"
+            ),
+            Damaged(why) => write!(
+                f,
+                "the packed value in the link cannot be read: {why}; ask for a fresh link \
+                 or the CSV file"
             ),
             Table(problems) => write!(f, "{}", problems.join("\n")),
             Unfittable(why) => write!(f, "{why}"),

@@ -27,6 +27,7 @@ pub mod characterize;
 pub mod chart;
 pub mod comparator;
 pub mod error;
+pub mod link;
 pub mod numeric;
 pub mod params;
 pub mod quantity;

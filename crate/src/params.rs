@@ -116,7 +116,16 @@ impl RawInputs {
         };
         RawInputs::from_pairs(query.split('&').filter(|p| !p.is_empty()).map(|p| {
             match p.split_once('=') {
-                Some((k, v)) => (percent_decode(k), percent_decode(v)),
+                Some((k, v)) => {
+                    // A packed value unpacks here; a damaged one stays as it is and is
+                    // refused, with the reason, when its field is read.
+                    let v = percent_decode(v);
+                    let v = match crate::link::unpack(&v) {
+                        Some(Ok(text)) => text,
+                        _ => v,
+                    };
+                    (percent_decode(k), v)
+                }
                 None => (percent_decode(p), String::new()),
             }
         }))
@@ -218,8 +227,14 @@ impl<'a> FieldReader<'a> {
     }
 
     /// The trimmed text given for the field, `None` when absent or blank.
-    pub fn text(&self, spec: &FieldSpec) -> Option<&'a str> {
-        self.raw.get_nonblank(spec.name).map(str::trim)
+    /// A packed value that could not be unpacked (see [`crate::link`]) is an error.
+    pub fn text(&mut self, spec: &FieldSpec) -> Option<&'a str> {
+        let text = self.raw.get_nonblank(spec.name).map(str::trim)?;
+        if let Some(Err(why)) = crate::link::unpack(text) {
+            self.push(ParamError::new(spec.name, ParamErrorKind::Damaged(why)));
+            return None;
+        }
+        Some(text)
     }
 
     /// Records an error found by the caller.

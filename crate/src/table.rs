@@ -5,6 +5,8 @@
 
 use std::fmt;
 
+use serde::Serialize;
+
 use crate::error::ParamErrorKind;
 use crate::quantity::parse;
 use crate::units::Dim;
@@ -125,6 +127,103 @@ impl Table {
     }
 }
 
+/// Where a table's rows are in its text: what an editor of the table needs to change one
+/// row's line and leave every other line (comments, blank lines) as it is.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Layout {
+    /// The delimiter found from the header.
+    pub delimiter: char,
+    /// The header's line, 0-based (`None`: the text has no header yet).
+    pub header: Option<usize>,
+    /// Each data row's line, 0-based, in order.
+    pub rows: Vec<usize>,
+}
+
+/// The lines that hold the table, 1-based with their text: not blank, not `#` comments.
+fn content_lines(text: &str) -> impl Iterator<Item = (usize, &str)> {
+    text.lines()
+        .enumerate()
+        .map(|(i, l)| (i + 1, l.trim_end_matches('\r')))
+        .filter(|(_, l)| !l.trim().is_empty() && !l.trim_start().starts_with('#'))
+}
+
+/// The delimiter of a table from its header: the most frequent of comma, semicolon and
+/// tab (comma when there is none).
+fn delimiter(header: &str) -> char {
+    [',', ';', '\t']
+        .into_iter()
+        .max_by_key(|d| header.matches(*d).count())
+        .filter(|d| header.contains(*d))
+        .unwrap_or(',')
+}
+
+/// Where the header and data rows of `text` are, as [`read`] finds them.
+///
+/// # Examples
+/// ```
+/// use latchwise::table::layout;
+/// let l = layout("# chip\nname;fclk\n\na;1GHz\nb;2GHz\n");
+/// assert_eq!((l.delimiter, l.header, l.rows), (';', Some(1), vec![3, 4]));
+/// ```
+pub fn layout(text: &str) -> Layout {
+    let mut lines = content_lines(text);
+    let Some((h, header)) = lines.next() else {
+        return Layout {
+            delimiter: ',',
+            header: None,
+            rows: Vec::new(),
+        };
+    };
+    Layout {
+        delimiter: delimiter(header),
+        header: Some(h - 1),
+        rows: lines.map(|(i, _)| i - 1).collect(),
+    }
+}
+
+/// One row's cells as a line at `delim`, quoted as RFC 4180 does where a cell needs it
+/// (a delimiter, a quote, spaces at its ends, or a `#` that would start a comment), so
+/// that [`split`] reads the same cells back.
+///
+/// # Examples
+/// ```
+/// use latchwise::table::{join, split};
+/// let row = vec!["bus \"a\", b".to_string(), "1GHz".to_string()];
+/// let line = join(&row, ',');
+/// assert_eq!(line, "\"bus \"\"a\"\", b\",1GHz");
+/// assert_eq!(split(&line, ','), row);
+/// ```
+pub fn join(cells: &[String], delim: char) -> String {
+    let line = cells
+        .iter()
+        .enumerate()
+        .map(|(i, c)| {
+            let c = c.replace(['\n', '\r'], " ");
+            let needs = c.contains(delim)
+                || c.contains('"')
+                || c.trim() != c
+                || (i == 0 && c.starts_with('#'));
+            if needs {
+                format!("\"{}\"", c.replace('"', "\"\""))
+            } else {
+                c
+            }
+        })
+        .collect::<Vec<_>>()
+        .join(&delim.to_string());
+    // A row of blank cells must not read as a blank line (which is skipped).
+    if line.trim().is_empty() {
+        format!("\"\"{line}")
+    } else {
+        line
+    }
+}
+
+/// One line's cells at `delim`, as [`read`] splits them.
+pub fn split(line: &str, delim: char) -> Vec<String> {
+    cells(line, delim)
+}
+
 /// Splits one line into cells at `delim`, honouring double quotes ("" inside quotes is
 /// a quote).
 fn cells(line: &str, delim: char) -> Vec<String> {
@@ -166,11 +265,7 @@ fn cells(line: &str, delim: char) -> Vec<String> {
 /// ```
 pub fn read(text: &str, columns: &[Column]) -> Result<Table, Vec<CellError>> {
     let mut errors = Vec::new();
-    let mut lines = text
-        .lines()
-        .enumerate()
-        .map(|(i, l)| (i + 1, l.trim_end_matches('\r')))
-        .filter(|(_, l)| !l.trim().is_empty() && !l.trim_start().starts_with('#'));
+    let mut lines = content_lines(text);
     let Some((header_line, header)) = lines.next() else {
         return Err(vec![CellError {
             line: 1,
@@ -179,11 +274,7 @@ pub fn read(text: &str, columns: &[Column]) -> Result<Table, Vec<CellError>> {
                 .into(),
         }]);
     };
-    let delim = [',', ';', '\t']
-        .into_iter()
-        .max_by_key(|d| header.matches(*d).count())
-        .filter(|d| header.contains(*d))
-        .unwrap_or(',');
+    let delim = delimiter(header);
     let names: Vec<String> = cells(header, delim)
         .into_iter()
         .map(|n| n.to_ascii_lowercase())

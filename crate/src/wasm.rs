@@ -20,7 +20,9 @@ use std::any::Any;
 use std::cell::RefCell;
 use std::rc::Rc;
 
-use crate::calculator::{plot_csv, query_inputs, Calculator, Visit};
+use crate::calculator::{
+    compact_query as compact, plot_csv, query_inputs, Calculator, RowFigures, Visit,
+};
 use crate::chart::{draw as draw_chart, Plot};
 use crate::error::ParamErrors;
 use crate::params::{echo_fields, FieldEcho, RawInputs};
@@ -56,6 +58,7 @@ struct PageState {
     ignored_total: usize,
     unused: Vec<&'static str>,
     caution: &'static str,
+    figures: Vec<RowFigures>,
 }
 
 /// The most unknown link parameters the page names; the rest are counted.
@@ -146,7 +149,11 @@ impl Visit for Page<'_> {
             ignored_total,
             unused: Vec::new(),
             caution: CAUTION,
+            figures: Vec::new(),
         };
+        if let Ok((case, report)) = &e.result {
+            state.figures = C::figures(case, report);
+        }
         if let Ok((_, o)) = result {
             state.readouts = o.readouts;
             state.facts = o.facts;
@@ -287,6 +294,54 @@ pub fn draw_plot(
         Some(p) => draw_into(p, canvas, scale),
         None => Ok(false),
     }
+}
+
+struct Compact<'a>(&'a str);
+
+impl Visit for Compact<'_> {
+    type Out = String;
+
+    fn visit<C: Calculator>(self) -> String {
+        compact::<C>(self.0)
+    }
+}
+
+/// The query of calculator `name`'s page as its links and storage hold it: data tables
+/// packed where that makes them shorter.
+///
+/// # Errors
+/// An unknown calculator.
+#[wasm_bindgen]
+pub fn compact_query(name: &str, query: &str) -> Result<String, JsError> {
+    dispatch(name, Compact(query)).ok_or_else(|| unknown(name))
+}
+
+/// Where the header and data rows of a table's text are (0-based lines): what the page's
+/// table editor changes one row by.
+///
+/// # Errors
+/// A layout that cannot be converted to a JS value.
+#[wasm_bindgen]
+pub fn table_layout(text: &str) -> Result<JsValue, JsError> {
+    to_js(&crate::table::layout(text))
+}
+
+/// One line's cells, as the core reads them.
+#[wasm_bindgen]
+pub fn table_split(line: &str, delimiter: char) -> Vec<String> {
+    crate::table::split(line, delimiter)
+}
+
+/// One row's cells as a line, quoted where a cell needs it.
+#[wasm_bindgen]
+pub fn table_join(cells: Vec<String>, delimiter: char) -> String {
+    crate::table::join(&cells, delimiter)
+}
+
+/// A figure of a table's row as the page shows it.
+#[wasm_bindgen]
+pub fn format_figure(kind: &str, value: f64) -> String {
+    crate::calculator::format_figure(kind, value)
 }
 
 /// The version of the core, for printed reports.

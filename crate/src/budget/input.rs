@@ -42,6 +42,8 @@ pub struct BudgetCase {
     pub tr_given: Vec<bool>,
     /// Corner names.
     pub corners: Vec<String>,
+    /// Whether the corners come from the corners table (else the one corner `given`).
+    pub corners_from_table: bool,
     /// The FIT budget.
     pub budget_fit: Option<f64>,
     /// The fleet.
@@ -171,6 +173,7 @@ impl BudgetCase {
     /// Every problem found, the design's and the corners' each with its line and column.
     pub fn from_inputs(raw: &RawInputs) -> Result<BudgetCase, ParamErrors> {
         let mut r = FieldReader::new(raw);
+        let corners_from_table = r.has(&CORNERS);
         let corners = read_corners(&mut r);
         let budget_fit = r.optional(&BUDGET_FIT, positive_number);
         let fleet = match (r.has(&DEVICES), r.has(&SERVICE_YEARS)) {
@@ -306,6 +309,7 @@ impl BudgetCase {
             names,
             tr_given,
             corners: corners.into_iter().map(|c| c.name).collect(),
+            corners_from_table,
             budget_fit,
             fleet,
             sigmas,

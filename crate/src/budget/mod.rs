@@ -10,7 +10,7 @@ pub mod input;
 pub mod report;
 pub mod rollup;
 
-use crate::calculator::{Calculator, Outcome};
+use crate::calculator::{Calculator, Outcome, RowFigures};
 use crate::chart::Plot;
 use crate::error::ParamErrors;
 use crate::params::{FieldSpec, RawInputs};
@@ -70,5 +70,9 @@ Example:
 
     fn plots(case: &BudgetCase, report: &BudgetReport) -> Vec<Plot> {
         report::plots(case, report)
+    }
+
+    fn figures(case: &BudgetCase, report: &BudgetReport) -> Vec<RowFigures> {
+        report::figures(case, report)
     }
 }

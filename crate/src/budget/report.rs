@@ -3,7 +3,7 @@
 
 use serde::Serialize;
 
-use crate::calculator::Outcome;
+use crate::calculator::{FigureColumn, Outcome, RowFigures};
 use crate::chart::series::{Curve, Plot, Spacing};
 use crate::params::serialize_pairs;
 use crate::readout::Readout;
@@ -96,6 +96,9 @@ pub struct BudgetReport {
     pub warnings: Vec<String>,
     /// The standing caution.
     pub caution: &'static str,
+    /// Every row's stages after the fix plan (the JSON lists the changed rows in `fix`).
+    #[serde(skip)]
+    pub stages_after_fix: Option<Vec<u32>>,
 }
 
 /// Evaluates a budget case.
@@ -223,7 +226,64 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
         not_applicable,
         warnings,
         caution: CAUTION,
+        stages_after_fix: fixed.flatten(),
     }
+}
+
+/// The figures beside the design's rows (FIT at the worst corner, share, stages after
+/// the fix) and beside the corners' rows (total FIT), for the page's tables.
+pub fn figures(c: &BudgetCase, report: &BudgetReport) -> Vec<RowFigures> {
+    let mut design = vec![
+        FigureColumn {
+            key: "log10_fit",
+            label: format!("FIT at {}", report.worst_corner),
+            kind: "log10",
+            sorts: true,
+            values: report.rows.iter().map(|r| Some(r.log10_fit)).collect(),
+        },
+        FigureColumn {
+            key: "share",
+            label: "share".into(),
+            kind: "fraction",
+            sorts: true,
+            values: report.rows.iter().map(|r| Some(r.share)).collect(),
+        },
+    ];
+    if let Some(after) = &report.stages_after_fix {
+        design.push(FigureColumn {
+            key: "fix",
+            label: "stages after the fix".into(),
+            kind: "count",
+            sorts: false,
+            values: after
+                .iter()
+                .zip(&c.rollup.stages)
+                .zip(&c.tr_given)
+                .map(|((a, s), tr)| (!tr && a != s).then_some(f64::from(*a)))
+                .collect(),
+        });
+    }
+    let mut out = vec![RowFigures {
+        field: "design",
+        columns: design,
+    }];
+    if c.corners_from_table {
+        out.push(RowFigures {
+            field: "corners",
+            columns: vec![FigureColumn {
+                key: "log10_total_fit",
+                label: "total FIT".into(),
+                kind: "log10",
+                sorts: false,
+                values: report
+                    .corners
+                    .iter()
+                    .map(|k| Some(k.log10_total_fit))
+                    .collect(),
+            }],
+        });
+    }
+    out
 }
 
 impl BudgetReport {
