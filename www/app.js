@@ -13,6 +13,8 @@
   var asideKey = storeKey + ':set-aside';
   var defaults = {};
   var ready = false;
+  // The editable tables over data text areas (grid.js), once the core is ready.
+  var grids = [];
   var undoQuery = null;
 
   function each(selector, fn) {
@@ -54,7 +56,8 @@
       fillPairs(wasm_bindgen.read_query(page, q));
     } else {
       var pairs = [];
-      new URLSearchParams(q).forEach(function (v, k) { pairs.push([k, v]); });
+      // A packed table (see compactQuery) waits for the core to unpack it.
+      new URLSearchParams(q).forEach(function (v, k) { pairs.push([k, v.indexOf('~1') === 0 ? '' : v]); });
       fillPairs(pairs);
     }
   }
@@ -159,6 +162,7 @@
       note('Ignored unknown parameters in the link: ' + state.ignored.join(', ') +
         (more > 0 ? ' and ' + more + ' more' : ''));
     }
+    grids.forEach(function (g) { g.refresh(state); });
     document.getElementById('caution').textContent = state.caution;
     document.body.dataset.valid = state.ok ? 'yes' : 'no';
     carryLinks();
@@ -211,7 +215,10 @@
     plotsQueued = true;
     requestAnimationFrame(function () {
       plotsQueued = false;
+      var t0 = performance.now();
       try { draw(query()); } catch (e) { fatal('Internal error while drawing: ' + e); }
+      // The page benchmark (scripts/bench-pages) reads the work of each frame here.
+      document.body.dataset.drawMs = (performance.now() - t0).toFixed(2);
     });
   }
 
@@ -232,9 +239,27 @@
   // The longest link "Copy link" offers; see the copy-link handler.
   var LINK_MOST_CHARS = 8000;
 
+  // The query as links and storage hold it: data tables packed (deflated) by the core
+  // where that makes them shorter; the command line's --from-url reads it as well.
+  function compactQuery(q) {
+    return ready ? wasm_bindgen.compact_query(page, q) : q;
+  }
+
+  // Queries longer than this are saved once typing pauses, not on every frame: packing a
+  // large design takes longer than a frame.
+  var SAVE_AT_ONCE_CHARS = 20000;
+  var saveTimer = null;
+
+  function saveNow(q) {
+    var c = compactQuery(q);
+    try { history.replaceState(null, '', '?' + c + location.hash); } catch (e) { /* file:// in some browsers */ }
+    store(storeKey, c);
+  }
+
   function save(q) {
-    try { history.replaceState(null, '', '?' + q + location.hash); } catch (e) { /* file:// in some browsers */ }
-    store(storeKey, q);
+    if (saveTimer !== null) { clearTimeout(saveTimer); saveTimer = null; }
+    if (q.length <= SAVE_AT_ONCE_CHARS) { saveNow(q); return; }
+    saveTimer = setTimeout(function () { saveTimer = null; saveNow(query()); }, 400);
   }
 
   function update(fromUser) {
@@ -244,9 +269,11 @@
     frameQueued = true;
     requestAnimationFrame(function () {
       frameQueued = false;
+      var t0 = performance.now();
       var q = query();
       if (!compute(q)) return;
       if (saveQueued) { saveQueued = false; save(q); }
+      document.body.dataset.computeMs = (performance.now() - t0).toFixed(2);
       schedulePlots();
     });
   }
@@ -286,7 +313,7 @@
   }
 
   function link() {
-    return location.href.split('?')[0].split('#')[0] + '?' + query();
+    return location.href.split('?')[0].split('#')[0] + '?' + compactQuery(query());
   }
 
   // A PNG of one plot at twice its size, with a caption naming the case.
@@ -318,6 +345,48 @@
     } finally {
       off.remove();
     }
+  }
+
+  // A data text area as printed: every line up to a page or so, then a count.
+  function printText(t) {
+    var lines = t.value.replace(/\s+$/, '').split('\n');
+    var shown = lines.slice(0, PRINT_MOST_LINES).join('\n');
+    if (lines.length > PRINT_MOST_LINES) {
+      shown += '\n… and ' + (lines.length - PRINT_MOST_LINES) + ' more lines (Save CSV has them all)';
+    }
+    return shown;
+  }
+
+  // The page's printed sign-off report (signoff.js), from the core's report.
+  function printSignoff(section, stamp) {
+    var report = wasm_bindgen.report(page, query());
+    if (report === null || report === undefined) {
+      section.textContent = 'The inputs have errors (marked at their fields): there is no sign-off report to print.';
+      return;
+    }
+    var corners = null;
+    var area = form.elements.namedItem('corners');
+    if (area && area.value.trim() !== '') {
+      var l = wasm_bindgen.table_layout(area.value);
+      var lines = area.value.split('\n');
+      if (l.header !== null) {
+        corners = {
+          header: wasm_bindgen.table_split(lines[l.header], l.delimiter),
+          rows: l.rows.map(function (i) { return wasm_bindgen.table_split(lines[i], l.delimiter); })
+        };
+      }
+    }
+    window.LatchwiseSignoff(section, {
+      report: report,
+      out: function (name) {
+        var o = document.querySelector('output[name="' + name + '"]');
+        return o ? o.textContent : '';
+      },
+      corners: corners,
+      designText: function (name) { return printText(form.elements.namedItem(name)); },
+      stamp: stamp,
+      caution: document.getElementById('caution').textContent
+    });
   }
 
   function wire() {
@@ -442,16 +511,21 @@
           pre.className = 'print-only print-text';
           t.parentNode.insertBefore(pre, t.nextSibling);
         }
-        var lines = t.value.replace(/\s+$/, '').split('\n');
-        var shown = lines.slice(0, PRINT_MOST_LINES).join('\n');
-        if (lines.length > PRINT_MOST_LINES) {
-          shown += '\n… and ' + (lines.length - PRINT_MOST_LINES) + ' more lines (Save CSV has them all)';
-        }
-        pre.textContent = shown;
+        pre.textContent = printText(t);
       });
+      var signoff = document.getElementById('signoff');
+      if (signoff && window.LatchwiseSignoff) {
+        try { printSignoff(signoff, stamp ? stamp.textContent : ''); } catch (e) {
+          signoff.textContent = 'The sign-off report could not be built: ' + e;
+        }
+      }
       try { draw(query()); } catch (e) { /* the screen plots stay */ }
     });
     window.addEventListener('afterprint', function () { schedulePlots(); });
+    // A save still waiting for typing to pause is made before the page goes.
+    window.addEventListener('pagehide', function () {
+      if (saveTimer !== null) { clearTimeout(saveTimer); saveTimer = null; saveNow(query()); }
+    });
     // Once print styles apply, the canvases have their paper size: draw them at it.
     if (window.matchMedia) {
       var printing = window.matchMedia('print');
@@ -517,6 +591,12 @@
       ready = true;
       var initial = q === '' ? query() : q;
       if (q !== '') fill(q);
+      each('textarea[data-grid]', function (t) {
+        grids.push(new window.LatchwiseGrid(t, {
+          changed: function () { update(true); },
+          drop: readInto
+        }));
+      });
       var ok = compute(initial);
       document.body.dataset.firstResultMs = performance.now().toFixed(1);
       requestAnimationFrame(function () {

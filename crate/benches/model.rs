@@ -1,7 +1,10 @@
-//! Criterion benchmarks of the synchronizer model: one evaluation, and a 1e6-point sweep.
+//! Criterion benchmarks of the models: one evaluation, 1e6-point sweeps, and a
+//! 10,000-row design budget.
 #![allow(missing_docs, clippy::unwrap_used)]
 
 use criterion::{criterion_group, criterion_main, Criterion};
+use latchwise::budget::BudgetCalculator;
+use latchwise::calculator::Calculator;
 use latchwise::comparator::sweep::p_vs_tau;
 use latchwise::comparator::{self, CompCase};
 use latchwise::numeric::normal::ln_q;
@@ -62,6 +65,45 @@ fn bench(c: &mut Criterion) {
     c.bench_function("normal/ln_q_1000_large_arguments", |b| {
         b.iter(|| black_box(&xs).iter().map(|&x| ln_q(x)).sum::<f64>())
     });
+
+    // A 10,000-row design at the demo's three corners, with the demo's budget and
+    // uncertainty: what the budget page does on every edit, reading and evaluating apart.
+    let clocks = ["1.2GHz", "400MHz", "125MHz"];
+    let rates = ["1kHz", "1MHz", "20MHz", "100MHz"];
+    let mut design = String::from("name,fclk,fdata,stages,count\n");
+    for i in 0..10_000 {
+        design.push_str(&format!(
+            "x{i},{},{},{},{}\n",
+            clocks[i % 3],
+            rates[i % 4],
+            [2, 2, 2, 3][i % 4],
+            [1, 1, 8, 32][i % 4]
+        ));
+    }
+    let raw = RawInputs::from_pairs([
+        ("design", design),
+        (
+            "corners",
+            include_str!("../../examples/budget-corners.csv").to_string(),
+        ),
+        ("budget-fit", "10".into()),
+        ("tau-sigma", "0.05".into()),
+        ("tw-sigma", "0.3".into()),
+    ]);
+    let mut g = c.benchmark_group("budget_10k_rows");
+    g.sample_size(20);
+    g.bench_function("read", |b| {
+        b.iter(|| BudgetCalculator::read(black_box(&raw)).unwrap())
+    });
+    let case = BudgetCalculator::read(&raw).unwrap();
+    g.bench_function("evaluate", |b| {
+        b.iter(|| BudgetCalculator::evaluate(black_box(&case)))
+    });
+    g.bench_function("fix_plan", |b| b.iter(|| black_box(&case).rollup.fix(1.0)));
+    g.bench_function("percentiles", |b| {
+        b.iter(|| black_box(&case).rollup.percentiles(0.05, 0.3, &[0.5, 0.95]))
+    });
+    g.finish();
 }
 
 criterion_group!(benches, bench);

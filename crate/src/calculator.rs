@@ -100,13 +100,15 @@ pub struct FigureColumn {
 /// ```
 /// use latchwise::calculator::format_figure;
 /// assert_eq!(format_figure("fraction", 0.4213), "42.1 %");
+/// assert_eq!(format_figure("fraction", 2e-7), "< 0.001 %");
 /// assert_eq!(format_figure("log10", -3.5), "3.162e-4");
 /// assert_eq!(format_figure("count", 3.0), "3");
 /// ```
 pub fn format_figure(kind: &str, value: f64) -> String {
     match kind {
         "fraction" if value * 100.0 >= 0.1 || value == 0.0 => format!("{:.1} %", value * 100.0),
-        "fraction" => format!("{} %", crate::units::format_number(value * 100.0)),
+        "fraction" if value * 100.0 >= 0.001 => format!("{:.3} %", value * 100.0),
+        "fraction" => "< 0.001 %".into(),
         "log10" => crate::units::format_log10(value, 4),
         _ => crate::units::format_number(value),
     }

@@ -124,8 +124,11 @@ pub fn parse(field: &'static str, text: &str, dim: Dim) -> Result<f64, ParamErro
     if t.is_empty() {
         return Err(err(ParamErrorKind::Missing));
     }
-    let lower = t.trim_start_matches(['+', '-']).to_ascii_lowercase();
-    if ["inf", "infinity", "nan"].contains(&lower.as_str()) {
+    let unsigned = t.trim_start_matches(['+', '-']);
+    if ["inf", "infinity", "nan"]
+        .iter()
+        .any(|w| unsigned.eq_ignore_ascii_case(w))
+    {
         return Err(err(ParamErrorKind::NotFinite(t.to_string())));
     }
     let n = number_prefix_len(t);
@@ -167,9 +170,8 @@ pub fn parse(field: &'static str, text: &str, dim: Dim) -> Result<f64, ParamErro
         None => (num, 0),
     };
     let total = e10.saturating_add(i64::from(exp));
-    let value: f64 = format!("{mantissa}e{total}")
-        .parse()
-        .map_err(|_| err(ParamErrorKind::NotANumber(t.to_string())))?;
+    let value =
+        scaled(mantissa, total).ok_or_else(|| err(ParamErrorKind::NotANumber(t.to_string())))?;
     if !value.is_finite() {
         return Err(err(ParamErrorKind::Overflow(t.to_string())));
     }
@@ -179,6 +181,38 @@ pub fn parse(field: &'static str, text: &str, dim: Dim) -> Result<f64, ParamErro
         return Err(err(ParamErrorKind::Underflow(t.to_string())));
     }
     Ok(value)
+}
+
+/// `mantissa` times ten to the `e10`, read as one decimal text (`20e-12`) so that the
+/// result is the nearest double to the exact decimal value; written on the stack for the
+/// usual short mantissa.
+fn scaled(mantissa: &str, e10: i64) -> Option<f64> {
+    let mut buf = [0u8; 64];
+    let m = mantissa.as_bytes();
+    let mut exp = [0u8; 24];
+    let mut k = exp.len();
+    let mut e = e10.unsigned_abs();
+    loop {
+        k -= 1;
+        exp[k] = b'0' + (e % 10) as u8;
+        e /= 10;
+        if e == 0 {
+            break;
+        }
+    }
+    if e10 < 0 {
+        k -= 1;
+        exp[k] = b'-';
+    }
+    let digits = &exp[k..];
+    let len = m.len() + 1 + digits.len();
+    if len > buf.len() {
+        return format!("{mantissa}e{e10}").parse().ok();
+    }
+    buf[..m.len()].copy_from_slice(m);
+    buf[m.len()] = b'e';
+    buf[m.len() + 1..len].copy_from_slice(digits);
+    std::str::from_utf8(&buf[..len]).ok()?.parse().ok()
 }
 
 /// The decimal exponent written after `e`. The digits were checked by

@@ -3,6 +3,7 @@
 //! follow RFC 4180, and every cell is read in engineering notation for its column. Every
 //! problem is reported at once with its line and column; nothing is half-read.
 
+use std::borrow::Cow;
 use std::fmt;
 
 use serde::Serialize;
@@ -222,11 +223,17 @@ pub fn join(cells: &[String], delim: char) -> String {
 /// One line's cells at `delim`, as [`read`] splits them.
 pub fn split(line: &str, delim: char) -> Vec<String> {
     cells(line, delim)
+        .into_iter()
+        .map(Cow::into_owned)
+        .collect()
 }
 
-/// Splits one line into cells at `delim`, honouring double quotes ("" inside quotes is
-/// a quote).
-fn cells(line: &str, delim: char) -> Vec<String> {
+/// Splits one line into trimmed cells at `delim`, honouring double quotes ("" inside
+/// quotes is a quote). A line without quotes is cut into slices of itself, with no copy.
+fn cells(line: &str, delim: char) -> Vec<Cow<'_, str>> {
+    if !line.contains('"') {
+        return line.split(delim).map(|c| Cow::Borrowed(c.trim())).collect();
+    }
     let mut out = Vec::new();
     let mut cur = String::new();
     let mut quoted = false;
@@ -243,7 +250,9 @@ fn cells(line: &str, delim: char) -> Vec<String> {
         }
     }
     out.push(cur);
-    out.into_iter().map(|c| c.trim().to_string()).collect()
+    out.into_iter()
+        .map(|c| Cow::Owned(c.trim().to_string()))
+        .collect()
 }
 
 /// Reads `text` as a table with the given columns.
@@ -276,7 +285,7 @@ pub fn read(text: &str, columns: &[Column]) -> Result<Table, Vec<CellError>> {
     };
     let delim = delimiter(header);
     let names: Vec<String> = cells(header, delim)
-        .into_iter()
+        .iter()
         .map(|n| n.to_ascii_lowercase())
         .collect();
     let known: Vec<&str> = columns.iter().map(|c| c.name).collect();
@@ -336,7 +345,7 @@ pub fn read(text: &str, columns: &[Column]) -> Result<Table, Vec<CellError>> {
             let cell = &row[i];
             if c.dim == Dim::Text {
                 if let Some(col) = texts[k].as_mut() {
-                    col.push(cell.clone());
+                    col.push(cell.to_string());
                 }
                 continue;
             }

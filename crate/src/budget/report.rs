@@ -252,7 +252,7 @@ pub fn figures(c: &BudgetCase, report: &BudgetReport) -> Vec<RowFigures> {
     if let Some(after) = &report.stages_after_fix {
         design.push(FigureColumn {
             key: "fix",
-            label: "stages after the fix".into(),
+            label: "fix: stages".into(),
             kind: "count",
             sorts: false,
             values: after

@@ -1,0 +1,443 @@
+// latchwise pages: an editable table over a data text area (textarea[data-grid]).
+// The text area stays the case (the form's value, the link, storage, Save CSV); the
+// table is a view of its rows that writes each edit back into the text, leaving every
+// other line (comments, blank lines) as it was. The core finds the rows, splits and
+// joins cells (the same reader as the command line); only the rows in view are in the
+// page, so a table of 10,000 rows scrolls and edits as quickly as one of ten.
+(function () {
+  'use strict';
+
+  // One row's height in CSS pixels: the .grid-table row height in style.css.
+  var ROW_PX = 30;
+  // Rows drawn beyond each edge of the view, so that scrolling shows no gap.
+  var OVERSCAN = 6;
+  // The most snapshots Undo keeps.
+  var UNDO_MOST = 100;
+  // Changes to the text from outside the table (typing in the text view, a file, the
+  // demo) within this many milliseconds are undone as one.
+  var BURST_MS = 1500;
+
+  function el(tag, attrs, text) {
+    var e = document.createElement(tag);
+    Object.keys(attrs || {}).forEach(function (k) { e.setAttribute(k, attrs[k]); });
+    if (text !== undefined) e.textContent = text;
+    return e;
+  }
+
+  // Problems the core reported for this field, by 0-based line: "…, line N, column C: …".
+  function problemsByLine(message) {
+    var out = {};
+    (message || '').split('\n').forEach(function (m) {
+      var hit = /\bline (\d+)(?:, columns? ([^:]+))?:/.exec(m);
+      if (!hit) return;
+      var line = Number(hit[1]) - 1;
+      var p = out[line] || (out[line] = { messages: [], columns: [] });
+      p.messages.push(m);
+      if (hit[2]) hit[2].split(',').forEach(function (c) { p.columns.push(c.trim()); });
+    });
+    return out;
+  }
+
+  function Grid(area, hooks) {
+    var self = this;
+    var noun = area.dataset.gridNoun || 'rows';
+    var field = area.name;
+    var text = null;        // the text the table shows
+    var lines = [];         // its lines
+    var layout = { delimiter: ',', header: null, rows: [] };
+    var header = [];        // the header's cells
+    var figures = null;     // { columns: [...] } for this field, or null
+    var problems = {};      // by line
+    var order = [];         // data row indices in display order
+    var selected = -1;      // a data row index
+    var undo = [];
+    var lastOutside = 0;
+    var editing = '';       // the cell being typed in, so that one cell's typing is one undo step
+    var forceValues = false; // set while undoing: even the focused cell takes the text's value
+
+    var box = el('div', { class: 'grid', id: 'grid-' + field });
+    var bar = el('div', { class: 'grid-bar', role: 'toolbar', 'aria-label': noun + ' table' });
+    function button(act, label, title) {
+      var b = el('button', { type: 'button', 'data-act': act, title: title }, label);
+      bar.appendChild(b);
+      return b;
+    }
+    var addB = button('add', 'Add row', 'Add a row below the selected one');
+    var dupB = button('duplicate', 'Duplicate', 'Copy the selected row below it');
+    var delB = button('delete', 'Delete', 'Delete the selected row');
+    var undoB = button('undo', 'Undo', 'Undo the last change to this table');
+    var orderL = el('label', { class: 'grid-order' }, 'order ');
+    var orderS = el('select', { 'data-act': 'order', 'aria-label': 'Order of the rows' });
+    orderS.appendChild(el('option', { value: 'file' }, 'as in the file'));
+    orderL.appendChild(orderS);
+    bar.appendChild(orderL);
+    var count = el('span', { class: 'grid-count', role: 'status' });
+    bar.appendChild(count);
+    var views = el('span', { class: 'grid-views' });
+    var tableB = el('button', { type: 'button', 'data-view': 'table', 'aria-pressed': 'true' }, 'Table');
+    var textB = el('button', { type: 'button', 'data-view': 'text', 'aria-pressed': 'false' }, 'CSV text');
+    views.appendChild(tableB);
+    views.appendChild(textB);
+    bar.appendChild(views);
+    var scroll = el('div', { class: 'grid-scroll', tabindex: '-1' });
+    var table = el('table', { class: 'grid-table', 'aria-label': noun });
+    var colgroup = el('colgroup');
+    var thead = el('thead');
+    var tbody = el('tbody');
+    table.appendChild(colgroup);
+    table.appendChild(thead);
+    table.appendChild(tbody);
+    scroll.appendChild(table);
+    var empty = el('p', { class: 'grid-empty' });
+    box.appendChild(bar);
+    box.appendChild(scroll);
+    box.appendChild(empty);
+    area.parentNode.insertBefore(box, area);
+    area.hidden = true;
+
+    function figureColumns() { return figures ? figures.columns : []; }
+
+    function sortable() {
+      return figureColumns().filter(function (c) { return c.sorts; });
+    }
+
+    // The order menu offers each sortable figure once the case has them.
+    function syncOrderMenu() {
+      var want = ['file'].concat(sortable().map(function (c) { return c.key; }));
+      var have = Array.prototype.map.call(orderS.options, function (o) { return o.value; });
+      if (want.join() === have.join()) return;
+      var keep = orderS.value;
+      orderS.textContent = '';
+      orderS.appendChild(el('option', { value: 'file' }, 'as in the file'));
+      sortable().forEach(function (c) {
+        orderS.appendChild(el('option', { value: c.key }, 'largest ' + c.label + ' first'));
+      });
+      orderS.value = want.indexOf(keep) >= 0 ? keep : 'file';
+    }
+
+    function computeOrder() {
+      order = layout.rows.map(function (_, i) { return i; });
+      var key = orderS.value;
+      var col = figureColumns().filter(function (c) { return c.key === key; })[0];
+      if (!col || col.values.length !== order.length) return;
+      var v = col.values;
+      order.sort(function (a, b) {
+        var x = v[a] === null ? -Infinity : v[a];
+        var y = v[b] === null ? -Infinity : v[b];
+        return y - x || a - b;
+      });
+    }
+
+    function readText() {
+      text = area.value;
+      lines = text.split('\n');
+      layout = wasm_bindgen.table_layout(text);
+      header = layout.header === null ? [] : wasm_bindgen.table_split(lines[layout.header], layout.delimiter);
+      if (selected >= layout.rows.length) selected = layout.rows.length - 1;
+    }
+
+    function drawHead() {
+      colgroup.textContent = '';
+      thead.textContent = '';
+      var tr = el('tr');
+      colgroup.appendChild(el('col', { class: 'c-line' }));
+      tr.appendChild(el('th', { scope: 'col', title: 'line in the file' }, 'line'));
+      var bad = problems[layout.header];
+      header.forEach(function (h, i) {
+        colgroup.appendChild(el('col', { class: i === 0 ? 'c-first' : 'c-cell' }));
+        var th = el('th', { scope: 'col' }, h);
+        if (bad && bad.columns.indexOf(h.toLowerCase()) >= 0) th.className = 'bad';
+        tr.appendChild(th);
+      });
+      figureColumns().forEach(function (c) {
+        colgroup.appendChild(el('col', { class: 'c-figure' }));
+        tr.appendChild(el('th', { scope: 'col', class: 'figure' }, c.label));
+      });
+      thead.appendChild(tr);
+      if (bad) thead.title = bad.messages.join('\n'); else thead.removeAttribute('title');
+    }
+
+    function figureText(c, r) {
+      var v = c.values.length === layout.rows.length ? c.values[r] : null;
+      return v === null || v === undefined ? '' : wasm_bindgen.format_figure(c.kind, v);
+    }
+
+    // One data row: its line number, a cell input per header column (read-only when the
+    // row's cells do not match the header: the text view mends it without losing any),
+    // and the figures.
+    function fillRow(tr, r, active) {
+      var line = layout.rows[r];
+      var cells = wasm_bindgen.table_split(lines[line], layout.delimiter);
+      var fits = cells.length === header.length;
+      tr.dataset.row = String(r);
+      tr.className = (r === selected ? 'selected' : '') + (problems[line] ? ' bad' : '');
+      tr.setAttribute('aria-rowindex', String(r + 2));
+      var p = problems[line];
+      if (p) tr.title = p.messages.join('\n'); else tr.removeAttribute('title');
+      var want = 1 + header.length + figureColumns().length;
+      while (tr.children.length > want) tr.lastChild.remove();
+      while (tr.children.length < want) tr.appendChild(el('td'));
+      tr.children[0].textContent = String(line + 1);
+      tr.children[0].className = 'line';
+      header.forEach(function (h, i) {
+        var td = tr.children[1 + i];
+        var input = td.firstChild;
+        if (!input || input.tagName !== 'INPUT') {
+          td.textContent = '';
+          input = el('input', { 'data-col': String(i), spellcheck: 'false', autocomplete: 'off' });
+          td.appendChild(input);
+        }
+        input.setAttribute('aria-label', h + ', line ' + (line + 1));
+        input.readOnly = !fits;
+        if (input !== active || forceValues) input.value = i < cells.length ? cells[i] : '';
+        var badCell = p && (p.columns.indexOf(h.toLowerCase()) >= 0 || !fits);
+        td.className = badCell ? 'bad' : '';
+      });
+      figureColumns().forEach(function (c, k) {
+        var td = tr.children[1 + header.length + k];
+        td.className = 'figure';
+        td.textContent = figureText(c, r);
+      });
+    }
+
+    function spacer(px) {
+      var tr = el('tr', { class: 'spacer', 'aria-hidden': 'true' });
+      var td = el('td', { colspan: String(1 + header.length + figureColumns().length) });
+      td.style.height = px + 'px';
+      tr.appendChild(td);
+      return tr;
+    }
+
+    // The rows in view (and a few beyond), reusing the row that holds the focus so that
+    // typing in a cell is never interrupted by a redraw.
+    function drawRows() {
+      var first = Math.max(0, Math.floor(scroll.scrollTop / ROW_PX) - OVERSCAN);
+      var inView = Math.ceil((scroll.clientHeight || ROW_PX * 12) / ROW_PX);
+      var last = Math.min(order.length, first + inView + 2 * OVERSCAN);
+      var active = document.activeElement;
+      var keep = active && tbody.contains(active) ? active.closest('tr') : null;
+      var keepRow = keep ? Number(keep.dataset.row) : -1;
+      var rows = [spacer(first * ROW_PX)];
+      var kept = false;
+      for (var v = first; v < last; v++) {
+        var r = order[v];
+        var tr = r === keepRow ? keep : el('tr');
+        if (tr === keep) kept = true;
+        fillRow(tr, r, active);
+        rows.push(tr);
+      }
+      rows.push(spacer((order.length - last) * ROW_PX));
+      Array.prototype.slice.call(tbody.children).forEach(function (c) {
+        if (c !== keep || !kept) c.remove();
+      });
+      var at = kept ? rows.indexOf(keep) : rows.length;
+      for (var i = 0; i < rows.length; i++) {
+        if (rows[i] === keep) continue;
+        if (i < at) tbody.insertBefore(rows[i], keep); else tbody.appendChild(rows[i]);
+      }
+      table.setAttribute('aria-rowcount', String(order.length + 1));
+    }
+
+    function draw() {
+      var n = layout.rows.length;
+      var none = layout.header === null;
+      empty.hidden = !none;
+      empty.textContent = none ? 'No table yet: Add row starts one, or type, paste, drop or open a CSV file.' : '';
+      scroll.hidden = none || !tableB.classList.contains('on');
+      count.textContent = n === 1 ? '1 row' : n.toLocaleString('en-US') + ' rows';
+      dupB.disabled = delB.disabled = selected < 0;
+      undoB.disabled = undo.length === 0;
+      syncOrderMenu();
+      computeOrder();
+      drawHead();
+      drawRows();
+    }
+
+    function remember(before) {
+      undo.push(before);
+      if (undo.length > UNDO_MOST) undo.shift();
+    }
+
+    // Writes the lines back into the text area and recomputes.
+    function write(next) {
+      area.value = next;
+      readText();
+      draw();
+      hooks.changed();
+    }
+
+    function rowCells(r) {
+      return wasm_bindgen.table_split(lines[layout.rows[r]], layout.delimiter);
+    }
+
+    function freshName() {
+      var names = {};
+      layout.rows.forEach(function (_, r) { names[rowCells(r)[0]] = true; });
+      var i = layout.rows.length + 1;
+      while (names['new-' + i]) i++;
+      return 'new-' + i;
+    }
+
+    // Inserts `line` after data row `r` (at the end when r < 0) and selects it.
+    function insertAfter(r, line) {
+      remember(text);
+      var at = r >= 0 ? layout.rows[r] + 1 : lines.length;
+      // Keep a final newline final.
+      if (r < 0 && lines.length && lines[lines.length - 1] === '') at = lines.length - 1;
+      lines.splice(at, 0, line);
+      selected = r >= 0 ? r + 1 : layout.rows.length;
+      write(lines.join('\n'));
+      reveal(selected, 1);
+    }
+
+    function act(what) {
+      if (what === 'add') {
+        if (layout.header === null) {
+          remember(text);
+          var start = (area.dataset.gridHeader || 'name').split(',');
+          lines = (text.trim() === '' ? [] : lines).concat([start.join(','), '']);
+          write(lines.join('\n'));
+          selected = -1;
+        }
+        var row = header.map(function () { return ''; });
+        row[0] = freshName();
+        insertAfter(selected, wasm_bindgen.table_join(row, layout.delimiter));
+      } else if (what === 'duplicate' && selected >= 0) {
+        var copy = rowCells(selected);
+        if (copy.length === header.length) copy[0] = copy[0] + '-copy';
+        insertAfter(selected, wasm_bindgen.table_join(copy, layout.delimiter));
+      } else if (what === 'delete' && selected >= 0) {
+        remember(text);
+        lines.splice(layout.rows[selected], 1);
+        var was = selected;
+        write(lines.join('\n'));
+        selected = Math.min(was, layout.rows.length - 1);
+        draw();
+      } else if (what === 'undo' && undo.length) {
+        forceValues = true;
+        try { write(undo.pop()); } finally { forceValues = false; }
+      }
+    }
+
+    // Scrolls data row r into view and focuses its cell `col`.
+    function reveal(r, col) {
+      var v = order.indexOf(r);
+      if (v < 0) return;
+      var top = v * ROW_PX;
+      var view = scroll.clientHeight - ROW_PX; // below the sticky header
+      if (top < scroll.scrollTop) scroll.scrollTop = top;
+      else if (top > scroll.scrollTop + view - ROW_PX) scroll.scrollTop = top - view + ROW_PX;
+      drawRows();
+      var tr = tbody.querySelector('tr[data-row="' + r + '"]');
+      var input = tr && tr.querySelector('input[data-col="' + col + '"]');
+      if (input) { input.focus(); input.select(); }
+    }
+
+    function select(r) {
+      if (selected === r) return;
+      selected = r;
+      Array.prototype.forEach.call(tbody.querySelectorAll('tr[data-row]'), function (tr) {
+        tr.classList.toggle('selected', Number(tr.dataset.row) === r);
+      });
+      dupB.disabled = delB.disabled = selected < 0;
+    }
+
+    function view(which) {
+      var table = which === 'table';
+      tableB.classList.toggle('on', table);
+      textB.classList.toggle('on', !table);
+      tableB.setAttribute('aria-pressed', String(table));
+      textB.setAttribute('aria-pressed', String(!table));
+      area.hidden = table;
+      [addB, dupB, delB, undoB, orderL].forEach(function (b) { b.hidden = !table; });
+      box.classList.toggle('text-view', !table);
+      if (table) self.refresh(null); else area.focus();
+    }
+
+    bar.addEventListener('click', function (e) {
+      var b = e.target.closest('button');
+      if (!b) return;
+      if (b.dataset.view) view(b.dataset.view); else act(b.dataset.act);
+    });
+    orderS.addEventListener('change', function (e) { e.stopPropagation(); draw(); });
+    orderS.addEventListener('input', function (e) { e.stopPropagation(); });
+    tbody.addEventListener('focusin', function (e) {
+      var tr = e.target.closest('tr[data-row]');
+      if (tr) select(Number(tr.dataset.row));
+    });
+    tbody.addEventListener('focusout', function () { editing = ''; });
+    tbody.addEventListener('input', function (e) {
+      var input = e.target;
+      var tr = input.closest('tr[data-row]');
+      if (!tr || input.readOnly) return;
+      var r = Number(tr.dataset.row);
+      var key = r + ':' + input.dataset.col;
+      if (editing !== key) { remember(text); editing = key; }
+      var cells = Array.prototype.map.call(tr.querySelectorAll('input[data-col]'), function (i) { return i.value; });
+      lines[layout.rows[r]] = wasm_bindgen.table_join(cells, layout.delimiter);
+      text = lines.join('\n');
+      area.value = text;
+      // The form's own input listener recomputes; the row's line is unchanged.
+      undoB.disabled = false;
+    });
+    tbody.addEventListener('keydown', function (e) {
+      var input = e.target;
+      var tr = input.closest && input.closest('tr[data-row]');
+      if (!tr || input.tagName !== 'INPUT') return;
+      var v = order.indexOf(Number(tr.dataset.row));
+      var step = e.key === 'ArrowDown' || (e.key === 'Enter' && !e.shiftKey) ? 1
+        : e.key === 'ArrowUp' || (e.key === 'Enter' && e.shiftKey) ? -1 : 0;
+      if (step === 0 || e.isComposing) return;
+      e.preventDefault();
+      var next = order[v + step];
+      if (next !== undefined) reveal(next, Number(input.dataset.col));
+    });
+    box.addEventListener('keydown', function (e) {
+      if ((e.ctrlKey || e.metaKey) && !e.shiftKey && e.key === 'z' && e.target.tagName !== 'TEXTAREA' && undo.length) {
+        e.preventDefault();
+        act('undo');
+      }
+    });
+    var scrollQueued = false;
+    scroll.addEventListener('scroll', function () {
+      if (scrollQueued) return;
+      scrollQueued = true;
+      requestAnimationFrame(function () { scrollQueued = false; drawRows(); });
+    });
+    box.addEventListener('dragover', function (e) { e.preventDefault(); box.classList.add('dropping'); });
+    box.addEventListener('dragleave', function () { box.classList.remove('dropping'); });
+    box.addEventListener('drop', function (e) {
+      e.preventDefault();
+      box.classList.remove('dropping');
+      var f = e.dataTransfer && e.dataTransfer.files && e.dataTransfer.files[0];
+      if (f) hooks.drop(area, f);
+    });
+
+    // After each computation: the text as it now is, the figures and the problems.
+    this.refresh = function (state) {
+      if (state) {
+        var mine = (state.figures || []).filter(function (f) { return f.field === field; })[0];
+        // While the case has errors the figures' columns stay, blank, so that the
+        // table does not change shape under the cell being mended.
+        figures = mine || (figures && !state.ok ? {
+          columns: figures.columns.map(function (c) {
+            return { key: c.key, label: c.label, kind: c.kind, sorts: c.sorts, values: [] };
+          })
+        } : null);
+        var f = (state.fields || []).filter(function (x) { return x.name === field; })[0];
+        problems = problemsByLine(f && f.error);
+      }
+      if (area.value !== text) {
+        if (text !== null && Date.now() - lastOutside > BURST_MS) remember(text);
+        if (text !== null) lastOutside = Date.now();
+        readText();
+      }
+      if (!area.hidden) return;
+      draw();
+    };
+    this.element = box;
+    view('table');
+  }
+
+  window.LatchwiseGrid = Grid;
+})();
