@@ -1,0 +1,202 @@
+// Real-browser tests of the budget page's tables: editing a cell, adding, duplicating,
+// deleting and undoing rows, sorting by share, pasting CSV text, reload, a shared link,
+// a link cut short, and a 10,000-row design with only the rows in view in the page.
+import { test, before, after } from 'node:test';
+import assert from 'node:assert/strict';
+import path from 'node:path';
+import fs from 'node:fs';
+import os from 'node:os';
+import { setup, open, fileUrl, outputs, root, cli, fill, settle } from './harness.mjs';
+
+const env = setup({ before, after });
+const corners = path.join(root, 'examples/budget-corners.csv');
+const demoArgs = ['--corners', corners, '--budget-fit', '10', '--tau-sigma', '0.05', '--tw-sigma', '0.3'];
+
+/** The command line's report for a design given as text. */
+function cliFor(design) {
+  const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), 'latchwise-')), 'design.csv');
+  fs.writeFileSync(file, design);
+  return cli('budget', [file, ...demoArgs]);
+}
+
+const cell = (row, col) => `#grid-design tr[data-row="${row}"] input[data-col="${col}"]`;
+const designText = (page) => page.inputValue('[name="design"]');
+const total = async (page) => Number((await outputs(page)).log10_total_fit.value);
+
+test('a cell edited in the table changes its line of the CSV and the results, as the command line reads it', async () => {
+  const { context, page, problems } = await open(env.browser, fileUrl('budget.html'));
+  const before = await designText(page);
+  const header = await page.$$eval('#grid-design thead th', (t) => t.map((x) => x.textContent));
+  assert.deepEqual(header.slice(0, 6), ['line', 'name', 'fclk', 'fdata', 'stages', 'count']);
+  // The count of the first crossing, core_irq_sync (16 instances), to 160.
+  assert.equal(await page.inputValue(cell(0, 0)), 'core_irq_sync');
+  assert.equal(await page.inputValue(cell(0, 4)), '16');
+  await fill(page, cell(0, 4), '160');
+  const after = await designText(page);
+  const changed = before.split('\n').map((l, i) => [l, after.split('\n')[i]]).filter(([a, b]) => a !== b);
+  assert.deepEqual(changed, [['core_irq_sync,1.2GHz,2MHz,2,16,', 'core_irq_sync,1.2GHz,2MHz,2,160,']]);
+  const want = cliFor(after);
+  assert.equal(await total(page), want.log10_total_fit);
+  // Its figures beside it: FIT and share at the worst corner, as the report has them.
+  const row = want.rows.find((r) => r.name === 'core_irq_sync');
+  const figs = await page.$$eval('#grid-design tr[data-row="0"] td.figure', (t) => t.map((x) => x.textContent));
+  assert.equal(figs[1], `${(100 * row.share).toFixed(1)} %`);
+  // A bad cell is flagged in the table and beside the field, the rest of the page lives.
+  await fill(page, cell(0, 1), 'fast');
+  assert.match(await page.textContent('#m-design'), /line 5, column fclk: 'fast' is not a number/);
+  assert.equal(await page.getAttribute('#grid-design tr[data-row="0"] td:nth-child(3)', 'class'), 'bad');
+  assert.match(await page.getAttribute('#grid-design tr[data-row="0"]', 'class'), /bad/);
+  await fill(page, cell(0, 1), '1.2GHz');
+  assert.equal(await total(page), want.log10_total_fit);
+  assert.deepEqual(problems, []);
+  await context.close();
+});
+
+test('rows are added, duplicated, deleted and undone; the table sorts by share', async () => {
+  const { context, page, problems } = await open(env.browser, fileUrl('budget.html'));
+  const demo = await designText(page);
+  const demoTotal = await total(page);
+  const rows = () => page.textContent('#grid-design .grid-count');
+  assert.equal(await rows(), '24 rows');
+  // Add: a named row below the selected one, its empty cells flagged until filled.
+  await page.click(cell(2, 0));
+  await page.click('#grid-design [data-act="add"]');
+  await settle(page);
+  assert.equal(await rows(), '25 rows');
+  assert.equal(await page.inputValue(cell(3, 0)), 'new-25');
+  assert.match(await page.textContent('#m-design'), /line 8, column fclk: the cell is empty/);
+  await fill(page, cell(3, 1), '1.2GHz');
+  await fill(page, cell(3, 2), '50MHz');
+  await fill(page, cell(3, 3), '2');
+  await fill(page, cell(3, 4), '4');
+  assert.equal((await designText(page)).split('\n')[7], 'new-25,1.2GHz,50MHz,2,4,');
+  assert.equal(await total(page), cliFor(await designText(page)).log10_total_fit);
+  // Duplicate, then delete the copy.
+  await page.click('#grid-design [data-act="duplicate"]');
+  await settle(page);
+  assert.equal(await rows(), '26 rows');
+  assert.equal(await page.inputValue(cell(4, 0)), 'new-25-copy');
+  await page.click('#grid-design [data-act="delete"]');
+  await settle(page);
+  assert.equal(await rows(), '25 rows');
+  // Undo, step by step, back to the demo: delete, duplicate, four cells, add.
+  for (let i = 0; i < 7; i++) await page.click('#grid-design [data-act="undo"]');
+  await settle(page);
+  assert.equal(await designText(page), demo);
+  assert.equal(await total(page), demoTotal);
+  assert.equal(await page.isDisabled('#grid-design [data-act="undo"]'), true);
+  // Largest share first: the report's order.
+  await page.selectOption('#grid-design select', 'share');
+  await settle(page);
+  const want = cliFor(demo).rows.slice().sort((a, b) => b.share - a.share).slice(0, 5).map((r) => r.name);
+  const shown = await page.$$eval('#grid-design tbody tr[data-row] td:nth-child(2) input', (i) => i.slice(0, 5).map((x) => x.value));
+  assert.deepEqual(shown, want);
+  assert.deepEqual(problems, []);
+  await context.close();
+});
+
+test('CSV pasted as text shows in the table; reload and a shared link bring the design back', async () => {
+  const server = env.server.url + 'budget.html';
+  for (const url of [fileUrl('budget.html'), server]) {
+    const { context, page, problems } = await open(env.browser, url);
+    await page.click('#grid-design [data-view="text"]');
+    // Long enough for the link to pack it (a short table stays readable in the link).
+    let design = 'name;fclk;fdata;stages;count\n# our bus\nrx_bus;1.2GHz;80MHz;2;32\n\ntx_ack;400MHz;1kHz;3;1\n';
+    for (let i = 0; i < 8; i++) design += `lane_${i};1.2GHz;${10 + i}MHz;2;4\n`;
+    await fill(page, '[name="design"]', design);
+    await page.click('#grid-design [data-view="table"]');
+    assert.equal(await page.textContent('#grid-design .grid-count'), '10 rows');
+    assert.deepEqual(await page.$$eval('#grid-design td.line', (t) => t.slice(0, 3).map((x) => x.textContent)), ['3', '5', '6']);
+    assert.equal(await page.inputValue(cell(1, 2)), '1kHz');
+    // Editing keeps the comment, the blank line and the semicolons.
+    await fill(page, cell(1, 2), '2kHz');
+    assert.equal(await designText(page), design.replace('1kHz', '2kHz'));
+    const shown = await outputs(page);
+    // The link is compact and reads back as it was, here and in a fresh browser.
+    assert.match(page.url(), /[?&]design=~1[A-Za-z0-9_-]+(&|$)/);
+    await page.reload();
+    await page.waitForSelector('body[data-ready="yes"]');
+    assert.equal(await designText(page), design.replace('1kHz', '2kHz'));
+    assert.equal((await outputs(page)).log10_total_fit.value, shown.log10_total_fit.value);
+    const link = page.url();
+    const other = await open(env.browser, link);
+    assert.equal(await other.page.inputValue('[name="design"]'), design.replace('1kHz', '2kHz'));
+    assert.equal((await outputs(other.page)).log10_total_fit.value, shown.log10_total_fit.value);
+    await other.context.close();
+    // The command line reads the same link.
+    const fromLink = cli('budget', ['--from-url', link]);
+    assert.equal(fromLink.log10_total_fit, Number(shown.log10_total_fit.value));
+    assert.deepEqual(problems, []);
+    await context.close();
+  }
+});
+
+test('a link cut short says so at the design and keeps the page alive', async () => {
+  const { context, page } = await open(env.browser, fileUrl('budget.html'));
+  await fill(page, cell(0, 4), '17');
+  const link = page.url();
+  const at = link.indexOf('design=~1') + 60;
+  const cut = link.slice(0, at) + link.slice(link.indexOf('&', at));
+  const other = await open(env.browser, cut);
+  assert.match(await other.page.textContent('#m-design'),
+    /design: the packed value in the link cannot be read: its compressed data is cut short or altered; ask for a fresh link or the CSV file/);
+  assert.equal(await other.page.isVisible('#fatal'), false);
+  // The demo button brings a working case back.
+  await other.page.click('#reset');
+  await settle(other.page);
+  assert.equal((await outputs(other.page)).worst_corner.text, 'low_v_cold');
+  assert.deepEqual(other.problems, []);
+  await other.context.close();
+  await context.close();
+});
+
+test('a 10,000-row design: only the rows in view are in the page, and the end of the table is reachable', async () => {
+  const { context, page, problems } = await open(env.browser, fileUrl('budget.html'));
+  let design = 'name,fclk,fdata,stages,count\n';
+  for (let i = 0; i < 10000; i++) design += `x${i},${['1.2GHz', '400MHz', '125MHz'][i % 3]},1MHz,2,1\n`;
+  // Into the text view as a paste puts it (typing 300 kB through the browser's
+  // automation protocol takes minutes).
+  await page.click('#grid-design [data-view="text"]');
+  await page.$eval('[name="design"]', (t, d) => {
+    t.value = d;
+    t.dispatchEvent(new InputEvent('input', { bubbles: true, inputType: 'insertFromPaste' }));
+  }, design);
+  await page.click('#grid-design [data-view="table"]');
+  await page.waitForFunction(() => document.querySelector('#grid-design .grid-count').textContent === '10,000 rows');
+  const inPage = () => page.$$eval('#grid-design tbody tr[data-row]', (t) => t.length);
+  assert.ok(await inPage() < 60, `${await inPage()} rows in the page`);
+  await page.$eval('#grid-design .grid-scroll', (s) => { s.scrollTop = s.scrollHeight; });
+  await page.waitForFunction(() => Array.from(document.querySelectorAll('#grid-design td.line')).some((t) => t.textContent === '10001'));
+  assert.ok(await inPage() < 60);
+  // The last row edits like the first.
+  await fill(page, '#grid-design tr[data-row="9999"] input[data-col="4"]', '5');
+  assert.equal((await designText(page)).split('\n')[10000], 'x9999,1.2GHz,1MHz,2,5');
+  assert.deepEqual(problems, []);
+  await context.close();
+});
+
+test('the printed report is a sign-off: verdict, inputs, corners, offenders, fix plan, uncertainty, cautions, date', async () => {
+  const { context, page, problems } = await open(env.browser, fileUrl('budget.html'));
+  await fill(page, '[name="devices"]', '1000000');
+  await fill(page, '[name="service-years"]', '10');
+  await page.pdf({ format: 'A4' });
+  const text = await page.textContent('#signoff');
+  const want = cli('budget', [path.join(root, 'examples/budget-design.csv'), ...demoArgs, '--devices', '1000000', '--service-years', '10']);
+  assert.match(text, /printed \d{4}-\d\d-\d\d \d\d:\d\d UTC/);
+  assert.match(text, /MISSES the budget/);
+  assert.match(text, /NOT within the budget/);
+  const headings = await page.$$eval('#signoff h3', (h) => h.map((x) => x.textContent.replace(/ \(.*/, '')));
+  assert.deepEqual(headings, ['Verdict', 'Inputs as understood', 'Corners and their totals', 'Largest shares at the worst corner',
+    'Fix plan', 'Uncertainty', 'Fleet', 'Cautions', 'The design as given']);
+  // The largest share first, as the report has it, and every change of the fix plan.
+  const top = want.rows.slice().sort((a, b) => b.share - a.share)[0].name;
+  const firstOffender = await page.$$eval('#signoff h3', (h) => {
+    const at = h.find((x) => x.textContent.startsWith('Largest shares'));
+    return at.nextElementSibling.querySelector('tbody td').textContent;
+  });
+  assert.equal(firstOffender, top);
+  for (const f of want.fix) assert.ok(text.includes(f.name), f.name);
+  assert.ok(text.includes('low_v_cold'));
+  assert.deepEqual(problems, []);
+  await context.close();
+});
