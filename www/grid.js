@@ -136,13 +136,18 @@
       if (selected >= layout.rows.length) selected = layout.rows.length - 1;
     }
 
+    var headDrawn = '';
+
     function drawHead() {
+      var bad = problems[layout.header];
+      var sign = JSON.stringify([header, figureColumns().map(function (c) { return c.label; }), bad || null]);
+      if (sign === headDrawn) return;
+      headDrawn = sign;
       colgroup.textContent = '';
       thead.textContent = '';
       var tr = el('tr');
       colgroup.appendChild(el('col', { class: 'c-line' }));
       tr.appendChild(el('th', { scope: 'col', title: 'line in the file' }, 'line'));
-      var bad = problems[layout.header];
       header.forEach(function (h, i) {
         colgroup.appendChild(el('col', { class: i === 0 ? 'c-first' : 'c-cell' }));
         var th = el('th', { scope: 'col' }, h);
@@ -167,6 +172,11 @@
     // and the figures.
     function fillRow(tr, r, active) {
       var line = layout.rows[r];
+      var sign = lines[line] + '\u0000' + line + '\u0000' + (r === selected) + '\u0000' + header.length + '\u0000' +
+        (problems[line] ? problems[line].messages.join('\n') : '') + '\u0000' +
+        figureColumns().map(function (c) { return figureText(c, r); }).join('\u0000');
+      if (tr.dataset.sign === sign && !forceValues) return;
+      tr.dataset.sign = sign;
       var cells = wasm_bindgen.table_split(lines[line], layout.delimiter);
       var fits = cells.length === header.length;
       tr.dataset.row = String(r);
@@ -208,33 +218,50 @@
       return tr;
     }
 
-    // The rows in view (and a few beyond), reusing the row that holds the focus so that
-    // typing in a cell is never interrupted by a redraw.
+    // The scroll position and the height of the view, kept from scroll events and
+    // resizes so that drawing rows never waits for the page to be laid out.
+    var port = { top: 0, height: ROW_PX * 12 };
+    if (window.ResizeObserver) {
+      new ResizeObserver(function () {
+        if (scroll.clientHeight > 0) port.height = scroll.clientHeight;
+      }).observe(scroll);
+    }
+
+    // The rows in view (and a few beyond). Rows already in the page are updated where
+    // they are, so that typing in a cell is never interrupted by a redraw.
     function drawRows() {
-      var first = Math.max(0, Math.floor(scroll.scrollTop / ROW_PX) - OVERSCAN);
-      var inView = Math.ceil((scroll.clientHeight || ROW_PX * 12) / ROW_PX);
+      var first = Math.max(0, Math.floor(port.top / ROW_PX) - OVERSCAN);
+      var inView = Math.ceil(port.height / ROW_PX);
       var last = Math.min(order.length, first + inView + 2 * OVERSCAN);
       var active = document.activeElement;
-      var keep = active && tbody.contains(active) ? active.closest('tr') : null;
-      var keepRow = keep ? Number(keep.dataset.row) : -1;
-      var rows = [spacer(first * ROW_PX)];
-      var kept = false;
+      var have = {};
+      Array.prototype.forEach.call(tbody.children, function (tr) {
+        if (tr.dataset.row !== undefined) have[tr.dataset.row] = tr;
+      });
+      var rows = [];
       for (var v = first; v < last; v++) {
         var r = order[v];
-        var tr = r === keepRow ? keep : el('tr');
-        if (tr === keep) kept = true;
+        var tr = have[r] || el('tr');
+        delete have[r];
         fillRow(tr, r, active);
         rows.push(tr);
       }
-      rows.push(spacer((order.length - last) * ROW_PX));
-      Array.prototype.slice.call(tbody.children).forEach(function (c) {
-        if (c !== keep || !kept) c.remove();
+      var top = tbody.firstChild && tbody.firstChild.classList.contains('spacer') ? tbody.firstChild : spacer(0);
+      var bottom = tbody.lastChild && tbody.lastChild !== top && tbody.lastChild.classList.contains('spacer') ? tbody.lastChild : spacer(0);
+      top.firstChild.style.height = first * ROW_PX + 'px';
+      bottom.firstChild.style.height = (order.length - last) * ROW_PX + 'px';
+      top.firstChild.colSpan = bottom.firstChild.colSpan = 1 + header.length + figureColumns().length;
+      Object.keys(have).forEach(function (k) { have[k].remove(); });
+      // Place each row after the one before it, moving only rows out of place (a row
+      // that holds the focus and stays in view is never moved, so it keeps the focus).
+      var prev = top;
+      if (tbody.firstChild !== top) tbody.insertBefore(top, tbody.firstChild);
+      rows.forEach(function (tr) {
+        if (prev.nextSibling !== tr) tbody.insertBefore(tr, prev.nextSibling);
+        prev = tr;
       });
-      var at = kept ? rows.indexOf(keep) : rows.length;
-      for (var i = 0; i < rows.length; i++) {
-        if (rows[i] === keep) continue;
-        if (i < at) tbody.insertBefore(rows[i], keep); else tbody.appendChild(rows[i]);
-      }
+      if (prev.nextSibling !== bottom) tbody.insertBefore(bottom, prev.nextSibling);
+      while (bottom.nextSibling) bottom.nextSibling.remove();
       table.setAttribute('aria-rowcount', String(order.length + 1));
     }
 
@@ -324,9 +351,10 @@
       var v = order.indexOf(r);
       if (v < 0) return;
       var top = v * ROW_PX;
-      var view = scroll.clientHeight - ROW_PX; // below the sticky header
-      if (top < scroll.scrollTop) scroll.scrollTop = top;
-      else if (top > scroll.scrollTop + view - ROW_PX) scroll.scrollTop = top - view + ROW_PX;
+      var below = port.height - ROW_PX; // below the sticky header
+      if (top < port.top) scroll.scrollTop = top;
+      else if (top > port.top + below - ROW_PX) scroll.scrollTop = top - below + ROW_PX;
+      port.top = scroll.scrollTop;
       drawRows();
       var tr = tbody.querySelector('tr[data-row="' + r + '"]');
       var input = tr && tr.querySelector('input[data-col="' + col + '"]');
@@ -338,6 +366,7 @@
       selected = r;
       Array.prototype.forEach.call(tbody.querySelectorAll('tr[data-row]'), function (tr) {
         tr.classList.toggle('selected', Number(tr.dataset.row) === r);
+        delete tr.dataset.sign;
       });
       dupB.disabled = delB.disabled = selected < 0;
     }
@@ -402,7 +431,7 @@
     scroll.addEventListener('scroll', function () {
       if (scrollQueued) return;
       scrollQueued = true;
-      requestAnimationFrame(function () { scrollQueued = false; drawRows(); });
+      requestAnimationFrame(function () { scrollQueued = false; port.top = scroll.scrollTop; drawRows(); });
     });
     box.addEventListener('dragover', function (e) { e.preventDefault(); box.classList.add('dropping'); });
     box.addEventListener('dragleave', function () { box.classList.remove('dropping'); });
