@@ -49,6 +49,7 @@
     var figures = null;     // { columns: [...] } for this field, or null
     var problems = {};      // by line
     var order = [];         // data row indices in display order
+    var orderFor = 'file';  // the order menu's choice that `order` follows
     var selected = -1;      // a data row index
     var undo = [];
     var lastOutside = 0;
@@ -115,7 +116,12 @@
       orderS.value = want.indexOf(keep) >= 0 ? keep : 'file';
     }
 
+    // The display order. While a cell of the table has the focus the order holds, so
+    // that a row being edited never jumps away as its share changes.
     function computeOrder() {
+      var editingNow = document.activeElement && tbody.contains(document.activeElement);
+      if (editingNow && order.length === layout.rows.length && orderS.value === orderFor) return;
+      orderFor = orderS.value;
       order = layout.rows.map(function (_, i) { return i; });
       var key = orderS.value;
       var col = figureColumns().filter(function (c) { return c.key === key; })[0];
@@ -388,13 +394,20 @@
       if (!b) return;
       if (b.dataset.view) view(b.dataset.view); else act(b.dataset.act);
     });
-    orderS.addEventListener('change', function (e) { e.stopPropagation(); draw(); });
+    orderS.addEventListener('change', function (e) { e.stopPropagation(); orderFor = ''; draw(); });
     orderS.addEventListener('input', function (e) { e.stopPropagation(); });
     tbody.addEventListener('focusin', function (e) {
       var tr = e.target.closest('tr[data-row]');
       if (tr) select(Number(tr.dataset.row));
     });
-    tbody.addEventListener('focusout', function () { editing = ''; });
+    tbody.addEventListener('focusout', function (e) {
+      editing = '';
+      // Leaving the table lets a sorted order catch up with the edits.
+      if (!tbody.contains(e.relatedTarget) && orderS.value !== 'file') {
+        orderFor = '';
+        requestAnimationFrame(draw);
+      }
+    });
     tbody.addEventListener('input', function (e) {
       var input = e.target;
       var tr = input.closest('tr[data-row]');
