@@ -32,10 +32,22 @@ def read_page(path):
     return meta, text[m.end():]
 
 
+def action_row(part, spec):
+    """The action buttons: `spec` is the demo button's label, then `; ID=LABEL` for each
+    further demo (a button with data-demo=ID)."""
+    demo, *more = [p.strip() for p in spec.split(";")]
+    extra = "".join(
+        f'        <button type="button" data-demo="{html.escape(i)}">{html.escape(label)}</button>\n'
+        for i, _, label in (m.partition("=") for m in more)
+    )
+    return part.replace("{{demo}}", html.escape(demo)).replace("{{more}}", extra)
+
+
 def main(src, out):
     src, out = pathlib.Path(src), pathlib.Path(out)
     head = (src / "_parts" / "head.html").read_text(encoding="utf-8")
     foot = (src / "_parts" / "foot.html").read_text(encoding="utf-8")
+    actions = (src / "_parts" / "actions.html").read_text(encoding="utf-8")
     pages = sorted(
         (read_page(p) + (p.name,) for p in src.glob("*.html")),
         key=lambda t: int(t[0]["order"]),
@@ -55,6 +67,9 @@ def main(src, out):
             lambda k: html.escape((src.parent / "examples" / k.group(1)).read_text(encoding="utf-8")),
             body,
         )
+        # {{actions:DEMO LABEL; id=LABEL ...}} is the shared row of action buttons (copy
+        # link, demo, undo, report), with the page's demo label and any more demos.
+        body = re.sub(r"\{\{actions:([^}]+)\}\}\n", lambda k: action_row(actions, k.group(1)), body)
         page += body + re.sub(r"\{\{(\w+)\}\}", lambda k: fill[k.group(1)], foot)
         (out / name).write_text(page, encoding="utf-8")
 
