@@ -146,6 +146,21 @@ mod tests {
     }
 
     #[test]
+    fn reads_deflate_written_by_another_implementation() {
+        // Made with Python's zlib (compressobj(9, DEFLATED, -15): raw deflate, RFC 1951)
+        // and base64.urlsafe_b64encode with the padding removed.
+        let theirs = "~1y0vMTdVJS87J1klLSSxJ1CkuSUxPLeZKKi3WMXT3qNIxNDDwBVJGWEQSk7N1TCAcw2wgYcwFAA";
+        assert_eq!(
+            unpack(theirs),
+            Some(Ok(
+                "name,fclk,fdata,stages\nbus,1GHz,100MHz,2\nbus,1GHz,100MHz,2\n\
+                     ack,400MHz,1kHz,3\n"
+                    .to_string()
+            ))
+        );
+    }
+
+    #[test]
     fn damaged_values_say_so() {
         let p = pack(&"name,fclk,fdata,stages\nx,1GHz,1MHz,2\n".repeat(20));
         let cut = &p[..p.len() / 2];

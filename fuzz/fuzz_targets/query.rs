@@ -41,7 +41,7 @@ impl Visit for Whole<'_> {
                 }
             }
         }
-        for plot in C::plots(&case) {
+        for plot in C::plots(&case, &report) {
             let mut svg = String::new();
             {
                 let root = SVGBackend::with_string(&mut svg, (320, 200)).into_drawing_area();
