@@ -454,3 +454,46 @@ fn the_table_figures_are_the_reports() {
         .collect();
     assert_eq!(corners.columns[0].values, totals);
 }
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(100))]
+
+    /// The page reads its design again on every edit, remembering the lines it read:
+    /// every read of a sequence of edits (a changed cell, a new row, a deleted row, a
+    /// bad cell, a row of the wrong width, a changed header) gives what a fresh read gives.
+    #[test]
+    fn remembered_rows_read_as_fresh_ones(
+        edits in proptest::collection::vec((0usize..6, 0usize..12, "[0-9]{1,3}(kHz|MHz|GHz|)"), 1..12),
+    ) {
+        use latchwise::table::{read, remember_rows, Column};
+        use latchwise::units::Dim;
+        let cols = [
+            Column::any("name", Dim::Text),
+            Column::any("fclk", Dim::Frequency).positive(),
+            Column::any("count", Dim::Count).positive().optional(),
+        ];
+        let mut lines: Vec<String> = vec!["name,fclk,count".into()];
+        for i in 0..10 {
+            lines.push(format!("r{i},1GHz,{}", i + 1));
+        }
+        for (kind, at, value) in edits {
+            let at = 1 + at % (lines.len() - 1).max(1);
+            match kind {
+                0 => lines[at] = format!("r{at},{value},2"),
+                1 => lines.insert(at, format!("new,{value},")),
+                2 if lines.len() > 2 => {
+                    lines.remove(at);
+                }
+                3 => lines[at] = format!("bad,{value}x,1"),
+                4 => lines[at] = "short,1GHz".into(),
+                _ => lines[0] = if lines[0].contains("count") { "name,fclk".into() } else { "name,fclk,count".into() },
+            }
+            let text = lines.join("\n");
+            remember_rows(true);
+            let remembered = read(&text, &cols);
+            remember_rows(false);
+            let fresh = read(&text, &cols);
+            prop_assert_eq!(remembered, fresh);
+        }
+    }
+}

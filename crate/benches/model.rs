@@ -95,6 +95,33 @@ fn bench(c: &mut Criterion) {
     g.bench_function("read", |b| {
         b.iter(|| BudgetCalculator::read(black_box(&raw)).unwrap())
     });
+    // As the page reads it: lines remembered, one cell changed between reads.
+    let edited: Vec<RawInputs> = (0..2)
+        .map(|k| {
+            let pairs: Vec<(String, String)> = raw
+                .pairs()
+                .iter()
+                .map(|(n, v)| {
+                    let v = if n == "design" {
+                        v.replacen("x5,", &format!("x5-{k},"), 1)
+                    } else {
+                        v.clone()
+                    };
+                    (n.clone(), v)
+                })
+                .collect();
+            RawInputs::from_pairs(pairs)
+        })
+        .collect();
+    latchwise::table::remember_rows(true);
+    let mut k = 0;
+    g.bench_function("read_again_after_one_edit", |b| {
+        b.iter(|| {
+            k = 1 - k;
+            BudgetCalculator::read(black_box(&edited[k])).unwrap()
+        })
+    });
+    latchwise::table::remember_rows(false);
     let case = BudgetCalculator::read(&raw).unwrap();
     g.bench_function("evaluate", |b| {
         b.iter(|| BudgetCalculator::evaluate(black_box(&case)))

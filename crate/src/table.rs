@@ -4,6 +4,8 @@
 //! problem is reported at once with its line and column; nothing is half-read.
 
 use std::borrow::Cow;
+use std::cell::{Cell, RefCell};
+use std::collections::HashMap;
 use std::fmt;
 
 use serde::Serialize;
@@ -255,6 +257,117 @@ fn cells(line: &str, delim: char) -> Vec<Cow<'_, str>> {
         .collect()
 }
 
+/// One wanted column's cell of a row, as read.
+#[derive(Debug, Clone, PartialEq)]
+enum RowCell {
+    /// The table has no such column, or the cell could not be read.
+    Absent,
+    /// A text cell.
+    Text(String),
+    /// A number cell (`None`: blank where blanks are allowed).
+    Number(Option<f64>),
+}
+
+/// A row read: its cells by wanted column, or its problems as (column, message).
+type Parsed = Result<Vec<RowCell>, Vec<(Option<&'static str>, String)>>;
+
+/// A fast hash for the remembered lines (the multiply-rotate hash of the Rust compiler's
+/// own tables): the keys are the user's own text, so resistance to crafted collisions,
+/// which the standard hash buys with speed, is not needed here.
+#[derive(Default, Clone, Copy)]
+struct LineHasher(u64);
+
+impl std::hash::Hasher for LineHasher {
+    fn write(&mut self, bytes: &[u8]) {
+        for chunk in bytes.chunks(8) {
+            let mut word = [0u8; 8];
+            word[..chunk.len()].copy_from_slice(chunk);
+            self.0 = (self.0.rotate_left(5) ^ u64::from_le_bytes(word))
+                .wrapping_mul(0x51_7c_c1_b7_27_22_0a_95);
+        }
+    }
+
+    fn finish(&self) -> u64 {
+        self.0
+    }
+}
+
+/// Remembered lines of one table.
+type Lines = HashMap<String, Parsed, std::hash::BuildHasherDefault<LineHasher>>;
+
+thread_local! {
+    /// Whether [`read`] remembers the rows it read (see [`remember_rows`]).
+    static REMEMBER: Cell<bool> = const { Cell::new(false) };
+    /// The rows last read, by table (its columns, delimiter and header) and line text.
+    static REMEMBERED: RefCell<HashMap<String, Lines>> = RefCell::new(HashMap::new());
+}
+
+/// Makes [`read`] remember each line it reads (or stop remembering), so that reading the
+/// same table again with a few lines changed reads only those lines: a page reads its
+/// design again on every edit. Results are the same either way; the command line, which
+/// reads each table once, leaves it off.
+pub fn remember_rows(on: bool) {
+    REMEMBER.with(|r| r.set(on));
+}
+
+/// Reads one data line: each wanted column's cell, or every problem of the line.
+fn parse_row(
+    text: &str,
+    delim: char,
+    width: usize,
+    at: &[Option<usize>],
+    columns: &[Column],
+) -> Parsed {
+    let row = cells(text, delim);
+    if row.len() != width {
+        return Err(vec![(
+            None,
+            format!("{} cells, the header has {}", row.len(), width),
+        )]);
+    }
+    let mut out = Vec::with_capacity(columns.len());
+    let mut problems = Vec::new();
+    for (k, c) in columns.iter().enumerate() {
+        let Some(i) = at[k] else {
+            out.push(RowCell::Absent);
+            continue;
+        };
+        let cell = &row[i];
+        if c.dim == Dim::Text {
+            out.push(RowCell::Text(cell.to_string()));
+            continue;
+        }
+        if c.blank_ok && cell.is_empty() {
+            out.push(RowCell::Number(None));
+            continue;
+        }
+        let v = match parse(c.name, cell, c.dim) {
+            Ok(v) if c.non_negative && v < 0.0 => Err(format!("'{cell}' is negative")),
+            Ok(v) if c.positive && v <= 0.0 => Err("must be above zero".to_string()),
+            Ok(v) => Ok(v),
+            Err(e) => Err(match e.kind {
+                ParamErrorKind::Missing => "the cell is empty".to_string(),
+                _ => e
+                    .to_string()
+                    .split_once(": ")
+                    .map_or(e.to_string(), |(_, m)| m.to_string()),
+            }),
+        };
+        match v {
+            Ok(v) => out.push(RowCell::Number(Some(v))),
+            Err(message) => {
+                problems.push((Some(c.name), message));
+                out.push(RowCell::Absent);
+            }
+        }
+    }
+    if problems.is_empty() {
+        Ok(out)
+    } else {
+        Err(problems)
+    }
+}
+
 /// Reads `text` as a table with the given columns.
 ///
 /// # Errors
@@ -329,57 +442,71 @@ pub fn read(text: &str, columns: &[Column]) -> Result<Table, Vec<CellError>> {
         .map(|(a, c)| a.filter(|_| c.dim == Dim::Text).map(|_| Vec::new()))
         .collect();
     let mut rows = Vec::new();
+    let mut remembered = REMEMBER.with(Cell::get).then(|| {
+        let key = format!("{}\u{0}{}\u{0}{header}", known.join(","), delim);
+        REMEMBERED.with(|r| {
+            let old: Lines = r.borrow_mut().remove(&key).unwrap_or_default();
+            let new = Lines::with_capacity_and_hasher(old.len(), Default::default());
+            (key, old, new)
+        })
+    });
     for (line, text) in lines {
-        let row = cells(text, delim);
-        if row.len() != names.len() {
-            errors.push(CellError {
-                line,
-                column: None,
-                message: format!("{} cells, the header has {}", row.len(), names.len()),
-            });
-            continue;
-        }
-        rows.push(line);
-        for (k, c) in columns.iter().enumerate() {
-            let Some(i) = at[k] else { continue };
-            let cell = &row[i];
-            if c.dim == Dim::Text {
-                if let Some(col) = texts[k].as_mut() {
-                    col.push(cell.to_string());
-                }
-                continue;
+        let parsed = match remembered.as_mut() {
+            Some((_, old, new)) => {
+                let (key, p) = match old.remove_entry(text) {
+                    Some(kept) => kept,
+                    None => (
+                        text.to_string(),
+                        parse_row(text, delim, names.len(), &at, columns),
+                    ),
+                };
+                let p: &Parsed = new.entry(key).or_insert(p);
+                Cow::Borrowed(p)
             }
-            if c.blank_ok && cell.is_empty() {
-                if let Some(col) = values[k].as_mut() {
-                    col.push(None);
+            None => Cow::Owned(parse_row(text, delim, names.len(), &at, columns)),
+        };
+        match parsed.as_ref() {
+            Err(problems) => {
+                errors.extend(problems.iter().map(|(column, message)| CellError {
+                    line,
+                    column: column.map(str::to_string),
+                    message: message.clone(),
+                }));
+                if problems.iter().any(|(c, _)| c.is_none()) {
+                    continue;
                 }
-                continue;
+                // A row with bad cells still counts as a row.
+                rows.push(line);
             }
-            let v = match parse(c.name, cell, c.dim) {
-                Ok(v) if c.non_negative && v < 0.0 => Err(format!("'{cell}' is negative")),
-                Ok(v) if c.positive && v <= 0.0 => Err("must be above zero".to_string()),
-                Ok(v) => Ok(v),
-                Err(e) => Err(match e.kind {
-                    ParamErrorKind::Missing => "the cell is empty".to_string(),
-                    _ => e
-                        .to_string()
-                        .split_once(": ")
-                        .map_or(e.to_string(), |(_, m)| m.to_string()),
-                }),
-            };
-            match v {
-                Ok(v) => {
-                    if let Some(col) = values[k].as_mut() {
-                        col.push(Some(v));
+            Ok(cells) => {
+                rows.push(line);
+                for (k, cell) in cells.iter().enumerate() {
+                    match cell {
+                        RowCell::Absent => {}
+                        RowCell::Text(t) => {
+                            if let Some(col) = texts[k].as_mut() {
+                                col.push(t.clone());
+                            }
+                        }
+                        RowCell::Number(v) => {
+                            if let Some(col) = values[k].as_mut() {
+                                col.push(*v);
+                            }
+                        }
                     }
                 }
-                Err(message) => errors.push(CellError {
-                    line,
-                    column: Some(c.name.into()),
-                    message,
-                }),
             }
         }
+    }
+    if let Some((key, _, new)) = remembered {
+        REMEMBERED.with(|r| {
+            let mut r = r.borrow_mut();
+            // A few tables at most (a page's design and corners); the rest are dropped.
+            if r.len() >= 4 {
+                r.clear();
+            }
+            r.insert(key, new);
+        });
     }
     if rows.is_empty() && errors.is_empty() {
         errors.push(CellError {
