@@ -25,16 +25,30 @@
     return Array.prototype.slice.call(form.querySelectorAll('input[name], select[name], textarea[name]'));
   }
 
+  // A field's value; a data text area's from its table, which may hold edits not yet
+  // written into the text area.
+  function valueOf(el) {
+    for (var i = 0; i < grids.length; i++) if (grids[i].area === el) return grids[i].current();
+    return el.value;
+  }
+
+  // Writes every table's waiting edits into its text area, before anything reads one.
+  function flushGrids() {
+    grids.forEach(function (g) { g.flush(); });
+  }
+
   function query() {
     var p = new URLSearchParams();
     inputs().forEach(function (el) {
-      if (el.value.trim() !== '') p.append(el.name, el.value);
+      var v = valueOf(el);
+      if (v.trim() !== '') p.append(el.name, v);
     });
     return p.toString();
   }
 
   // Fills the form from name/value pairs; the last value of a name wins, as in the core.
   function fillPairs(pairs) {
+    flushGrids(); // so that what is written here is seen as a change from outside
     var last = {};
     pairs.forEach(function (kv) { last[kv[0]] = kv[1]; });
     inputs().forEach(function (el) {
@@ -210,13 +224,19 @@
   var plotsQueued = false;
   var saveQueued = false;
 
-  function schedulePlots() {
+  // The plots of query `q` (the one just computed), or of the form as it is now.
+  var plotQuery = null;
+
+  function schedulePlots(q) {
+    plotQuery = typeof q === 'string' ? q : null;
     if (plotsQueued) return;
     plotsQueued = true;
     requestAnimationFrame(function () {
       plotsQueued = false;
       var t0 = performance.now();
-      try { draw(query()); } catch (e) { fatal('Internal error while drawing: ' + e); }
+      var pq = plotQuery === null ? query() : plotQuery;
+      plotQuery = null;
+      try { draw(pq); } catch (e) { fatal('Internal error while drawing: ' + e); }
       // The page benchmark (scripts/bench-pages) reads the work of each frame here.
       document.body.dataset.drawMs = (performance.now() - t0).toFixed(2);
     });
@@ -274,7 +294,7 @@
       if (!compute(q)) return;
       if (saveQueued) { saveQueued = false; save(q); }
       document.body.dataset.computeMs = (performance.now() - t0).toFixed(2);
-      schedulePlots();
+      schedulePlots(q);
     });
   }
 
@@ -290,7 +310,11 @@
   // A data file's text into a text area, then a recompute.
   function readInto(area, file) {
     var reader = new FileReader();
-    reader.onload = function () { area.value = String(reader.result); update(true); };
+    reader.onload = function () {
+      flushGrids();
+      area.value = String(reader.result);
+      update(true);
+    };
     reader.readAsText(file);
   }
 
@@ -396,6 +420,7 @@
     form.addEventListener('submit', function (e) { e.preventDefault(); });
     document.getElementById('reset').addEventListener('click', function () {
       undoQuery = query();
+      flushGrids();
       inputs().forEach(function (el) { el.value = defaults[el.name]; });
       show(document.getElementById('undo'), true);
       update(true);
@@ -406,6 +431,7 @@
         var demo = document.getElementById(b.dataset.demo);
         if (!demo) return;
         undoQuery = query();
+        flushGrids();
         inputs().forEach(function (el) { el.value = defaults[el.name]; });
         form.elements.namedItem('kind').value = demo.dataset.kind;
         form.elements.namedItem('data').value = demo.value;
@@ -471,6 +497,7 @@
       } else if (t.dataset.save) {
         // A data text area as the file it came from (CSV), as typed.
         var area = form.elements.namedItem(t.dataset.save);
+        flushGrids();
         if (area) download(page + '-' + t.dataset.save + '.csv', new Blob([area.value], { type: 'text/csv' }));
       } else if (t.dataset.open) {
         openInto(t.dataset.open);
@@ -493,6 +520,7 @@
     window.addEventListener('resize', function () { if (ready) schedulePlots(); });
     // Print: the date, the version and the link on the sheet, and plots drawn for paper.
     window.addEventListener('beforeprint', function () {
+      flushGrids();
       var stamp = document.getElementById('print-stamp');
       if (stamp) {
         var here = link();
@@ -524,6 +552,7 @@
     window.addEventListener('afterprint', function () { schedulePlots(); });
     // A save still waiting for typing to pause is made before the page goes.
     window.addEventListener('pagehide', function () {
+      flushGrids();
       if (saveTimer !== null) { clearTimeout(saveTimer); saveTimer = null; saveNow(query()); }
     });
     // Once print styles apply, the canvases have their paper size: draw them at it.

@@ -16,6 +16,10 @@
   // Changes to the text from outside the table (typing in the text view, a file, the
   // demo) within this many milliseconds are undone as one.
   var BURST_MS = 1500;
+  // Typing in a cell writes the text area once typing pauses this long: writing a large
+  // text area's value takes longer than a frame. Until then the table's text is the case
+  // (`current`), and anything that reads the text area first calls `flush`.
+  var SYNC_MS = 300;
 
   function el(tag, attrs, text) {
     var e = document.createElement(tag);
@@ -43,6 +47,8 @@
     var noun = area.dataset.gridNoun || 'rows';
     var field = area.name;
     var text = null;        // the text the table shows
+    var synced = null;      // the text area's value when the table last read or wrote it
+    var syncTimer = null;   // a write of `text` into the text area, waiting for a pause
     var lines = [];         // its lines
     var layout = { delimiter: ',', header: null, rows: [] };
     var header = [];        // the header's cells
@@ -136,6 +142,7 @@
 
     function readText() {
       text = area.value;
+      synced = text;
       lines = text.split('\n');
       layout = wasm_bindgen.table_layout(text);
       header = layout.header === null ? [] : wasm_bindgen.table_split(lines[layout.header], layout.delimiter);
@@ -291,8 +298,22 @@
       if (undo.length > UNDO_MOST) undo.shift();
     }
 
+    // Writes `text` into the text area now, unless the text area was changed from
+    // outside meanwhile (its new value wins).
+    function flush() {
+      if (syncTimer === null) return;
+      clearTimeout(syncTimer);
+      syncTimer = null;
+      box.removeAttribute('data-pending');
+      if (area.value === synced) {
+        area.value = text;
+        synced = area.value;
+      }
+    }
+
     // Writes the lines back into the text area and recomputes.
     function write(next) {
+      flush();
       area.value = next;
       readText();
       draw();
@@ -378,6 +399,7 @@
     }
 
     function view(which) {
+      flush();
       var table = which === 'table';
       tableB.classList.toggle('on', table);
       textB.classList.toggle('on', !table);
@@ -418,8 +440,11 @@
       var cells = Array.prototype.map.call(tr.querySelectorAll('input[data-col]'), function (i) { return i.value; });
       lines[layout.rows[r]] = wasm_bindgen.table_join(cells, layout.delimiter);
       text = lines.join('\n');
-      area.value = text;
-      // The form's own input listener recomputes; the row's line is unchanged.
+      box.dataset.pending = 'yes';
+      if (syncTimer !== null) clearTimeout(syncTimer);
+      syncTimer = setTimeout(flush, SYNC_MS);
+      // The form's own input listener recomputes (reading `current`); the row's line is
+      // unchanged.
       undoB.disabled = false;
     });
     tbody.addEventListener('keydown', function (e) {
@@ -469,7 +494,10 @@
         var f = (state.fields || []).filter(function (x) { return x.name === field; })[0];
         problems = problemsByLine(f && f.error);
       }
-      if (area.value !== text) {
+      // Changed from outside the table (typed in the text view, a file, the demo, a
+      // link): that text wins over any write still waiting.
+      if (area.value !== synced) {
+        if (syncTimer !== null) { clearTimeout(syncTimer); syncTimer = null; box.removeAttribute('data-pending'); }
         if (text !== null && Date.now() - lastOutside > BURST_MS) remember(text);
         if (text !== null) lastOutside = Date.now();
         readText();
@@ -478,6 +506,12 @@
       draw();
     };
     this.element = box;
+    this.area = area;
+    this.flush = flush;
+    // The field's text as it now is: the table's, while its write waits for a pause.
+    this.current = function () {
+      return syncTimer !== null && area.value === synced ? text : area.value;
+    };
     view('table');
   }
 

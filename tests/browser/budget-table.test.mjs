@@ -20,7 +20,12 @@ function cliFor(design) {
 }
 
 const cell = (row, col) => `#grid-design tr[data-row="${row}"] input[data-col="${col}"]`;
-const designText = (page) => page.inputValue('[name="design"]');
+// The CSV text behind the table, once the table has written its edits into it (it does
+// when typing pauses).
+const designText = async (page) => {
+  await page.waitForSelector('#grid-design:not([data-pending])', { state: 'attached' });
+  return page.inputValue('[name="design"]');
+};
 const total = async (page) => Number((await outputs(page)).log10_total_fit.value);
 
 test('a cell edited in the table changes its line of the CSV and the results, as the command line reads it', async () => {
@@ -206,6 +211,32 @@ test('the printed report is a sign-off: verdict, inputs, corners, offenders, fix
   assert.equal(firstOffender, top);
   for (const f of want.fix) assert.ok(text.includes(f.name), f.name);
   assert.ok(text.includes('low_v_cold'));
+  assert.deepEqual(problems, []);
+  await context.close();
+});
+
+test('an edit still waiting to be written reaches Save CSV and the link, and gives way to the demo', async () => {
+  const { context, page, problems } = await open(env.browser, fileUrl('budget.html'));
+  const demo = await designText(page);
+  // Edited and the demo pressed at once: the demo wins.
+  await fill(page, cell(0, 4), '55');
+  await page.click('#reset');
+  await page.waitForTimeout(600);
+  assert.equal(await designText(page), demo);
+  await fill(page, cell(0, 4), '99');
+  // Saved at once, before typing pauses: the file has the edit.
+  const [saved] = await Promise.all([page.waitForEvent('download'), page.click('[data-save="design"]')]);
+  assert.match(fs.readFileSync(await saved.path(), 'utf8'), /^core_irq_sync,1\.2GHz,2MHz,2,99,$/m);
+  await fill(page, cell(0, 4), '77');
+  assert.ok(await page.$('#grid-design[data-pending]'), 'the write waits for a pause');
+  // The link and the results already have it.
+  const link = cli('budget', ['--from-url', page.url()]);
+  assert.equal(link.rows.find((r) => r.name === 'core_irq_sync').count, 77);
+  // The demo, pressed before the pause, wins: the waiting write is dropped.
+  await page.click('#reset');
+  await page.waitForTimeout(600);
+  assert.equal(await designText(page), demo);
+  assert.equal(await page.inputValue(cell(0, 4)), '16');
   assert.deepEqual(problems, []);
   await context.close();
 });

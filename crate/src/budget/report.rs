@@ -5,6 +5,7 @@ use serde::Serialize;
 
 use crate::calculator::{FigureColumn, Outcome, RowFigures};
 use crate::chart::series::{Curve, Plot, Spacing};
+use crate::numeric::exp10;
 use crate::params::serialize_pairs;
 use crate::readout::Readout;
 use crate::reliability::{fleet_outcome, FleetOutcome, CAUTION, FIT_PER_RATE};
@@ -111,7 +112,7 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
     // rounding alone can be 1e11 decades at 1e27) reaches the exponent: each term is at
     // most 1 and their sum at least 1.
     let top = fits.iter().copied().fold(f64::NEG_INFINITY, f64::max);
-    let rel: Vec<f64> = fits.iter().map(|f| 10f64.powf(f - top)).collect();
+    let rel: Vec<f64> = fits.iter().map(|f| exp10(f - top)).collect();
     let sum: f64 = rel.iter().sum();
     let rows: Vec<RowFit> = fits
         .iter()

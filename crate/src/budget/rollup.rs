@@ -6,6 +6,7 @@ use std::cmp::Ordering;
 use std::collections::BinaryHeap;
 use std::f64::consts::{LN_10, PI};
 
+use crate::numeric::exp10;
 use crate::numeric::normal::{ln_q, ln_sum_exp};
 use crate::numeric::solve::bisect_last;
 use crate::reliability::FIT_PER_RATE;
@@ -121,16 +122,22 @@ impl Rollup {
     /// Returns the new stage counts, or `None` when adding stages cannot meet the budget.
     pub fn fix(&self, log10_budget: f64) -> Option<Vec<u32>> {
         let mut stages = self.stages.clone();
-        let budget = 10f64.powf(log10_budget);
-        // Linear totals for the search (each row's FIT is far from f64's limits under the
+        let budget = exp10(log10_budget);
+        let corners = self.corners();
+        // Linear FIT for the search (each row's FIT is far from f64's limits under the
         // fields' limits); the report recomputes the totals exactly in logarithms.
-        let lin = |k: usize, r: usize, s: u32| 10f64.powf(self.cells[r][k].log10_fit(s, 1.0));
-        let sum_afresh = |stages: &[u32]| -> Vec<f64> {
-            (0..self.corners())
-                .map(|k| (0..self.cells.len()).map(|r| lin(k, r, stages[r])).sum())
+        let lin = |k: usize, r: usize, s: u32| exp10(self.cells[r][k].log10_fit(s, 1.0));
+        // Each row's FIT at each corner at its current stages, row by row.
+        let mut cur: Vec<f64> = (0..self.cells.len())
+            .flat_map(|r| (0..corners).map(move |k| (r, k)))
+            .map(|(r, k)| lin(k, r, stages[r]))
+            .collect();
+        let sum_afresh = |cur: &[f64]| -> Vec<f64> {
+            (0..corners)
+                .map(|k| cur.iter().skip(k).step_by(corners.max(1)).sum())
                 .collect()
         };
-        let mut totals = sum_afresh(&stages);
+        let mut totals = sum_afresh(&cur);
         let worst_of = |t: &[f64]| {
             t.iter()
                 .copied()
@@ -153,15 +160,17 @@ impl Rollup {
                 self.0.total_cmp(&o.0)
             }
         }
-        let gain = |k: usize, r: usize, s: u32| (lin(k, r, s) - lin(k, r, s + 1)) / self.counts[r];
-        let candidates = |k: usize, stages: &[u32]| -> BinaryHeap<Gain> {
+        let gain = |cur: &[f64], k: usize, r: usize, s: u32| {
+            (cur[r * corners + k] - lin(k, r, s + 1)) / self.counts[r]
+        };
+        let candidates = |cur: &[f64], k: usize, stages: &[u32]| -> BinaryHeap<Gain> {
             (0..self.cells.len())
                 .filter(|&r| self.cells[r][k].tr.is_none() && stages[r] < MAX_STAGES)
-                .map(|r| Gain(gain(k, r, stages[r]), r, stages[r]))
+                .map(|r| Gain(gain(cur, k, r, stages[r]), r, stages[r]))
                 .collect()
         };
         let (mut at, _) = worst_of(&totals);
-        let mut heap = candidates(at, &stages);
+        let mut heap = candidates(&cur, at, &stages);
         let mut steps: u64 = 0;
         // Each corner's total when last summed afresh: the running sums carry rounding
         // of that size, so they are summed afresh once they fall 1000-fold below it.
@@ -169,7 +178,7 @@ impl Rollup {
         loop {
             if worst_of(&totals).1 <= budget * (1.0 + 1e-12) {
                 // Met by the running sums: confirm by summing afresh.
-                totals = sum_afresh(&stages);
+                totals = sum_afresh(&cur);
                 summed.clone_from(&totals);
                 if worst_of(&totals).1 <= budget * (1.0 + 1e-12) {
                     break;
@@ -182,7 +191,7 @@ impl Rollup {
             let (k, _) = worst_of(&totals);
             if k != at {
                 at = k;
-                heap = candidates(at, &stages);
+                heap = candidates(&cur, at, &stages);
             }
             let Gain(g, r, s) = heap.pop()?;
             if s != stages[r] {
@@ -194,15 +203,17 @@ impl Rollup {
             stages[r] = s + 1;
             let mut cancelled = false;
             for (k, t) in totals.iter_mut().enumerate() {
-                *t += lin(k, r, s + 1) - lin(k, r, s);
+                let next = lin(k, r, s + 1);
+                *t += next - cur[r * corners + k];
+                cur[r * corners + k] = next;
                 cancelled |= *t < summed[k] * 1e-3;
             }
             if cancelled {
-                totals = sum_afresh(&stages);
+                totals = sum_afresh(&cur);
                 summed.clone_from(&totals);
             }
             if stages[r] < MAX_STAGES {
-                heap.push(Gain(gain(at, r, stages[r]), r, stages[r]));
+                heap.push(Gain(gain(&cur, at, r, stages[r]), r, stages[r]));
             }
         }
         Some(stages)
