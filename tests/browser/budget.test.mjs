@@ -27,6 +27,10 @@ test('the demo chip gives the command line\'s numbers, with its plots', async ()
   assert.equal(out.worst_corner.text, want.worst_corner);
   assert.match(out.meets_budget.text, /^missed by 5\.85 decades$/);
   for (const id of ['plot-rows', 'plot-corners', 'plot-spread']) assert.ok(await inked(page, id) > 1000, id);
+  if (process.env.UPDATE_SCREENSHOTS) {
+    await page.selectOption('#grid-design select', 'share');
+    await page.screenshot({ path: path.join(root, 'docs/budget-page.png'), fullPage: true });
+  }
   assert.deepEqual(problems, []);
   assert.deepEqual(foreign, []);
   await context.close();
