@@ -327,3 +327,22 @@ fn a_compact_design_link_reads_back_on_the_command_line() {
         "{err}"
     );
 }
+
+/// Packing a query packs only long table values, where that makes them shorter; the
+/// query reads back as it was.
+#[test]
+fn compact_queries_pack_only_long_table_values() {
+    use latchwise::link::{encode, pack_pairs};
+    use latchwise::params::RawInputs;
+    let design = "name,fclk,fdata,stages\n".to_string() + &"b,1GHz,1MHz,2\n".repeat(30);
+    let q = format!("tau=20+ps&design={}", encode(&design));
+    let packed = pack_pairs(RawInputs::from_query(&q).pairs(), &["design", "corners"]);
+    assert!(packed.starts_with("tau=20+ps&design=~1"), "{packed}");
+    assert!(packed.len() < q.len() / 3);
+    let back = RawInputs::from_query(&packed);
+    assert_eq!(back.get("design"), Some(design.as_str()));
+    assert_eq!(back.get("tau"), Some("20 ps"));
+    // A short value stays readable.
+    let short = RawInputs::from_query("design=a%2Cb");
+    assert_eq!(pack_pairs(short.pairs(), &["design"]), "design=a%2Cb");
+}

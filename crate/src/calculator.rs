@@ -197,7 +197,7 @@ pub fn compact_query<C: Calculator>(query: &str) -> String {
         .filter(|f| f.dim == crate::units::Dim::Text)
         .map(|f| f.name)
         .collect();
-    crate::link::pack_query(query, &texts)
+    crate::link::pack_pairs(RawInputs::from_query(query).pairs(), &texts)
 }
 
 /// Something to do with a calculator chosen by name at run time (see

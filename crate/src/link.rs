@@ -1,8 +1,9 @@
 //! Compact link values: a long text value (a design, a corners table, measured data)
 //! travels in a link deflated (RFC 1951) and base64url-encoded (RFC 4648 section 5)
 //! behind the mark [`MARK`], so that a design of hundreds of rows fits in a link of a few
-//! kilobytes. [`crate::params::RawInputs::from_query`] unpacks such values, so the page
-//! and the command line's `--from-url` read packed and plain links alike.
+//! kilobytes. `RawInputs::from_query` (in `params`) unpacks such values, so the page and
+//! the command line's `--from-url` read packed and plain links alike. This module depends
+//! on no other of the crate.
 
 /// The mark a packed value starts with (`~` is not in the base64url alphabet, and no
 /// table's header can start with it).
@@ -88,12 +89,11 @@ pub fn unpack(value: &str) -> Option<Result<String, String>> {
     }))
 }
 
-/// A page's query with the long values of `fields` packed where that makes them
-/// shorter; other pairs are kept as they are. Keys and plain values are percent-encoded
+/// A query of `pairs` with the long values of `fields` packed where that makes them
+/// shorter; other values are kept as they are. Keys and plain values are percent-encoded
 /// as a browser's form encoding does.
-pub fn pack_query(query: &str, fields: &[&str]) -> String {
-    let raw = crate::params::RawInputs::from_query(query);
-    raw.pairs()
+pub fn pack_pairs(pairs: &[(String, String)], fields: &[&str]) -> String {
+    pairs
         .iter()
         .map(|(k, v)| {
             let packed = (fields.contains(&k.as_str()) && v.len() >= PACK_FROM)
@@ -107,7 +107,7 @@ pub fn pack_query(query: &str, fields: &[&str]) -> String {
 
 /// Percent-encoding as `application/x-www-form-urlencoded` (WHATWG URL standard): space
 /// is `+`, and only `*-._` and alphanumerics stay as they are.
-fn encode(s: &str) -> String {
+pub fn encode(s: &str) -> String {
     let mut out = String::with_capacity(s.len());
     for b in s.bytes() {
         match b {
@@ -178,19 +178,5 @@ mod tests {
             .unwrap()
             .unwrap_err()
             .contains("more than 16 MiB"));
-    }
-
-    #[test]
-    fn pack_query_packs_only_long_table_values() {
-        let design = "name,fclk,fdata,stages\n".to_string() + &"b,1GHz,1MHz,2\n".repeat(30);
-        let q = format!("tau=20+ps&design={}", encode(&design));
-        let packed = pack_query(&q, &["design", "corners"]);
-        assert!(packed.starts_with("tau=20+ps&design=~1"), "{packed}");
-        assert!(packed.len() < q.len() / 3);
-        let back = crate::params::RawInputs::from_query(&packed);
-        assert_eq!(back.get("design"), Some(design.as_str()));
-        assert_eq!(back.get("tau"), Some("20 ps"));
-        // A short value stays readable.
-        assert_eq!(pack_query("design=a%2Cb", &["design"]), "design=a%2Cb");
     }
 }
