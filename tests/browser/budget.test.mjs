@@ -4,7 +4,7 @@ import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import path from 'node:path';
 import fs from 'node:fs';
-import { setup, open, fileUrl, outputs, root, cli, fill, inked } from './harness.mjs';
+import { setup, open, fileUrl, outputs, root, cli, fill, inked, settle } from './harness.mjs';
 
 const env = setup({ before, after });
 
@@ -74,6 +74,7 @@ test('design and corners round-trip through CSV files; the JSON export is the co
   const [chooser] = await Promise.all([page.waitForEvent('filechooser'), page.click('[data-open="design"]')]);
   await chooser.setFiles(savedPath);
   await page.waitForFunction((d) => document.querySelector('[name="design"]').value === d, design);
+  await settle(page); // the results follow in the next frame
   const after = await outputs(page);
   for (const k of Object.keys(before)) assert.equal(after[k].value, before[k].value, k);
   // The JSON export carries the same report as `latchwise budget --json`.
