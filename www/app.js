@@ -37,6 +37,27 @@
     grids.forEach(function (g) { g.flush(); });
   }
 
+  // The form for the core: the small fields as a query, the data text areas beside it
+  // as they are (encoding a large design into a query and decoding it again would cost
+  // more than the rest of an edit).
+  function queryParts() {
+    var p = new URLSearchParams();
+    var names = [];
+    var texts = [];
+    inputs().forEach(function (el) {
+      var v = valueOf(el);
+      if (v.trim() === '') return;
+      if (el.tagName === 'TEXTAREA') { names.push(el.name); texts.push(v); } else p.append(el.name, v);
+    });
+    return { plain: p.toString(), names: names, texts: texts };
+  }
+
+  // The characters of a case, as a query would hold them (about).
+  function sizeOf(arg) {
+    if (typeof arg === 'string') return arg.length;
+    return arg.texts.reduce(function (n, t) { return n + t.length; }, arg.plain.length);
+  }
+
   function query() {
     var p = new URLSearchParams();
     inputs().forEach(function (el) {
@@ -198,8 +219,10 @@
     });
   }
 
+  // Plots of a query (a string) or of query parts (see queryParts).
   function drawOnce(q, dpr) {
-    var drawn = wasm_bindgen.draw(page, q, dpr);
+    var drawn = typeof q === 'string' ? wasm_bindgen.draw(page, q, dpr)
+      : wasm_bindgen.draw_with(page, q.plain, q.names, q.texts, dpr);
     each('.plots canvas', function (c) {
       c.dataset.drawn = drawn.indexOf(c.id) >= 0 ? 'yes' : 'no';
       c.parentNode.dataset.stale = c.dataset.drawn === 'yes' ? 'no' : 'yes';
@@ -228,7 +251,7 @@
   var plotQuery = null;
 
   function schedulePlots(q) {
-    plotQuery = typeof q === 'string' ? q : null;
+    plotQuery = q === undefined ? null : q;
     if (plotsQueued) return;
     plotsQueued = true;
     requestAnimationFrame(function () {
@@ -242,9 +265,11 @@
     });
   }
 
+  // Numbers of a query (a string: a link as given) or of query parts (the form).
   function compute(q) {
     try {
-      render(wasm_bindgen.page(page, q));
+      render(typeof q === 'string' ? wasm_bindgen.page(page, q)
+        : wasm_bindgen.page_with(page, q.plain, q.names, q.texts));
       document.body.dataset.computes = String((Number(document.body.dataset.computes) || 0) + 1);
       return true;
     } catch (e) {
@@ -278,7 +303,7 @@
 
   function save(q) {
     if (saveTimer !== null) { clearTimeout(saveTimer); saveTimer = null; }
-    if (q.length <= SAVE_AT_ONCE_CHARS) { saveNow(q); return; }
+    if (sizeOf(q) <= SAVE_AT_ONCE_CHARS) { saveNow(typeof q === 'string' ? q : query()); return; }
     saveTimer = setTimeout(function () { saveTimer = null; saveNow(query()); }, 400);
   }
 
@@ -290,7 +315,7 @@
     requestAnimationFrame(function () {
       frameQueued = false;
       var t0 = performance.now();
-      var q = query();
+      var q = queryParts();
       if (!compute(q)) return;
       if (saveQueued) { saveQueued = false; save(q); }
       document.body.dataset.computeMs = (performance.now() - t0).toFixed(2);

@@ -81,8 +81,32 @@ struct Evaluation<C: Calculator> {
     result: Result<(C::Case, C::Report), ParamErrors>,
 }
 
-/// A remembered evaluation: the calculator, the query, and its [`Evaluation`].
-type Remembered = Option<(&'static str, String, Rc<dyn Any>)>;
+/// A page's inputs: a query, and data tables passed beside it as (names, texts), so that
+/// a large design need not be encoded into the query and decoded again on every edit.
+#[derive(Clone, Copy)]
+struct Given<'a> {
+    query: &'a str,
+    names: &'a [String],
+    texts: &'a [String],
+}
+
+impl<'a> Given<'a> {
+    fn query(query: &'a str) -> Self {
+        Given {
+            query,
+            names: &[],
+            texts: &[],
+        }
+    }
+}
+
+/// A remembered evaluation: the calculator, its inputs (query, table names and texts),
+/// and its [`Evaluation`].
+type Remembered = Option<(
+    &'static str,
+    (String, Vec<String>, Vec<String>),
+    Rc<dyn Any>,
+)>;
 
 thread_local! {
     /// The last evaluation, by calculator and query: a page computes its numbers, then
@@ -91,29 +115,36 @@ thread_local! {
     static LAST: RefCell<Remembered> = const { RefCell::new(None) };
 }
 
-/// Calculator `C`'s evaluation of `query`, from the last one when it is the same.
-fn evaluation<C: Calculator>(query: &str) -> Rc<Evaluation<C>> {
+/// Calculator `C`'s evaluation of `given`, from the last one when it is the same.
+fn evaluation<C: Calculator>(given: Given) -> Rc<Evaluation<C>> {
     LAST.with(|last| {
-        if let Some((name, q, value)) = &*last.borrow() {
-            if *name == C::NAME && q == query {
+        if let Some((name, (q, n, t), value)) = &*last.borrow() {
+            if *name == C::NAME && q == given.query && n == given.names && t == given.texts {
                 if let Ok(e) = Rc::clone(value).downcast::<Evaluation<C>>() {
                     return e;
                 }
             }
         }
-        let raw = query_inputs::<C>(query);
+        let mut pairs = query_inputs::<C>(given.query).pairs().to_vec();
+        pairs.extend(given.names.iter().cloned().zip(given.texts.iter().cloned()));
+        let raw = RawInputs::from_pairs(pairs).renamed(C::ALIASES);
         let result = C::read(&raw).map(|case| {
             let report = C::evaluate(&case);
             (case, report)
         });
         let e = Rc::new(Evaluation::<C> { raw, result });
         let value: Rc<dyn Any> = e.clone();
-        *last.borrow_mut() = Some((C::NAME, query.to_string(), value));
+        let key = (
+            given.query.to_string(),
+            given.names.to_vec(),
+            given.texts.to_vec(),
+        );
+        *last.borrow_mut() = Some((C::NAME, key, value));
         e
     })
 }
 
-struct Page<'a>(&'a str);
+struct Page<'a>(Given<'a>);
 
 impl Visit for Page<'_> {
     type Out = PageState;
@@ -167,7 +198,7 @@ impl Visit for Page<'_> {
     }
 }
 
-struct Plots<'a>(&'a str);
+struct Plots<'a>(Given<'a>);
 
 impl Visit for Plots<'_> {
     type Out = Vec<Plot>;
@@ -201,7 +232,7 @@ pub fn read_query(name: &str, query: &str) -> Result<JsValue, JsError> {
     to_js(&dispatch(name, Read(query)).ok_or_else(|| unknown(name))?)
 }
 
-struct Report<'a>(&'a str);
+struct Report<'a>(Given<'a>);
 
 impl Visit for Report<'_> {
     type Out = Result<JsValue, JsError>;
@@ -221,7 +252,7 @@ impl Visit for Report<'_> {
 /// An unknown calculator, or a report that cannot be converted to a JS value.
 #[wasm_bindgen]
 pub fn report(name: &str, query: &str) -> Result<JsValue, JsError> {
-    dispatch(name, Report(query)).ok_or_else(|| unknown(name))?
+    dispatch(name, Report(Given::query(query))).ok_or_else(|| unknown(name))?
 }
 
 /// Evaluates the query of calculator `name`'s page: field states (text, echo, error),
@@ -232,7 +263,26 @@ pub fn report(name: &str, query: &str) -> Result<JsValue, JsError> {
 /// An unknown calculator, or an answer that cannot be converted to a JS value.
 #[wasm_bindgen]
 pub fn page(name: &str, query: &str) -> Result<JsValue, JsError> {
-    to_js(&dispatch(name, Page(query)).ok_or_else(|| unknown(name))?)
+    to_js(&dispatch(name, Page(Given::query(query))).ok_or_else(|| unknown(name))?)
+}
+
+/// [`page`] with the data tables beside the query: `names[i]` holds `texts[i]`.
+///
+/// # Errors
+/// As [`page`].
+#[wasm_bindgen]
+pub fn page_with(
+    name: &str,
+    query: &str,
+    names: Vec<String>,
+    texts: Vec<String>,
+) -> Result<JsValue, JsError> {
+    let given = Given {
+        query,
+        names: &names,
+        texts: &texts,
+    };
+    to_js(&dispatch(name, Page(given)).ok_or_else(|| unknown(name))?)
 }
 
 /// Draws calculator `name`'s plots into the canvases of the same ids, at `scale` device
@@ -242,7 +292,31 @@ pub fn page(name: &str, query: &str) -> Result<JsValue, JsError> {
 /// An unknown calculator, or a chart that fails to draw.
 #[wasm_bindgen]
 pub fn draw(name: &str, query: &str, scale: f64) -> Result<Vec<String>, JsError> {
-    let plots = dispatch(name, Plots(query)).ok_or_else(|| unknown(name))?;
+    draw_given(name, Given::query(query), scale)
+}
+
+/// [`draw`] with the data tables beside the query, as [`page_with`] takes them.
+///
+/// # Errors
+/// As [`draw`].
+#[wasm_bindgen]
+pub fn draw_with(
+    name: &str,
+    query: &str,
+    names: Vec<String>,
+    texts: Vec<String>,
+    scale: f64,
+) -> Result<Vec<String>, JsError> {
+    let given = Given {
+        query,
+        names: &names,
+        texts: &texts,
+    };
+    draw_given(name, given, scale)
+}
+
+fn draw_given(name: &str, given: Given, scale: f64) -> Result<Vec<String>, JsError> {
+    let plots = dispatch(name, Plots(given)).ok_or_else(|| unknown(name))?;
     let mut drawn = Vec::new();
     for plot in &plots {
         if draw_into(plot, plot.id, scale)? {
@@ -291,7 +365,7 @@ pub fn draw_plot(
     canvas: &str,
     scale: f64,
 ) -> Result<bool, JsError> {
-    let plots = dispatch(name, Plots(query)).ok_or_else(|| unknown(name))?;
+    let plots = dispatch(name, Plots(Given::query(query))).ok_or_else(|| unknown(name))?;
     match plots.iter().find(|p| p.id == plot) {
         Some(p) => draw_into(p, canvas, scale),
         None => Ok(false),
