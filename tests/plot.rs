@@ -302,3 +302,30 @@ fn the_budget_line_stays_in_view_of_the_spread() {
         .fold(f64::INFINITY, f64::min);
     assert!(smallest <= 100.0, "{labels:?}");
 }
+
+#[test]
+fn a_spread_beyond_the_f64_range_is_plotted_by_its_log10() {
+    // A fuzz input (fuzz/corpus/query/case-budget-tiny-tau): tau of 1e-42 s puts the
+    // total near 10^(-1e30) FIT. The spread plot once wrote 0 for every FIT and drew no
+    // curve; its x is now log10 of the total, on a plain axis.
+    use latchwise::budget::BudgetCalculator;
+    let raw = RawInputs::from_query(
+        "design=name;fclk;fdata;stages%0Ax;1e18;1e18;1000&corners=corner,tau,tw,tsu,tcq%0Ac,1e-42,1e6,0,0&tau-sigma=2&tw-sigma=5",
+    );
+    let case = BudgetCalculator::read(&raw).unwrap();
+    let report = BudgetCalculator::evaluate(&case);
+    let spread = BudgetCalculator::plots(&case, &report)
+        .into_iter()
+        .find(|p| p.id == "plot-spread")
+        .unwrap();
+    let xs: Vec<f64> = spread.points().iter().map(|p| p.0).collect();
+    assert!(xs.iter().all(|x| x.is_finite() && *x < -300.0), "{xs:?}");
+    assert!(xs.windows(2).all(|w| w[0] < w[1]));
+    let csv = latchwise::calculator::plot_csv::<BudgetCalculator>(&raw, "plot-spread", "").unwrap();
+    assert!(csv.contains("\nlog10_FIT,probability\n"), "{csv}");
+    let (out, _) = svg(&spread, None);
+    assert!(
+        out.contains("<polyline") || out.contains("<path"),
+        "no curve drawn"
+    );
+}

@@ -489,19 +489,29 @@ pub fn plots(c: &BudgetCase, report: &BudgetReport) -> Vec<Plot> {
     let mut v = vec![rows, corners];
     if let Some((ts, ws)) = c.sigmas {
         let dist = c.rollup.distribution(ts, ws, 120);
-        let mut spread = Plot::new(
-            "plot-spread",
-            "The worst total under the uncertainty",
-            ("FIT", "", Spacing::Log),
-        )
-        .y("probability", "probability of a total at most this")
-        .linear_y("");
+        // Totals beyond what an f64 holds (below 1e-300 or above 1e300 FIT, as with
+        // extreme inputs) are plotted by their log10 on a plain axis, so that the curve
+        // and its CSV keep their values instead of turning into 0.
+        let extreme = dist.iter().any(|(x, _)| x.abs() > 300.0);
+        let (axis, to_x): ((&'static str, &'static str, Spacing), fn(f64) -> f64) = if extreme {
+            (
+                ("log10_FIT (log10 of the total FIT)", "", Spacing::Linear),
+                |x| x,
+            )
+        } else {
+            (("FIT", "", Spacing::Log), |x| 10f64.powf(x))
+        };
+        let mut spread = Plot::new("plot-spread", "The worst total under the uncertainty", axis)
+            .y("probability", "probability of a total at most this")
+            .linear_y("");
         spread.curves = vec![Curve {
             label: String::new(),
-            points: dist.iter().map(|(x, p)| (10f64.powf(*x), *p)).collect(),
+            points: dist.iter().map(|(x, p)| (to_x(*x), *p)).collect(),
             points_only: false,
         }];
-        spread.vline = report.budget_fit.map(|b| (b, "budget".to_string()));
+        spread.vline = report
+            .budget_fit
+            .map(|b| (if extreme { b.log10() } else { b }, "budget".to_string()));
         v.push(spread);
     }
     v
