@@ -493,14 +493,12 @@ pub fn plots(c: &BudgetCase, report: &BudgetReport) -> Vec<Plot> {
         // extreme inputs) are plotted by their log10 on a plain axis, so that the curve
         // and its CSV keep their values instead of turning into 0.
         let extreme = dist.iter().any(|(x, _)| x.abs() > 300.0);
-        let (axis, to_x): ((&'static str, &'static str, Spacing), fn(f64) -> f64) = if extreme {
-            (
-                ("log10_FIT (log10 of the total FIT)", "", Spacing::Linear),
-                |x| x,
-            )
+        let axis = if extreme {
+            ("log10_FIT (log10 of the total FIT)", "", Spacing::Linear)
         } else {
-            (("FIT", "", Spacing::Log), |x| 10f64.powf(x))
+            ("FIT", "", Spacing::Log)
         };
+        let to_x = |x: f64| if extreme { x } else { 10f64.powf(x) };
         let mut spread = Plot::new("plot-spread", "The worst total under the uncertainty", axis)
             .y("probability", "probability of a total at most this")
             .linear_y("");
