@@ -153,6 +153,36 @@ fn x_label_text(spec: &Plot, x: f64) -> String {
     }
 }
 
+/// The corner for a legend of `size` (width, height as fractions of the plotting area):
+/// the one with the fewest of the points `uv` (plot fractions, 0 to 1 from the lower
+/// left) under it; on a tie, upper right for a `falling` curve, else lower right, then
+/// the left.
+fn legend_corner(uv: &[(f64, f64)], size: (f64, f64), falling: bool) -> SeriesLabelPosition {
+    let (w, h) = size;
+    let under = |right: bool, upper: bool| {
+        uv.iter()
+            .filter(|(u, v)| {
+                (if right { *u > 1.0 - w } else { *u < w })
+                    && (if upper { *v > 1.0 - h } else { *v < h })
+            })
+            .count()
+    };
+    let mut corners = vec![
+        (SeriesLabelPosition::UpperRight, under(true, true)),
+        (SeriesLabelPosition::LowerRight, under(true, false)),
+        (SeriesLabelPosition::UpperLeft, under(false, true)),
+        (SeriesLabelPosition::LowerLeft, under(false, false)),
+    ];
+    if !falling {
+        corners.swap(0, 1);
+    }
+    // The first of the emptiest (min_by_key keeps the first of equals).
+    corners
+        .into_iter()
+        .min_by_key(|c| c.1)
+        .map_or(SeriesLabelPosition::UpperRight, |c| c.0)
+}
+
 /// A chart that could not be drawn: the backend's message.
 #[derive(Debug, Clone, PartialEq)]
 pub struct DrawError(pub String);
@@ -312,17 +342,44 @@ pub fn draw<DB: DrawingBackend>(
         }
     }
     if legend {
-        // Keep the legend off the curve: descending curves leave the upper right free.
+        // Keep the legend off the data: the corner of the plot with the fewest points
+        // under it, the right-hand ones first (descending curves leave the upper right
+        // free, rising ones the lower right).
         let falling = spec
             .curves
             .first()
             .and_then(|c| Some((c.points.first()?.1, c.points.last()?.1)))
             .is_some_and(|(a, b)| b < a);
-        let corner = if falling {
-            SeriesLabelPosition::UpperRight
-        } else {
-            SeriesLabelPosition::LowerRight
-        };
+        let (xs, ys) = (
+            (xhi - xlo).max(f64::MIN_POSITIVE),
+            (yhi - ylo).max(f64::MIN_POSITIVE),
+        );
+        let uv: Vec<(f64, f64)> = spec
+            .curves
+            .iter()
+            .flat_map(|c| c.points.iter())
+            .chain(spec.marker.iter())
+            .map(|&(x, y)| ((to_axis_x(spec.spacing, x) - xlo) / xs, (y - ylo) / ys))
+            .filter(|(u, v)| u.is_finite() && v.is_finite())
+            .collect();
+        let labels: Vec<&str> = spec
+            .curves
+            .iter()
+            .map(|c| c.label.as_str())
+            .filter(|l| !l.is_empty())
+            .chain(spec.hline.iter().map(|h| h.1.as_str()))
+            .chain(spec.vline.iter().map(|v| v.1.as_str()))
+            .chain(spec.marker.iter().map(|_| "this case"))
+            .collect();
+        // The legend's size with its inset from the corner, as a fraction of the
+        // plotting area.
+        let (pw, ph) = chart.plotting_area().dim_in_pixel();
+        let longest = labels.iter().map(|l| l.chars().count()).max().unwrap_or(0) as f64;
+        let size = (
+            (((longest * 6.8 + 42.0) * k + 12.0) * s / f64::from(pw.max(1))).min(0.9),
+            (((labels.len() as f64 * 19.0 + 12.0) * k + 12.0) * s / f64::from(ph.max(1))).min(0.9),
+        );
+        let corner = legend_corner(&uv, size, falling);
         chart
             .configure_series_labels()
             .label_font(font(11.5))
@@ -338,4 +395,33 @@ pub fn draw<DB: DrawingBackend>(
         y_range: (ylo, yhi),
         points,
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn the_legend_goes_where_no_points_are() {
+        let upper_right = [(0.9, 0.9), (0.95, 0.8)];
+        assert!(matches!(
+            legend_corner(&upper_right, (0.4, 0.2), true),
+            SeriesLabelPosition::LowerRight
+        ));
+        // Points in both right-hand corners (the corners plot of a budget): the left.
+        let right = [(0.95, 0.05), (0.95, 0.95), (0.5, 0.5)];
+        assert!(matches!(
+            legend_corner(&right, (0.4, 0.2), false),
+            SeriesLabelPosition::UpperLeft
+        ));
+        // Nothing in the way: upper right for a falling curve, lower right otherwise.
+        assert!(matches!(
+            legend_corner(&[], (0.4, 0.3), true),
+            SeriesLabelPosition::UpperRight
+        ));
+        assert!(matches!(
+            legend_corner(&[], (0.4, 0.3), false),
+            SeriesLabelPosition::LowerRight
+        ));
+    }
 }
