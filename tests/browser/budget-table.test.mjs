@@ -240,3 +240,26 @@ test('an edit still waiting to be written reaches Save CSV and the link, and giv
   assert.deepEqual(problems, []);
   await context.close();
 });
+
+test('a CSV file dropped on a table fills it', async () => {
+  const { context, page, problems } = await open(env.browser, fileUrl('budget.html'));
+  const design = 'name,fclk,fdata,stages,count\nsensor_sync,500MHz,50MHz,2,1\n"cfg, shadow",200MHz,100kHz,3,32\n';
+  const corners = 'corner;tau;tw;tsu;tcq\ntt;20ps;30ps;30ps;50ps\nss;35ps;45ps;45ps;80ps\n';
+  for (const [id, text] of [['#grid-design', design], ['#grid-corners', corners]]) {
+    await page.$eval(id, (box, t) => {
+      const dt = new DataTransfer();
+      dt.items.add(new File([t], 'dropped.csv', { type: 'text/csv' }));
+      box.dispatchEvent(new DragEvent('drop', { dataTransfer: dt, bubbles: true, cancelable: true }));
+    }, text);
+  }
+  await page.waitForFunction(() => document.querySelector('#grid-corners .grid-count').textContent === '2 rows');
+  await settle(page);
+  assert.equal(await designText(page), design);
+  assert.equal(await page.inputValue('[name="corners"]'), corners);
+  assert.equal(await page.inputValue(cell(1, 0)), 'cfg, shadow');
+  const want = cli('budget', ['--from-url', page.url()]);
+  assert.equal(want.worst_corner, 'ss');
+  assert.equal((await outputs(page)).worst_corner.text, 'ss');
+  assert.deepEqual(problems, []);
+  await context.close();
+});
