@@ -53,6 +53,14 @@ test('a cell edited in the table changes its line of the CSV and the results, as
   assert.match(await page.getAttribute('#grid-design tr[data-row="0"]', 'class'), /bad/);
   await fill(page, cell(0, 1), '1.2GHz');
   assert.equal(await total(page), want.log10_total_fit);
+  // Enter and the arrow keys move between rows, in the same column.
+  await page.focus(cell(0, 2));
+  await page.keyboard.press('Enter');
+  assert.equal(await page.evaluate(() => document.activeElement.closest('tr').dataset.row + ':' + document.activeElement.dataset.col), '1:2');
+  await page.keyboard.press('ArrowDown');
+  await page.keyboard.press('ArrowUp');
+  await page.keyboard.press('ArrowUp');
+  assert.equal(await page.evaluate(() => document.activeElement.closest('tr').dataset.row + ':' + document.activeElement.dataset.col), '0:2');
   assert.deepEqual(problems, []);
   await context.close();
 });
