@@ -127,8 +127,8 @@ test('a design too large for a link says so and points to the CSV files', async 
   assert.match(await page.textContent('#facts'), /Fix plan \(400 crossings\): bus_0 to 3 stages, .* and 388 more; the JSON report lists every change\./);
   await page.click('#copy-link');
   assert.doesNotMatch(await page.textContent('#copy-status'), /too long/);
-  let seed = 12345;
-  const next = () => (seed = (seed * 1103515245 + 12345) % 2147483648);
+  let lcg = 12345;
+  const next = () => (lcg = (lcg * 1103515245 + 12345) % 2147483648);
   design = 'name,fclk,fdata,stages,count\n';
   for (let i = 0; i < 2000; i++) design += `n${next().toString(36)},1.2GHz,${next() % 99991}Hz,2,${1 + next() % 64}\n`;
   await typeText(page, 'design', design);
