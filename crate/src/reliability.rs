@@ -3,6 +3,9 @@
 
 use serde::Serialize;
 
+use crate::readout::Readout;
+use crate::units::format_log10;
+
 /// Days per year used throughout: the Julian year.
 pub const YEAR_DAYS: f64 = 365.25;
 /// Seconds per year used throughout: the Julian year of 365.25 days.
@@ -57,6 +60,26 @@ pub struct FleetOutcome {
     pub log10_expected_failures: f64,
     /// log10 of the probability of at least one failure (at most 0).
     pub log10_p_any_failure: f64,
+}
+
+impl FleetOutcome {
+    /// The fleet figures as readouts, as every calculator with a fleet shows them.
+    pub fn readouts(&self) -> [Readout; 2] {
+        [
+            Readout::new(
+                "log10_expected_failures",
+                "expected failures in the fleet",
+                format_log10(self.log10_expected_failures, 3),
+                Some(self.log10_expected_failures),
+            ),
+            Readout::new(
+                "log10_p_any_failure",
+                "probability of at least one",
+                format_log10(self.log10_p_any_failure, 3),
+                Some(self.log10_p_any_failure),
+            ),
+        ]
+    }
 }
 
 /// Fleet statistics for a failure rate `10^log10_rate` per second per device.

@@ -453,18 +453,7 @@ impl SyncReport {
             ));
         }
         if let Some(f) = self.fleet {
-            v.push(Readout::new(
-                "log10_expected_failures",
-                "expected failures in the fleet",
-                format_log10(f.log10_expected_failures, 3),
-                Some(f.log10_expected_failures),
-            ));
-            v.push(Readout::new(
-                "log10_p_any_failure",
-                "probability of at least one",
-                format_log10(f.log10_p_any_failure, 3),
-                Some(f.log10_p_any_failure),
-            ));
+            v.extend(f.readouts());
         }
         v
     }
