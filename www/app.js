@@ -37,6 +37,12 @@
     grids.forEach(function (g) { g.flush(); });
   }
 
+  // The form's fields that are not blank, in order, as [element, value].
+  function given() {
+    return inputs().map(function (el) { return [el, valueOf(el)]; })
+      .filter(function (f) { return f[1].trim() !== ''; });
+  }
+
   // The form for the core: the small fields as a query, the data text areas beside it
   // as they are (encoding a large design into a query and decoding it again would cost
   // more than the rest of an edit).
@@ -44,10 +50,8 @@
     var p = new URLSearchParams();
     var names = [];
     var texts = [];
-    inputs().forEach(function (el) {
-      var v = valueOf(el);
-      if (v.trim() === '') return;
-      if (el.tagName === 'TEXTAREA') { names.push(el.name); texts.push(v); } else p.append(el.name, v);
+    given().forEach(function (f) {
+      if (f[0].tagName === 'TEXTAREA') { names.push(f[0].name); texts.push(f[1]); } else p.append(f[0].name, f[1]);
     });
     return { plain: p.toString(), names: names, texts: texts };
   }
@@ -58,12 +62,10 @@
     return arg.texts.reduce(function (n, t) { return n + t.length; }, arg.plain.length);
   }
 
+  // The form as one query: what links and storage hold.
   function query() {
     var p = new URLSearchParams();
-    inputs().forEach(function (el) {
-      var v = valueOf(el);
-      if (v.trim() !== '') p.append(el.name, v);
-    });
+    given().forEach(function (f) { p.append(f[0].name, f[1]); });
     return p.toString();
   }
 
