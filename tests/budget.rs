@@ -497,3 +497,47 @@ proptest! {
         }
     }
 }
+
+/// The verdict at the 95th percentile: the demo's worst total is 7.07e6 FIT nominally and
+/// 8.04e7 at the 95th percentile, so a budget of 1e7 is met nominally but not there, and
+/// 1e8 is met at both; a warning says when the two verdicts differ.
+#[test]
+fn the_verdict_at_the_95th_percentile() {
+    for (budget, nominal, p95) in [("1e7", true, false), ("1e8", true, true)] {
+        let v = demo(&[
+            ("budget-fit", budget),
+            ("tau-sigma", "0.05"),
+            ("tw-sigma", "0.3"),
+        ]);
+        assert_eq!(v["meets_budget"], nominal, "{budget}");
+        assert_eq!(v["meets_budget_p95"], p95, "{budget}");
+        let b: f64 = budget.parse().unwrap();
+        assert_eq!(v["log10_total_fit_p95"].as_f64().unwrap() <= b.log10(), p95);
+        let warned = v["warnings"]
+            .to_string()
+            .contains("not at the 95th percentile");
+        assert_eq!(warned, nominal && !p95, "{budget}");
+    }
+    // Without sigmas there is no such verdict.
+    assert!(demo(&[("budget-fit", "1e7")])
+        .get("meets_budget_p95")
+        .is_none());
+}
+
+/// Each change of the fix plan says what it adds: its count times the stages added, as
+/// the rows' own counts and stages give it; together they are the plan's total.
+#[test]
+fn each_change_of_the_fix_plan_counts_its_flip_flops() {
+    let v = demo(&[("budget-fit", "10")]);
+    let rows = v["rows"].as_array().unwrap();
+    let mut sum = 0.0;
+    for f in v["fix"].as_array().unwrap() {
+        let row = rows.iter().find(|r| r["name"] == f["name"]).unwrap();
+        let want = row["count"].as_f64().unwrap()
+            * (f["stages"].as_f64().unwrap() - row["stages"].as_f64().unwrap());
+        assert_eq!(f["added_flip_flops"].as_f64().unwrap(), want, "{f}");
+        sum += want;
+    }
+    assert_eq!(v["added_flip_flops"].as_f64().unwrap(), sum);
+    assert_eq!(sum, 68.0); // the README's demo figure
+}

@@ -63,8 +63,8 @@
       ['total FIT, 95th percentile under uncertainty (the sign-off figure)', ctx.out('log10_total_fit_p95')],
       ['total FIT, median under uncertainty', ctx.out('log10_total_fit_p50')]
     ]));
-    if (r.log10_total_fit_p95 !== undefined && r.budget_fit !== undefined) {
-      var holds = r.log10_total_fit_p95 <= Math.log10(r.budget_fit);
+    if (r.meets_budget_p95 !== undefined) {
+      var holds = r.meets_budget_p95;
       section.appendChild(el('p', { class: 'signoff-verdict ' + (holds ? 'good' : 'bad') },
         holds ? 'At the 95th percentile of the uncertainty of tau and tw the design is within the budget.'
           : 'At the 95th percentile of the uncertainty of tau and tw the design is NOT within the budget.'));
@@ -123,7 +123,7 @@
         r.rows.forEach(function (row) { names[row.name] = row; });
         var changes = r.fix.slice(0, MOST_CHANGES).map(function (f) {
           var row = names[f.name];
-          return [f.name, row ? String(row.stages) : '', String(f.stages), row ? fig('count', row.count * (f.stages - row.stages)) : ''];
+          return [f.name, row ? String(row.stages) : '', String(f.stages), fig('count', f.added_flip_flops)];
         });
         section.appendChild(table(['crossing', 'stages now', 'stages after', 'flip-flops added'], changes,
           [false, true, true, true]));
