@@ -292,7 +292,7 @@ fn p_at(tau: f64, treg: f64, gain: f64, vmin: f64) -> f64 {
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(300))]
+    #![proptest_config(crate::seeded::config(300))]
     #[test]
     fn p_falls_with_treg_and_gain_and_rises_with_tau_and_vmin(
         tau in 1e-12..1e-10f64, treg in 1e-11..2e-9f64, gain in 1.0..20.0f64, vmin in 0.05..0.8f64, k in 1.01..3.0f64
@@ -402,7 +402,7 @@ fn ln_erfc_matches_mpmath() {
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(150))]
+    #![proptest_config(crate::seeded::config(150))]
     #[test]
     fn sizing_lands_on_the_target_for_every_model(
         model in 0usize..5, log_target in -30.0..-3.0f64, tau in 5e-12..50e-12f64, treg in 1e-11..3e-10f64

@@ -10,5 +10,6 @@ mod plot;
 mod properties;
 mod readme;
 mod reference;
+mod seeded;
 mod tidy;
 mod tolerance;

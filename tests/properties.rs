@@ -90,7 +90,7 @@ fn finite(r: &SyncReport) -> bool {
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(400))]
+    #![proptest_config(crate::seeded::config(400))]
 
     #[test]
     fn always_finite(c in cases()) {
@@ -159,7 +159,7 @@ proptest! {
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(200))]
+    #![proptest_config(crate::seeded::config(200))]
 
     #[test]
     fn solvers_land_on_the_target(c in cases(), years in log_uniform(1e-3, 1e30)) {
@@ -211,7 +211,7 @@ fn log10_mtbf(q: &str) -> f64 {
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(200))]
+    #![proptest_config(crate::seeded::config(200))]
 
     #[test]
     fn a_list_of_equal_taus_is_the_single_tau(tau in log_uniform(1e-13, 1e-10), stages in 2u32..8) {
