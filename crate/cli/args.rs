@@ -5,17 +5,20 @@ use std::io::Read;
 use latchwise::params::{FieldSpec, RawInputs};
 use latchwise::units::Dim;
 
-/// The text of a file operand (`-`: standard input).
+/// The text of a file operand (`-`: standard input), decoded as the page decodes a file:
+/// UTF-8 or UTF-16 with a byte-order mark, any line ends.
 fn read_file(path: &str) -> Result<String, String> {
-    let mut text = String::new();
+    let mut bytes = Vec::new();
     let result = if path == "-" {
-        std::io::stdin().read_to_string(&mut text).map(|_| ())
+        std::io::stdin().read_to_end(&mut bytes).map(|_| ())
     } else {
-        std::fs::read_to_string(path).map(|t| text = t)
+        std::fs::read(path).map(|b| bytes = b)
     };
     result
-        .map(|()| text)
         .map_err(|e| format!("cannot read '{path}': {e}"))
+        .and_then(|()| {
+            latchwise::table::decode(&bytes).map_err(|e| format!("cannot read '{path}': {e}"))
+        })
 }
 
 /// The most unknown link parameters named in a note; the rest are counted.

@@ -142,12 +142,83 @@ pub struct Layout {
     pub rows: Vec<usize>,
 }
 
+/// The text of a file's bytes, as a browser reads a dropped file: UTF-8 (a byte-order mark
+/// dropped) or UTF-16 of either byte order when its byte-order mark says so; line ends
+/// CR LF, LF or a lone CR (old spreadsheets on the Mac) all become LF.
+///
+/// # Errors
+/// Bytes that are not UTF-8, or UTF-16 cut short or with an unpaired surrogate: the
+/// message says where.
+///
+/// # Examples
+/// ```
+/// use latchwise::table::decode;
+/// assert_eq!(decode(b"\xef\xbb\xbfname\rrow\r\n").unwrap(), "name\nrow\n");
+/// assert_eq!(decode(b"\xff\xfea\0\r\0b\0").unwrap(), "a\nb");
+/// assert!(decode(b"a\xffb").unwrap_err().contains("byte 2"));
+/// ```
+pub fn decode(bytes: &[u8]) -> Result<String, String> {
+    let utf16 = |big: bool| -> Result<String, String> {
+        let body = &bytes[2..];
+        if body.len() % 2 == 1 {
+            return Err("UTF-16 text cut short (an odd number of bytes)".to_string());
+        }
+        let units = body.chunks_exact(2).map(|p| {
+            if big {
+                u16::from_be_bytes([p[0], p[1]])
+            } else {
+                u16::from_le_bytes([p[0], p[1]])
+            }
+        });
+        char::decode_utf16(units)
+            .enumerate()
+            .map(|(i, c)| {
+                c.map_err(|_| {
+                    format!(
+                        "not UTF-16 text: an unpaired surrogate at character {}",
+                        i + 1
+                    )
+                })
+            })
+            .collect()
+    };
+    let text = match bytes {
+        [0xff, 0xfe, ..] => utf16(false)?,
+        [0xfe, 0xff, ..] => utf16(true)?,
+        _ => {
+            let body = bytes.strip_prefix(b"\xef\xbb\xbf").unwrap_or(bytes);
+            String::from_utf8(body.to_vec()).map_err(|e| {
+                let at = e.utf8_error().valid_up_to() + 1 + bytes.len() - body.len();
+                format!("not UTF-8 or UTF-16 text (byte {at}); save the file as UTF-8")
+            })?
+        }
+    };
+    let text = text
+        .strip_prefix('\u{feff}')
+        .map(str::to_string)
+        .unwrap_or(text);
+    Ok(if text.contains('\r') {
+        text.replace("\r\n", "\n").replace('\r', "\n")
+    } else {
+        text
+    })
+}
+
+/// Whether a line is a comment: its first character is `#`, and nothing else makes one
+/// (a row whose first cell is blank and whose second starts with `#` is a row).
+pub fn is_comment(line: &str) -> bool {
+    line.starts_with('#')
+}
+
 /// The lines that hold the table, 1-based with their text: not blank, not `#` comments.
+/// A byte-order mark at the start of the text is not part of the first line.
 fn content_lines(text: &str) -> impl Iterator<Item = (usize, &str)> {
-    text.lines()
+    text.strip_prefix('\u{feff}')
+        .unwrap_or(text)
+        .lines()
         .enumerate()
         .map(|(i, l)| (i + 1, l.trim_end_matches('\r')))
-        .filter(|(_, l)| !l.trim().is_empty() && !l.trim_start().starts_with('#'))
+        .filter(|(_, l)| !l.trim().is_empty() && !is_comment(l))
 }
 
 /// The delimiter of a table from its header: the most frequent of comma, semicolon and
