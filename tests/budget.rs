@@ -569,3 +569,79 @@ fn each_change_of_the_fix_plan_counts_its_flip_flops() {
     assert_eq!(v["added_flip_flops"].as_f64().unwrap(), sum);
     assert_eq!(sum, 68.0); // the README's demo figure
 }
+
+/// The command reads a design in every encoding the page reads: UTF-8 with a byte-order
+/// mark, UTF-16 of both byte orders (a spreadsheet's "Unicode text"), and CR, CR LF or
+/// LF line ends, each giving the same JSON as the plain file; bytes that are not text
+/// are refused with where they are.
+#[test]
+fn the_command_reads_every_encoding_the_page_reads() {
+    let dir = std::env::temp_dir().join(format!("latchwise-enc-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let corners = format!("{}/examples/budget-corners.csv", env!("CARGO_MANIFEST_DIR"));
+    let plain = example("budget-design.csv");
+    let run = |bytes: &[u8]| {
+        let file = dir.join("design.csv");
+        std::fs::write(&file, bytes).unwrap();
+        let out = Command::new(env!("CARGO_BIN_EXE_latchwise"))
+            .args([
+                "budget",
+                file.to_str().unwrap(),
+                "--corners",
+                &corners,
+                "--json",
+            ])
+            .output()
+            .unwrap();
+        (
+            out.status.code(),
+            String::from_utf8_lossy(&out.stdout).to_string(),
+            String::from_utf8_lossy(&out.stderr).to_string(),
+        )
+    };
+    let want = run(plain.as_bytes());
+    assert_eq!(want.0, Some(0), "{}", want.2);
+    let utf16 = |big: bool| {
+        let mut b: Vec<u8> = if big {
+            vec![0xfe, 0xff]
+        } else {
+            vec![0xff, 0xfe]
+        };
+        for u in plain.encode_utf16() {
+            b.extend(if big {
+                u.to_be_bytes()
+            } else {
+                u.to_le_bytes()
+            });
+        }
+        b
+    };
+    let cases: Vec<(&str, Vec<u8>)> = vec![
+        (
+            "BOM",
+            [b"\xef\xbb\xbf".as_slice(), plain.as_bytes()].concat(),
+        ),
+        ("CR LF", plain.replace('\n', "\r\n").into_bytes()),
+        ("CR", plain.replace('\n', "\r").into_bytes()),
+        ("UTF-16LE", utf16(false)),
+        ("UTF-16BE", utf16(true)),
+    ];
+    for (what, bytes) in cases {
+        let got = run(&bytes);
+        assert_eq!(got.0, Some(0), "{what}: {}", got.2);
+        let strip = |s: &str| {
+            let mut v: Value = serde_json::from_str(s).unwrap();
+            v.as_object_mut().unwrap().remove("inputs");
+            v
+        };
+        assert_eq!(strip(&got.1), strip(&want.1), "{what}");
+    }
+    let bad = run(b"name,fclk\n\xff\xfe\xfd");
+    assert_eq!(bad.0, Some(2));
+    assert!(
+        bad.2.contains("not UTF-8 or UTF-16 text (byte 11)"),
+        "{}",
+        bad.2
+    );
+    std::fs::remove_dir_all(&dir).ok();
+}

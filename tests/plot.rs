@@ -329,3 +329,78 @@ fn a_spread_beyond_the_f64_range_is_plotted_by_its_log10() {
         "no curve drawn"
     );
 }
+
+/// Cells of one CSV line as a spreadsheet reads them (RFC 4180: quotes only at a cell's
+/// start; nothing trimmed).
+fn spreadsheet_cells(line: &str) -> Vec<String> {
+    let (mut out, mut cur, mut quoted, mut start) = (Vec::new(), String::new(), false, true);
+    let mut chars = line.chars().peekable();
+    while let Some(c) = chars.next() {
+        match c {
+            '"' if start => quoted = true,
+            '"' if quoted && chars.peek() == Some(&'"') => {
+                cur.push('"');
+                chars.next();
+            }
+            '"' if quoted => quoted = false,
+            ',' if !quoted => {
+                out.push(std::mem::take(&mut cur));
+                start = true;
+                continue;
+            }
+            c => cur.push(c),
+        }
+        start = false;
+    }
+    out.push(cur);
+    out
+}
+
+/// Exported CSVs a spreadsheet cannot turn against the user (CSV injection): crossing and
+/// corner names such as `=2+2`, `@SUM(A1)`, `-cmd` or one holding a comma reach no cell
+/// that begins with `=`, `+`, `@`, a tab, a CR or a non-numeric `-`; such a cell is led
+/// by an apostrophe (OWASP's advice, common practice).
+#[test]
+fn exported_csv_cells_never_start_a_formula() {
+    use latchwise::budget::BudgetCalculator;
+    let design = "name,fclk,fdata,stages,count\n=2+2,1GHz,10MHz,2,1\n@SUM(A1),1GHz,10MHz,2,1\n-cmd,1GHz,10MHz,2,1\n\"+x, =y\",1GHz,10MHz,2,1\n";
+    let corners = "corner,tau,tw,tsu,tcq\n\"=HYPERLINK(\"\"x\"\"),a\",25ps,40ps,30ps,50ps\n@slow,20ps,40ps,30ps,50ps\n";
+    let raw = RawInputs::from_pairs([
+        ("design", design.to_string()),
+        ("corners", corners.to_string()),
+        ("budget-fit", "1".to_string()),
+    ]);
+    let case = BudgetCalculator::read(&raw).unwrap();
+    let report = BudgetCalculator::evaluate(&case);
+    let plots = BudgetCalculator::plots(&case, &report);
+    assert!(plots.len() >= 2);
+    let risky = |cell: &str| match cell.chars().next() {
+        Some('=' | '+' | '@' | '\t' | '\r') => true,
+        Some('-') => cell.parse::<f64>().is_err(),
+        _ => false,
+    };
+    let mut seen_apostrophe = false;
+    for p in plots {
+        let csv = latchwise::calculator::plot_csv::<BudgetCalculator>(
+            &raw,
+            p.id,
+            "file:///x/budget.html?design=%3D2%2B2",
+        )
+        .unwrap();
+        for line in csv.lines() {
+            for cell in spreadsheet_cells(line) {
+                assert!(!risky(&cell), "{}: {cell:?} in {line:?}", p.id);
+                seen_apostrophe |= cell.starts_with("'=") || cell.starts_with("# ");
+            }
+        }
+    }
+    assert!(seen_apostrophe);
+    assert_eq!(
+        spreadsheet_cells(&latchwise::chart::series::text_cell("=2+2")),
+        ["'=2+2"]
+    );
+    assert_eq!(
+        spreadsheet_cells(&latchwise::chart::series::comment_line("design = a,=b")),
+        ["# design = a,=b"]
+    );
+}

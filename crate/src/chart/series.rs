@@ -132,8 +132,8 @@ impl Plot {
         let many = self.curves.len() > 1;
         let mut out = String::new();
         for line in preface {
-            // A comment line stays one line whatever the text holds.
-            out.push_str(&format!("# {}\n", line.replace(['\n', '\r'], " ")));
+            out.push_str(&comment_line(line));
+            out.push('\n');
         }
         if many {
             out.push_str("curve,");
@@ -142,7 +142,8 @@ impl Plot {
         for c in &self.curves {
             for (x, y) in &c.points {
                 if many {
-                    out.push_str(&format!("\"{}\",", c.label.replace('"', "\"\"")));
+                    out.push_str(&text_cell(&c.label));
+                    out.push(',');
                 }
                 if self.spacing == Spacing::Integer {
                     out.push_str(&format!("{x:.0},{y:e}\n"));
@@ -152,6 +153,42 @@ impl Plot {
             }
         }
         out
+    }
+}
+
+/// A text cell of an exported CSV that a spreadsheet shows as the text it is: quoted, and
+/// when it begins with `=`, `+`, `-` (not a number), `@`, a tab or a carriage return (what
+/// a spreadsheet would run as a formula), led by an apostrophe inside the quotes, the
+/// common practice against CSV injection (OWASP's advice). Line breaks become spaces.
+///
+/// # Examples
+/// ```
+/// use latchwise::chart::series::text_cell;
+/// assert_eq!(text_cell("=2+2"), "\"'=2+2\"");
+/// assert_eq!(text_cell("-1.5"), "\"-1.5\"");
+/// assert_eq!(text_cell("a \"b\", c"), "\"a \"\"b\"\", c\"");
+/// ```
+pub fn text_cell(text: &str) -> String {
+    let text = text.replace('\n', " ");
+    let risky = match text.chars().next() {
+        Some('=' | '+' | '@' | '\t' | '\r') => true,
+        Some('-') => text.trim().parse::<f64>().is_err(),
+        _ => false,
+    };
+    let lead = if risky { "'" } else { "" };
+    format!("\"{lead}{}\"", text.replace('\r', " ").replace('"', "\"\""))
+}
+
+/// A line of an exported CSV's preface: `# ` and the text, one line whatever it holds. A
+/// text with a comma, quote or tab (a design echoed with a crossing's name) is written as
+/// one quoted cell, so that a spreadsheet shows the whole line as text in one cell and no
+/// part of it as a formula.
+pub fn comment_line(text: &str) -> String {
+    let line = format!("# {}", text.replace(['\n', '\r'], " "));
+    if line.contains([',', '"', '\t', ';']) {
+        text_cell(&line)
+    } else {
+        line
     }
 }
 
