@@ -117,10 +117,11 @@ fn the_spread_curve_passes_through_the_reported_percentiles() {
 #[test]
 fn shares_hold_at_totals_of_1e27_decades() {
     // Found by fuzzing: at a total of 10^(-4.3e27) FIT one rounding step of the log is
-    // 5e11 decades, and a share taken as 10^(row - total) came out infinite.
-    let corners = "corner,tau,tw,tsu,tcq\nc,1e-43,1e6,0,0\n";
+    // 5e11 decades, and a share taken as 10^(row - total) came out infinite. (Within the
+    // field limits: the smallest tau, 1e-21 s, and the slowest clock reach it.)
+    let corners = "corner,tau,tw,tsu,tcq\nc,1e-21,1e6,0,0\n";
     let one = budget(
-        "name,fclk,fdata,stages\nx,1e18,1e18,1000\n",
+        "name,fclk,fdata,stages\nx,1e-4,1e18,1000\n",
         Some(corners),
         &[],
     )
@@ -129,7 +130,7 @@ fn shares_hold_at_totals_of_1e27_decades() {
     assert_eq!(one["rows"][0]["share"].as_f64(), Some(1.0));
     assert_eq!(one["worst_offenders"], "x (100 %)");
     let two = budget(
-        "name,fclk,fdata,stages\nx,1e18,1e18,1000\ny,1e18,1e18,1000\n",
+        "name,fclk,fdata,stages\nx,1e-4,1e18,1000\ny,1e-4,1e18,1000\n",
         Some(corners),
         &[("tau-sigma", "2"), ("tw-sigma", "5")],
     )
@@ -644,4 +645,61 @@ fn the_command_reads_every_encoding_the_page_reads() {
         bad.2
     );
     std::fs::remove_dir_all(&dir).ok();
+}
+
+/// Design and corner cells are held to the synchronizer's field limits, named by line
+/// and column: `hot,1e300,1e300,1` once printed "missed by inf decades". A value pasted by
+/// mistake is echoed cut short, and a table of 100,000 bad rows lists 60 problems and
+/// counts the rest.
+#[test]
+fn table_cells_are_held_to_the_field_limits() {
+    let corners = example("budget-corners.csv");
+    let e = budget(
+        "name,fclk,fdata,stages,count\nhot,1e300,1e300,1,1\n",
+        Some(&corners),
+        &[],
+    )
+    .unwrap_err();
+    assert!(e.contains("design, line 2, column fclk: '1e300' is too large: the largest the model can use is 1e18 Hz"), "{e}");
+    assert!(
+        e.contains("line 2, column fdata: '1e300' is too large"),
+        "{e}"
+    );
+    let e = budget(
+        "name,fclk,fdata,stages,count\nx,1GHz,1MHz,2,1e12\n",
+        Some(&corners),
+        &[],
+    )
+    .unwrap_err();
+    assert!(e.contains("column count: '1e12' is too large"), "{e}");
+    let e = budget(
+        "name,fclk,fdata,stages\nx,1GHz,1MHz,2\n",
+        Some("corner,tau,tw,tsu,tcq\nhot,20ps,1e300,30ps,40ps\n"),
+        &[],
+    )
+    .unwrap_err();
+    assert!(
+        e.contains("corners, line 2, column tw: '1e300' is too large"),
+        "{e}"
+    );
+    let long = "9".repeat(100_000);
+    let e = budget(
+        &format!("name,fclk,fdata,stages\nx,{long}x,1MHz,2\n"),
+        Some(&corners),
+        &[],
+    )
+    .unwrap_err();
+    assert!(e.len() < 400, "{} characters", e.len());
+    assert!(e.contains("… (100001 characters)"), "{e}");
+    let mut many = String::from("name,fclk,fdata,stages\n");
+    for i in 0..100_000 {
+        many.push_str(&format!("r{i},1GHz,1MHz,2.5\n"));
+    }
+    let e = budget(&many, Some(&corners), &[]).unwrap_err();
+    assert_eq!(e.lines().count(), 61, "{}", &e[..500]);
+    assert!(
+        e.ends_with("and 99940 more problems (the first 60 are listed)"),
+        "{}",
+        &e[e.len() - 200..]
+    );
 }

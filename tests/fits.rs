@@ -419,3 +419,41 @@ fn scattered_sweeps_leave_open_ends_open_instead_of_printing_inf() {
     let text = serde_json::to_string(&v).unwrap();
     assert!(!text.contains("inf") && !text.contains("NaN"), "{text}");
 }
+
+/// A lab table's cells are held to limits as form fields are: durations beyond 1e10 s,
+/// counts beyond 1e15, inputs beyond 1 kV and times beyond a second are refused at their
+/// line and column, never turned into an infinite tau or a 1e300 "estimate".
+#[test]
+fn lab_cells_beyond_the_limits_are_refused_at_their_cell() {
+    let set = [("fclk", "1GHz"), ("fdata", "100MHz")];
+    for (kind, data, msg) in [
+        (
+            "counts",
+            "tr,failures,duration\n100ps,3,1e300\n200ps,1,1s\n",
+            "line 2, column duration: '1e300' is too large",
+        ),
+        (
+            "counts",
+            "tr,failures,duration\n100ps,1e300,1s\n200ps,1,1s\n",
+            "line 2, column failures: '1e300' is too large",
+        ),
+        (
+            "comparator",
+            "vin,time\n1e-300,1ns\n1e300,2ns\n1mV,3ns\n",
+            "line 2, column vin: '1e-300' is too small",
+        ),
+        (
+            "comparator",
+            "vin,time\n1mV,1e200\n2mV,2ns\n3mV,3ns\n",
+            "line 2, column time: '1e200' is too large",
+        ),
+        (
+            "delay",
+            "offset,delay\n1e30,1ns\n",
+            "line 2, column offset: '1e30' is too large",
+        ),
+    ] {
+        let err = fit(kind, data, &set).unwrap_err();
+        assert!(err.contains(msg), "{kind}: {err}");
+    }
+}

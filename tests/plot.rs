@@ -305,12 +305,13 @@ fn the_budget_line_stays_in_view_of_the_spread() {
 
 #[test]
 fn a_spread_beyond_the_f64_range_is_plotted_by_its_log10() {
-    // A fuzz input (fuzz/corpus/query/case-budget-tiny-tau): tau of 1e-42 s puts the
-    // total near 10^(-1e30) FIT. The spread plot once wrote 0 for every FIT and drew no
+    // A fuzz input (fuzz/corpus/query/case-budget-tiny-tau): tau of 1e-42 s put the
+    // total near 10^(-1e30) FIT; within the field limits, the smallest tau and the
+    // slowest clock put it near 10^(-4e27). The spread plot once wrote 0 for every FIT and drew no
     // curve; its x is now log10 of the total, on a plain axis.
     use latchwise::budget::BudgetCalculator;
     let raw = RawInputs::from_query(
-        "design=name;fclk;fdata;stages%0Ax;1e18;1e18;1000&corners=corner,tau,tw,tsu,tcq%0Ac,1e-42,1e6,0,0&tau-sigma=2&tw-sigma=5",
+        "design=name;fclk;fdata;stages%0Ax;1e-4;1e18;1000&corners=corner,tau,tw,tsu,tcq%0Ac,1e-21,1e6,0,0&tau-sigma=2&tw-sigma=5",
     );
     let case = BudgetCalculator::read(&raw).unwrap();
     let report = BudgetCalculator::evaluate(&case);

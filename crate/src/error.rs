@@ -100,6 +100,21 @@ pub enum ParamErrorKind {
     },
 }
 
+impl ParamErrorKind {
+    /// A table's problems, one line each: at most [`TABLE_LINES_MOST`], then one line
+    /// that counts the rest (100,000 bad rows must not make a 100,000-line message).
+    pub fn table(mut problems: Vec<String>) -> ParamErrorKind {
+        if problems.len() > TABLE_LINES_MOST {
+            let rest = problems.len() - TABLE_LINES_MOST;
+            problems.truncate(TABLE_LINES_MOST);
+            problems.push(format!(
+                "and {rest} more problems (the first {TABLE_LINES_MOST} are listed)"
+            ));
+        }
+        ParamErrorKind::Table(problems)
+    }
+}
+
 /// An input error tied to a named field (the parameter name of the domain notes).
 #[derive(Debug, Clone, PartialEq)]
 pub struct ParamError {
@@ -125,25 +140,27 @@ impl fmt::Display for ParamError {
             Missing => write!(f, "a value is required"),
             NotANumber(t) => write!(
                 f,
-                "'{t}' is not a number (write e.g. 20p, 20 ps, 2e-11 or 1.5GHz)"
+                "'{}' is not a number (write e.g. 20p, 20 ps, 2e-11 or 1.5GHz)",
+                short(t)
             ),
-            NotFinite(t) => write!(f, "'{t}' is not a finite number"),
-            Overflow(t) => write!(f, "'{t}' is too large to represent"),
-            Underflow(t) => write!(f, "'{t}' is too small to represent"),
-            UnknownUnit(u) => write!(f, "unknown unit or prefix '{u}'"),
+            NotFinite(t) => write!(f, "'{}' is not a finite number", short(t)),
+            Overflow(t) => write!(f, "'{}' is too large to represent", short(t)),
+            Underflow(t) => write!(f, "'{}' is too small to represent", short(t)),
+            UnknownUnit(u) => write!(f, "unknown unit or prefix '{}'", short(u)),
             WrongUnit {
                 text,
                 found,
                 expected,
             } => write!(
                 f,
-                "'{text}' is a {}, expected a {}",
+                "'{}' is a {}, expected a {}",
+                short(text),
                 found.noun(),
                 expected.noun()
             ),
             Negative(d) => write!(f, "negative {}", d.noun()),
             Zero(d) => write!(f, "must be a positive {}, not zero", d.noun()),
-            NotInteger(t) => write!(f, "'{t}' is not a whole number"),
+            NotInteger(t) => write!(f, "'{}' is not a whole number", short(t)),
             OutOfRange { value, range } => {
                 write!(
                     f,
@@ -179,19 +196,23 @@ impl fmt::Display for ParamError {
                 if *above {
                     write!(
                         f,
-                        "'{text}' is too large: the largest the model can use is {b}"
+                        "'{}' is too large: the largest the model can use is {b}",
+                        short(text)
                     )
                 } else {
                     write!(
                         f,
-                        "'{text}' is too small: the smallest the model can use is {b}"
+                        "'{}' is too small: the smallest the model can use is {b}",
+                        short(text)
                     )
                 }
             }
             Ambiguous { text, readings } => write!(
                 f,
-                "'{text}' is ambiguous: write {} for megahertz or {} for millihertz",
-                readings[0], readings[1]
+                "'{}' is ambiguous: write {} for megahertz or {} for millihertz",
+                short(text),
+                readings[0],
+                readings[1]
             ),
             ListLength { given, wanted: 0 } => write!(
                 f,
@@ -210,13 +231,35 @@ impl fmt::Display for ParamError {
             Unfittable(why) => write!(f, "{why}"),
             BadRatio(t) => write!(
                 f,
-                "'{t}' is not a ratio of two positive whole numbers such as 4/5 \
-                 (launch over sampling frequency)"
+                "'{}' is not a ratio of two positive whole numbers such as 4/5 \
+                 (launch over sampling frequency)",
+                short(t)
             ),
             UnknownChoice { text, choices } => {
-                write!(f, "'{text}' is not one of: {choices}")
+                write!(f, "'{}' is not one of: {choices}", short(text))
             }
         }
+    }
+}
+
+/// The most lines of a table's problems that a message lists (the table reader already
+/// stops at 40 and counts the rest; checks after it may add a few).
+pub const TABLE_LINES_MOST: usize = 60;
+
+/// The most characters of a typed value that an error message repeats.
+pub const ECHO_MOST: usize = 40;
+
+/// A typed value as an error message repeats it: whole when short, else its first
+/// [`ECHO_MOST`] characters and how long it is (a 16 MiB value pasted by mistake must not
+/// make a 16 MiB message).
+pub fn short(text: &str) -> std::borrow::Cow<'_, str> {
+    match text.char_indices().nth(ECHO_MOST) {
+        None => std::borrow::Cow::Borrowed(text),
+        Some((cut, _)) => std::borrow::Cow::Owned(format!(
+            "{}… ({} characters)",
+            &text[..cut],
+            text.chars().count()
+        )),
     }
 }
 

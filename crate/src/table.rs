@@ -11,7 +11,7 @@ use std::fmt;
 use serde::Serialize;
 
 use crate::error::ParamErrorKind;
-use crate::quantity::parse;
+use crate::params::FieldSpec;
 use crate::units::Dim;
 
 /// One column a table may have.
@@ -29,6 +29,9 @@ pub struct Column {
     pub positive: bool,
     /// Whether a cell may be left blank (read as absent).
     pub blank_ok: bool,
+    /// The magnitudes the model can use, as a form field's limits: a non-zero value
+    /// outside is refused with the same message.
+    pub limits: (f64, f64),
 }
 
 impl Column {
@@ -41,7 +44,20 @@ impl Column {
             non_negative: false,
             positive: false,
             blank_ok: false,
+            limits: (0.0, f64::MAX),
         }
+    }
+
+    /// The column of a form field: its name, kind and limits, so that a cell is held to
+    /// what the field would be held to.
+    pub const fn of(spec: FieldSpec) -> Column {
+        Column::any(spec.name, spec.dim).within(spec.limits.0, spec.limits.1)
+    }
+
+    /// The same column, its non-zero magnitudes limited to `lo..=hi`.
+    pub const fn within(mut self, lo: f64, hi: f64) -> Column {
+        self.limits = (lo, hi);
+        self
     }
 
     /// The same column, values at least zero.
@@ -412,8 +428,17 @@ fn parse_row(
             out.push(RowCell::Number(None));
             continue;
         }
-        let v = match parse(c.name, cell, c.dim) {
-            Ok(v) if c.non_negative && v < 0.0 => Err(format!("'{cell}' is negative")),
+        let spec = FieldSpec {
+            name: c.name,
+            dim: c.dim,
+            help: "",
+            limits: c.limits,
+            usual: (0.0, f64::MAX),
+        };
+        let v = match spec.parse(cell) {
+            Ok(v) if c.non_negative && v < 0.0 => {
+                Err(format!("'{}' is negative", crate::error::short(cell)))
+            }
             Ok(v) if c.positive && v <= 0.0 => Err("must be above zero".to_string()),
             Ok(v) => Ok(v),
             Err(e) => Err(match e.kind {
@@ -438,6 +463,9 @@ fn parse_row(
         Err(problems)
     }
 }
+
+/// The most problems of one table that are listed; the rest are counted in one more line.
+pub const PROBLEMS_MOST: usize = 40;
 
 /// Reads `text` as a table with the given columns.
 ///
@@ -584,6 +612,19 @@ pub fn read(text: &str, columns: &[Column]) -> Result<Table, Vec<CellError>> {
             line: header_line,
             column: None,
             message: "the table has a header but no data rows".into(),
+        });
+    }
+    if errors.len() > PROBLEMS_MOST {
+        let rest = errors.len() - PROBLEMS_MOST;
+        let line = errors[PROBLEMS_MOST].line;
+        errors.truncate(PROBLEMS_MOST);
+        errors.push(CellError {
+            line,
+            column: None,
+            message: format!(
+                "and {rest} more problem{} from here on (the first {PROBLEMS_MOST} are listed)",
+                if rest == 1 { "" } else { "s" }
+            ),
         });
     }
     if errors.is_empty() {

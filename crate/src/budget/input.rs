@@ -5,6 +5,7 @@ use crate::error::{ParamError, ParamErrorKind, ParamErrors};
 use crate::params::{positive_number, whole, FieldReader, RawInputs};
 use crate::quantity::Time;
 use crate::reliability::Fleet;
+use crate::synchronizer::fields as sync;
 use crate::table::{read, Column};
 use crate::units::{format_si, Dim};
 
@@ -52,27 +53,35 @@ pub struct BudgetCase {
     pub sigmas: Option<(f64, f64)>,
 }
 
+/// The design's columns: each a synchronizer field, with that field's limits.
 const DESIGN_COLUMNS: [Column; 11] = [
     Column::any("name", Dim::Text),
-    Column::any("fclk", Dim::Frequency).positive(),
-    Column::any("fdata", Dim::Frequency).positive(),
-    Column::any("stages", Dim::Count).positive().optional(),
-    Column::any("tr", Dim::Time).non_negative().optional(),
-    Column::any("count", Dim::Count).positive().optional(),
-    Column::any("tau", Dim::Time).positive().optional(),
-    Column::any("tw", Dim::Time).positive().optional(),
-    Column::any("t0", Dim::Time).positive().optional(),
-    Column::any("tsu", Dim::Time).non_negative().optional(),
-    Column::any("tcq", Dim::Time).non_negative().optional(),
+    Column::of(sync::FCLK).positive(),
+    Column::of(sync::FDATA).positive(),
+    Column::of(sync::STAGES).positive().optional(),
+    Column::of(sync::TR).non_negative().optional(),
+    Column::any("count", Dim::Count)
+        .within(1.0, MAX_COUNT)
+        .positive()
+        .optional(),
+    Column::of(sync::TAU).positive().optional(),
+    Column::of(sync::TW).positive().optional(),
+    Column::of(sync::T0).positive().optional(),
+    Column::of(sync::TSU).non_negative().optional(),
+    Column::of(sync::TCQ).non_negative().optional(),
 ];
 
+/// The most instances one row may count (a billion: far beyond any chip's crossings).
+pub const MAX_COUNT: f64 = 1e9;
+
+/// The corners' columns, with the synchronizer's limits.
 const CORNER_COLUMNS: [Column; 6] = [
     Column::any("corner", Dim::Text),
-    Column::any("tau", Dim::Time).positive(),
-    Column::any("tw", Dim::Time).positive().optional(),
-    Column::any("t0", Dim::Time).positive().optional(),
-    Column::any("tsu", Dim::Time).non_negative(),
-    Column::any("tcq", Dim::Time).non_negative().optional(),
+    Column::of(sync::TAU).positive(),
+    Column::of(sync::TW).positive().optional(),
+    Column::of(sync::T0).positive().optional(),
+    Column::of(sync::TSU).non_negative(),
+    Column::of(sync::TCQ).non_negative().optional(),
 ];
 
 fn window(tw: Option<f64>, t0: Option<f64>) -> Result<Option<Win>, &'static str> {
@@ -95,7 +104,7 @@ fn read_corners(r: &mut FieldReader) -> Option<Vec<Corner>> {
             Err(p) => {
                 r.push(ParamError::new(
                     CORNERS.name,
-                    ParamErrorKind::Table(p.iter().map(|e| format!("corners, {e}")).collect()),
+                    ParamErrorKind::table(p.iter().map(|e| format!("corners, {e}")).collect()),
                 ));
                 return None;
             }
@@ -144,7 +153,7 @@ fn read_corners(r: &mut FieldReader) -> Option<Vec<Corner>> {
         }
         r.push(ParamError::new(
             CORNERS.name,
-            ParamErrorKind::Table(problems),
+            ParamErrorKind::table(problems),
         ));
         return None;
     }
@@ -210,7 +219,7 @@ impl BudgetCase {
             Err(p) => {
                 r.push(ParamError::new(
                     DESIGN.name,
-                    ParamErrorKind::Table(p.iter().map(|e| format!("design, {e}")).collect()),
+                    ParamErrorKind::table(p.iter().map(|e| format!("design, {e}")).collect()),
                 ));
                 None
             }
@@ -294,7 +303,7 @@ impl BudgetCase {
         if !problems.is_empty() {
             r.push(ParamError::new(
                 DESIGN.name,
-                ParamErrorKind::Table(problems),
+                ParamErrorKind::table(problems),
             ));
         }
         if r.has_errors() {

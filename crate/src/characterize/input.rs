@@ -50,6 +50,13 @@ pub enum FitCase {
     },
 }
 
+/// The longest resolution, offset, delay or decision time a lab table may hold (one
+/// second: a million times any latch's; beyond it a unit was misread).
+const LAB_TIME_MAX: f64 = 1.0;
+
+/// Data columns and their limits: failures at most 1e15, durations from 1 ns to 1e10 s
+/// (317 years), inputs from 1e-30 to 1 kV; a value outside is refused at its cell, as a
+/// form field's would be.
 const fn col(name: &'static str, dim: Dim, non_negative: bool) -> Column {
     let c = Column::any(name, dim);
     if non_negative {
@@ -74,7 +81,7 @@ fn table(r: &mut FieldReader, columns: &[Column]) -> Option<Table> {
         Err(problems) => {
             r.push(ParamError::new(
                 DATA.name,
-                ParamErrorKind::Table(problems.iter().map(ToString::to_string).collect()),
+                ParamErrorKind::table(problems.iter().map(ToString::to_string).collect()),
             ));
             None
         }
@@ -82,7 +89,7 @@ fn table(r: &mut FieldReader, columns: &[Column]) -> Option<Table> {
 }
 
 fn table_problem(r: &mut FieldReader, problems: Vec<String>) {
-    r.push(ParamError::new(DATA.name, ParamErrorKind::Table(problems)));
+    r.push(ParamError::new(DATA.name, ParamErrorKind::table(problems)));
 }
 
 impl FitCase {
@@ -115,9 +122,9 @@ impl FitCase {
                 let t = table(
                     &mut r,
                     &[
-                        col("tr", Dim::Time, true),
-                        col("failures", Dim::Count, true),
-                        positive("duration", Dim::Time),
+                        col("tr", Dim::Time, true).within(1e-21, LAB_TIME_MAX),
+                        col("failures", Dim::Count, true).within(1.0, 1e15),
+                        positive("duration", Dim::Time).within(1e-9, 1e10),
                     ],
                 );
                 let t = t.and_then(|t| {
@@ -158,8 +165,8 @@ impl FitCase {
                 let t = table(
                     &mut r,
                     &[
-                        col("offset", Dim::Time, false),
-                        col("delay", Dim::Time, true),
+                        col("offset", Dim::Time, false).within(1e-21, LAB_TIME_MAX),
+                        col("delay", Dim::Time, true).within(1e-21, LAB_TIME_MAX),
                     ],
                 );
                 t.map(|t| FitCase::Delay {
@@ -172,7 +179,10 @@ impl FitCase {
             Some("comparator") => {
                 let t = table(
                     &mut r,
-                    &[positive("vin", Dim::Voltage), col("time", Dim::Time, true)],
+                    &[
+                        positive("vin", Dim::Voltage).within(1e-30, 1e3),
+                        col("time", Dim::Time, true).within(1e-21, LAB_TIME_MAX),
+                    ],
                 );
                 t.map(|t| FitCase::Comparator {
                     vin: t.column(0),
