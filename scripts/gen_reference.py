@@ -83,6 +83,10 @@ COMP_CASES = [
     ("gauss-far-tail", "20e-12", "100e-12", "0.4", "1", "gaussian", "1e-3", "40e-3"),
     ("gauss-negative-mean", "20e-12", "100e-12", "0.4", "2", "gaussian", "2e-3", "-5e-3"),
     ("gauss-1e-300", "10e-12", "7e-9", "0.4", "1", "gaussian", "1e-3", "1e-3"),
+    # Far tails where the interval is wide against the density's scale (m h > 2): the
+    # input 9.4e8 sigmas away, and 30 sigmas away with vcrit one sigma.
+    ("gauss-9e8-sigmas", "654e-12", "1.2e-16", "0.37e-15", "1", "gaussian", "127e-9", "120"),
+    ("gauss-30-sigmas-wide", "10e-12", "0", "1e-3", "1", "gaussian", "1e-3", "30e-3"),
     ("nrz-q7", "15e-12", "130e-12", "0.4", "4", "nrz", "35e-3", "5e-3"),
     ("nrz-weak-noise", "15e-12", "80e-12", "0.4", "4", "nrz", "50e-3", "1e-3"),
     ("nrz-extreme", "2e-12", "4e-9", "0.4", "4", "nrz", "50e-3", "5e-3"),

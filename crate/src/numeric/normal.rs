@@ -57,6 +57,12 @@ pub fn ln_erfc(x: f64) -> f64 {
     if x < 1.0 {
         return (-erf_series(x)).ln_1p();
     }
+    -x * x - 0.5 * PI.ln() - erfc_fraction(x).ln()
+}
+
+/// The continued fraction `f` of `erfc x = e^(-x^2) / (sqrt(pi) f)` for x >= 1 (about x,
+/// and known to full relative precision, unlike `-x^2` beside it).
+fn erfc_fraction(x: f64) -> f64 {
     const TINY: f64 = 1e-300;
     let mut f = x;
     let mut c = x;
@@ -76,7 +82,7 @@ pub fn ln_erfc(x: f64) -> f64 {
             break;
         }
     }
-    -x * x - 0.5 * PI.ln() - f.ln()
+    f
 }
 
 /// ln Q(x), Q the upper tail of the standard normal, for any finite `x`.
@@ -119,6 +125,17 @@ pub fn ln_prob_interval(m: f64, ln_h: f64) -> f64 {
             })
             .sum();
         return ln_pdf(m) + ln_h + sum.ln();
+    }
+    // Far in a tail (reflected onto the upper one), the tails' logs are huge and their
+    // difference is lost to rounding: take it exactly instead. With a = |m| - h and
+    // b = |m| + h, ln Q(b) - ln Q(a) = -2 h |m| - ln(f(b/sqrt 2) / f(a/sqrt 2)), f the
+    // continued fraction of erfc, and P = Q(a) (1 - e^that).
+    let far = m.abs();
+    if far - h >= SQRT_2 {
+        let a = far - h;
+        let d =
+            -2.0 * h * far - (erfc_fraction((far + h) / SQRT_2) / erfc_fraction(a / SQRT_2)).ln();
+        return ln_q(a) + (-d.exp_m1()).ln();
     }
     let (a, b) = (m - h, m + h);
     if a >= 0.0 {
