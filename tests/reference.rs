@@ -227,3 +227,44 @@ fn tutorial_examples_to_the_precision_it_gives() {
         1,
     );
 }
+
+/// A phase is an offset within one lattice spacing (here 1/(4 x 500 MHz) = 500 ps): a
+/// phase of 1e6 s once printed K = 7.5e-8 where the value for it reduced onto the lattice
+/// differs by 8.4 decades (the reduction rests on digits the typed value does not have),
+/// so it is refused naming the spacing; a phase within it is kept.
+#[test]
+fn a_phase_beyond_one_lattice_spacing_is_refused() {
+    let base = [
+        ("tau", "50ps"),
+        ("tw", "35ps"),
+        ("fclk", "500MHz"),
+        ("fdata", "50MHz"),
+        ("stages", "2"),
+        ("tsu", "25ps"),
+        ("tcq", "40ps"),
+        ("ratio", "4/5"),
+        ("jitter", "8ps"),
+    ];
+    for (phase, ok) in [
+        ("1e6", false),
+        ("500ps", false),
+        ("499ps", true),
+        ("125ps", true),
+    ] {
+        let mut pairs = base.to_vec();
+        pairs.push(("phase", phase));
+        let raw = RawInputs::from_pairs(pairs.iter().map(|(k, v)| (k.to_string(), v.to_string())));
+        match SyncCalculator::read(&raw) {
+            Ok(_) => assert!(ok, "{phase} accepted"),
+            Err(e) => {
+                assert!(!ok, "{phase}: {e}");
+                assert_eq!(
+                    e.to_string(),
+                    format!(
+                        "phase: '{phase}' is too large: the largest the model can use is 500 ps"
+                    )
+                );
+            }
+        }
+    }
+}

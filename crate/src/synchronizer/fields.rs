@@ -160,7 +160,8 @@ pub const JITTER: FieldSpec = FieldSpec {
 pub const PHASE: FieldSpec = FieldSpec {
     name: "phase",
     dim: Dim::Time,
-    help: "related clocks: offset of the edges from the sampling edge (default: the worst)",
+    help: "related clocks: offset of the edges from the sampling edge, below one lattice \
+           spacing 1/(P fclk) (default: the worst)",
     limits: (1e-21, 1e6),
     usual: (1e-15, 1e-6),
 };

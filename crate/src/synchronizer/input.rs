@@ -4,7 +4,7 @@ use crate::error::{ParamError, ParamErrorKind, ParamErrors};
 use crate::params::{positive_number, whole, FieldReader, FieldSpec, RawInputs};
 use crate::quantity::{Frequency, Time};
 use crate::reliability::{Fleet, Target};
-use crate::units::{format_number, format_si};
+use crate::units::{format_number, format_si, Dim};
 
 use super::clocks::{gcd, RelatedClocks};
 use super::fields::{
@@ -111,6 +111,23 @@ impl SyncCase {
             unused.extend([&TSU, &TCQ].iter().filter(|f| r.has(f)).map(|f| f.name));
         } else if !uses_tcq && r.has(&TCQ) {
             unused.push(TCQ.name);
+        }
+        // A phase is an offset within one lattice spacing: beyond it, the reduction onto
+        // the lattice would rest on digits the typed value does not have.
+        if let (Some(Some(c)), Some(f)) = (&related, fclk) {
+            let g = c.spacing(f.get());
+            if c.phase.is_some_and(|p| p.get() >= g) {
+                let text = r.text(&PHASE).unwrap_or_default().trim().to_string();
+                r.push(ParamError::new(
+                    PHASE.name,
+                    ParamErrorKind::Unusable {
+                        text,
+                        dim: Dim::Time,
+                        bound: g,
+                        above: true,
+                    },
+                ));
+            }
         }
         let (Some(latch), Some(related), Some(window), Some(fclk), Some((fdata, crossing)), false) =
             (latch, related, window, fclk, rate, r.has_errors())
