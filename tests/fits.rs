@@ -457,3 +457,48 @@ fn lab_cells_beyond_the_limits_are_refused_at_their_cell() {
         assert!(err.contains(msg), "{kind}: {err}");
     }
 }
+
+/// The fit merges rows of equal tr (so 100,000 rows cost what their distinct tr cost):
+/// the demo's rows each split into two (half the duration, the failures shared) and
+/// shuffled give the same estimates and intervals, and each row keeps its own expected
+/// count; the deviance is the rows' own, so only it and the degrees of freedom change.
+#[test]
+fn rows_of_equal_tr_fit_as_one() {
+    let set = [("fclk", "1GHz"), ("fdata", "50MHz")];
+    let whole = fit("counts", &file("fit-counts.csv"), &set).unwrap();
+    let mut lines: Vec<String> = Vec::new();
+    for l in file("fit-counts.csv")
+        .lines()
+        .filter(|l| !l.starts_with('#'))
+        .skip(1)
+    {
+        let c: Vec<&str> = l.split(',').collect();
+        let k: u64 = c[1].parse().unwrap();
+        let d = latchwise::quantity::parse("duration", c[2], latchwise::units::Dim::Time).unwrap();
+        lines.push(format!("{},{},{:e}", c[0], k / 2, d / 2.0));
+        lines.push(format!("{},{},{:e}", c[0], k - k / 2, d / 2.0));
+    }
+    lines.reverse();
+    lines.swap(1, 4);
+    let split = fit(
+        "counts",
+        &format!("tr,failures,duration\n{}\n", lines.join("\n")),
+        &set,
+    )
+    .unwrap();
+    for key in [
+        "tau_s",
+        "tw_s",
+        "tau_s_ci_low",
+        "tau_s_ci_high",
+        "tw_s_ci_low",
+        "tw_s_ci_high",
+    ] {
+        let (a, b) = (whole[key].as_f64().unwrap(), split[key].as_f64().unwrap());
+        assert_rel(key, b, a, 1e-9);
+    }
+    assert_eq!(
+        split["rows"].as_array().unwrap().len(),
+        2 * whole["rows"].as_array().unwrap().len()
+    );
+}

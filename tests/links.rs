@@ -79,6 +79,30 @@ fn control_characters_from_a_link_are_escaped() {
     );
 }
 
+/// JSON output stays valid JSON with control characters from a link in it: serde
+/// escapes those below U+0020, and DEL and the C1 range (which a terminal obeys) are
+/// written as `\u` escapes, not raw and not as Rust's `\u{..}` (which is not JSON).
+#[test]
+fn control_characters_in_json_are_json_escapes() {
+    let out = latchwise(&[
+        "budget",
+        "--from-url",
+        "?design=name,fclk,fdata,stages%0Aa%7Fb%C2%85c%1B,1GHz,1MHz,2&tau=20ps&tw=40ps&tsu=30ps&tcq=50ps",
+        "--json",
+    ]);
+    assert_eq!(
+        out.status.code(),
+        Some(0),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let text = String::from_utf8(out.stdout).unwrap();
+    assert!(!text.contains(['\u{7f}', '\u{85}', '\u{1b}']), "{text}");
+    assert!(text.contains("a\\u007fb\\u0085c\\u001b"), "{text}");
+    let v: serde_json::Value = serde_json::from_str(&text).unwrap();
+    assert_eq!(v["rows"][0]["name"], "a\u{7f}b\u{85}c\u{1b}");
+}
+
 #[cfg(unix)]
 #[test]
 fn a_non_utf8_argument_is_an_error_not_an_abort() {

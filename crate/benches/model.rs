@@ -131,6 +131,36 @@ fn bench(c: &mut Criterion) {
         b.iter(|| black_box(&case).rollup.percentiles(0.05, 0.3, &[0.5, 0.95]))
     });
     g.finish();
+    // Failure-count fits of 1e3, 1e4 and 1e5 rows: a tester sweeping 20 resolution times
+    // (rows grouped by tr), and every tr distinct (the worst case for grouping).
+    let mut g = c.benchmark_group("fit_counts");
+    g.sample_size(10);
+    for n in [1_000usize, 10_000, 100_000] {
+        for (label, distinct) in [("20_tr", false), ("distinct_tr", true)] {
+            let mut r = latchwise::numeric::random::Random::new(7);
+            let (tau, tw, fclk, fdata) = (18e-12, 22e-12, 1e9, 50e6);
+            let mut d = latchwise::characterize::counts::Counts {
+                tr: Vec::with_capacity(n),
+                failures: Vec::with_capacity(n),
+                duration: Vec::with_capacity(n),
+            };
+            for i in 0..n {
+                let tr = if distinct {
+                    (100.0 + 400.0 * i as f64 / n as f64) * 1e-12
+                } else {
+                    (100.0 + 20.0 * (i % 20) as f64) * 1e-12
+                };
+                let mu = 1e-3 * fclk * fdata * tw * (-tr / tau).exp();
+                d.tr.push(tr);
+                d.failures.push(r.poisson(mu) as f64);
+                d.duration.push(1e-3);
+            }
+            g.bench_function(format!("{label}/{n}"), |b| {
+                b.iter(|| latchwise::characterize::counts::fit(black_box(&d), fclk, fdata).unwrap())
+            });
+        }
+    }
+    g.finish();
 }
 
 criterion_group!(benches, bench);

@@ -1,6 +1,7 @@
 //! The one driver of every calculator command: options, help, errors, the text report
 //! printed from the core's readouts (the labels the pages show), JSON, and exit status.
 
+use std::borrow::Cow;
 use std::io::Write;
 use std::process::ExitCode;
 
@@ -108,7 +109,10 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
     let outcome = C::outcome(&report);
     if parsed.json {
         match serde_json::to_string_pretty(&report) {
-            Ok(s) => say(&format!("{s}\n")),
+            Ok(mut s) => {
+                s.push('\n');
+                say_json(&s);
+            }
             Err(e) => {
                 complain(&format!("latchwise {name}: cannot write JSON: {e}"));
                 return ExitCode::from(EXIT_BAD_INPUT);
@@ -125,25 +129,54 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
 }
 
 /// `text` with every control character other than line breaks and tabs written as an
-/// escape, so that nothing taken from a link can drive the terminal.
-pub fn clean(text: &str) -> String {
-    text.chars()
-        .map(|c| match c {
-            '\n' | '\t' => c.to_string(),
-            c if c.is_control() => c.escape_unicode().to_string(),
-            c => c.to_string(),
-        })
-        .collect()
+/// escape, so that nothing taken from a link can drive the terminal. Text with none (the
+/// usual case) is passed through as it is, without a copy.
+pub fn clean(text: &str) -> Cow<'_, str> {
+    escape_controls(text, |c, out| out.extend(c.escape_unicode()))
+}
+
+/// JSON text with the control characters that JSON strings may hold raw (DEL and the C1
+/// range; serde_json escapes the rest) written as `\u` escapes, which keep it valid JSON.
+pub fn clean_json(text: &str) -> Cow<'_, str> {
+    escape_controls(text, |c, out| {
+        out.push_str(&format!("\\u{:04x}", u32::from(c)))
+    })
+}
+
+/// `text` with `escape` applied to each control character other than a line break or a
+/// tab; borrowed when there is none.
+fn escape_controls(text: &str, escape: impl Fn(char, &mut String)) -> Cow<'_, str> {
+    let risky = |c: char| c.is_control() && c != '\n' && c != '\t';
+    let Some(first) = text.find(risky) else {
+        return Cow::Borrowed(text);
+    };
+    let mut out = String::with_capacity(text.len() + 16);
+    out.push_str(&text[..first]);
+    for c in text[first..].chars() {
+        if risky(c) {
+            escape(c, &mut out);
+        } else {
+            out.push(c);
+        }
+    }
+    Cow::Owned(out)
 }
 
 /// Writes to standard output; a reader that has gone away (a closed pipe) ends the
 /// output quietly instead of aborting.
 pub fn say(text: &str) {
+    write_out(&clean(text));
+}
+
+/// Writes JSON text to standard output (see [`clean_json`]).
+pub fn say_json(text: &str) {
+    write_out(&clean_json(text));
+}
+
+fn write_out(text: &str) {
     let mut out = std::io::stdout().lock();
     // A closed pipe is the reader's choice; any other failure has nowhere to be told.
-    let _ = out
-        .write_all(clean(text).as_bytes())
-        .and_then(|()| out.flush());
+    let _ = out.write_all(text.as_bytes()).and_then(|()| out.flush());
 }
 
 /// Writes one message line to standard error, every control character escaped (a line

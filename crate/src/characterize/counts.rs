@@ -8,7 +8,7 @@
 use std::f64::consts::LN_10;
 
 use crate::numeric::normal::ln_sum_exp;
-use crate::numeric::solve::bisect_last;
+use crate::numeric::solve::illinois;
 use crate::numeric::special::chi2_sf;
 
 /// Half the 95 % point of chi-squared with one degree of freedom: the drop of the log
@@ -124,18 +124,103 @@ fn best_a(d: &Counts, o: &[f64], b: f64) -> f64 {
     total.ln() - ln_sum_exp(&terms)
 }
 
-/// The best `b` for a given `a`: the root of `sum t exp(a - b t + o) = sum k t`.
-fn best_b(d: &Counts, o: &[f64], a: f64, span: f64) -> f64 {
+/// The best `b` for a given `a`: the root of `sum t exp(a - b t + o) = sum k t`, by
+/// Newton's method on its logarithm `h(b) = ln sum t exp(a - b t + o) - ln sum k t`, from
+/// `b0` (the fit's own b: the root moves little as a moves). `h` falls and is convex
+/// (its slope is minus the weighted mean of t, which falls with b), so every step after
+/// the first approaches the root from below without passing it.
+fn best_b(d: &Counts, o: &[f64], ln_t: &[f64], a: f64, b0: f64) -> f64 {
     let target: f64 = d.tr.iter().zip(&d.failures).map(|(t, k)| t * k).sum();
-    let excess = |b: f64| -> f64 {
-        d.tr.iter()
-            .zip(o)
-            .map(|(t, o)| t * (a - b * t + o).exp())
-            .sum::<f64>()
-            - target
+    let ln_target = target.ln();
+    let mut b = b0;
+    for _ in 0..100 {
+        // ln sum t w and ln sum t^2 w, w = exp(a - b t + o), in logs.
+        let (m1, m2) = log_moments(d, o, ln_t, a, b);
+        let h = m1 - ln_target;
+        let slope = -(m2 - m1).exp();
+        let step = h / slope;
+        if !step.is_finite() {
+            break;
+        }
+        b -= step;
+        if step.abs() <= 4.0 * f64::EPSILON * b.abs() {
+            break;
+        }
+    }
+    b
+}
+
+/// `ln sum t w` and `ln sum t^2 w` over the rows with t > 0, w = exp(a - b t + o), given
+/// `ln_t` (ln t of each row, -inf at t = 0).
+fn log_moments(d: &Counts, o: &[f64], ln_t: &[f64], a: f64, b: f64) -> (f64, f64) {
+    let exponent = |(t, (o, l)): (&f64, (&f64, &f64))| l + a - b * t + o;
+    let rows = || d.tr.iter().zip(o.iter().zip(ln_t));
+    let max = rows().map(exponent).fold(f64::NEG_INFINITY, f64::max);
+    let (mut s1, mut s2) = (0.0, 0.0);
+    for row in rows() {
+        let w = (exponent(row) - max).exp();
+        s1 += w;
+        s2 += w * row.0;
+    }
+    (max + s1.ln(), max + s2.ln())
+}
+
+/// Where a rising `f` (negative at `lo`) crosses zero in `[lo, hi]`: the low end of the
+/// bracket at full precision (`None` when `f` never reaches zero there). The search
+/// starts at `lo + step` (a guess of the distance, from the curvature at the peak) and
+/// doubles the step until it passes the root, so the root finder works on a bracket a
+/// few guesses wide rather than the whole range.
+fn crossing(lo: f64, hi: f64, step: f64, f: impl Fn(f64) -> f64) -> Option<f64> {
+    let mut step = if step.is_finite() && step > 0.0 {
+        step
+    } else {
+        hi - lo
     };
-    // The left side falls with b; search b over a wide bracket around the data's scale.
-    bisect_last(-50.0 / span, 1e4 / span, 0.0, 300, |b| excess(b) >= 0.0)
+    let (mut from, mut to) = (lo, (lo + step).min(hi));
+    while f(to) <= 0.0 {
+        if to >= hi {
+            return None;
+        }
+        from = to;
+        step *= 2.0;
+        to = (to + step).min(hi);
+    }
+    // 1e-12 relative: far inside the intervals' own precision (the likelihood is flat
+    // there, see the fit tests' tolerance) at half the evaluations of full precision.
+    let tol = 1e-12 * from.abs().max(to.abs());
+    Some(illinois(from, to, tol, 200, &f))
+}
+
+/// The rows merged by resolution time: for each distinct tr (ascending), the failures
+/// summed and the offset `ln sum exp(o_i)` of its rows. The likelihood differs from the
+/// rows' own by a constant (`sum k_i o_i` against `sum K_t o_t`), so the estimates and
+/// the profile intervals are the same, at a cost of the distinct tr, not the rows.
+fn grouped(d: &Counts, o: &[f64]) -> (Counts, Vec<f64>) {
+    let mut order: Vec<usize> = (0..d.tr.len()).collect();
+    order.sort_by(|&i, &j| d.tr[i].total_cmp(&d.tr[j]));
+    let mut g = Counts {
+        tr: Vec::new(),
+        failures: Vec::new(),
+        duration: Vec::new(),
+    };
+    let mut offsets: Vec<f64> = Vec::new();
+    let mut run: Vec<f64> = Vec::new();
+    for (n, &i) in order.iter().enumerate() {
+        if g.tr.last() != Some(&d.tr[i]) {
+            g.tr.push(d.tr[i]);
+            g.failures.push(0.0);
+            g.duration.push(0.0);
+        }
+        let last = g.failures.len() - 1;
+        g.failures[last] += d.failures[i];
+        g.duration[last] += d.duration[i];
+        run.push(o[i]);
+        if order.get(n + 1).map_or(true, |&j| d.tr[j] != d.tr[i]) {
+            offsets.push(ln_sum_exp(&run));
+            run.clear();
+        }
+    }
+    (g, offsets)
 }
 
 /// Fits tau and the window to failure counts.
@@ -171,7 +256,9 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
         return Err(CountsProblem::OneResolutionTime(tmin));
     }
     let span = tmax - tmin;
-    let o = offsets(d, fclk, fdata);
+    let rows_o = offsets(d, fclk, fdata);
+    let (rows, (d, o)) = (d, grouped(d, &rows_o));
+    let d = &d;
     let k_mean: f64 =
         d.tr.iter()
             .zip(&d.failures)
@@ -181,42 +268,93 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
     if k_mean <= tmin * (1.0 + 1e-12) {
         return Err(CountsProblem::AllAtShortest(tmin));
     }
-    // The weighted mean of tr under weights exp(-b tr + o), in logs.
-    let w_mean = |b: f64| {
-        let ln_w: Vec<f64> = d.tr.iter().zip(&o).map(|(t, o)| -b * t + o).collect();
-        let norm = ln_sum_exp(&ln_w);
-        d.tr.iter()
-            .zip(&ln_w)
-            .map(|(t, l)| t * (l - norm).exp())
-            .sum::<f64>()
+    // The mean and variance of tr under weights exp(-b tr + o), in logs.
+    let w_moments = |b: f64| {
+        let max =
+            d.tr.iter()
+                .zip(&o)
+                .map(|(t, o)| -b * t + o)
+                .fold(f64::NEG_INFINITY, f64::max);
+        let (mut s0, mut s1, mut s2) = (0.0, 0.0, 0.0);
+        for (t, o) in d.tr.iter().zip(&o) {
+            let w = (-b * t + o - max).exp();
+            s0 += w;
+            s1 += w * t;
+            s2 += w * t * t;
+        }
+        let mean = s1 / s0;
+        (mean, (s2 / s0 - mean * mean).max(0.0))
     };
-    if w_mean(0.0) <= k_mean {
+    if w_moments(0.0).0 <= k_mean {
         return Err(CountsProblem::NotFalling);
     }
-    // w_mean falls with b: find where it meets the failure-weighted mean.
-    let b = bisect_last(0.0, 1e4 / span, 0.0, 300, |b| w_mean(b) >= k_mean);
+    // The weighted mean falls with b (its slope is minus the weighted variance): find
+    // where it meets the failure-weighted mean by Newton's method kept inside a bracket
+    // that every step narrows (bisecting where a Newton step would leave it).
+    let (mut lo, mut hi) = (0.0, 1e4 / span);
+    let mut b = 1.0 / span;
+    for _ in 0..300 {
+        let (mean, var) = w_moments(b);
+        let f = mean - k_mean;
+        if f > 0.0 {
+            lo = b;
+        } else {
+            hi = b;
+        }
+        let newton = b + f / var;
+        let next = if newton > lo && newton < hi && var > 0.0 {
+            newton
+        } else {
+            0.5 * (lo + hi)
+        };
+        let done =
+            (next - b).abs() <= 4.0 * f64::EPSILON * b.abs() || hi - lo <= 4.0 * f64::EPSILON * hi;
+        b = next;
+        if done {
+            break;
+        }
+    }
     let a = best_a(d, &o, b);
     let peak = log_lik(d, &o, a, b);
     let profile_b = |bb: f64| log_lik(d, &o, best_a(d, &o, bb), bb);
-    let profile_a = |aa: f64| log_lik(d, &o, aa, best_b(d, &o, aa, span));
-    let inside_b = |bb: f64| peak - profile_b(bb) <= HALF_CHI2_95;
-    let inside_a = |aa: f64| peak - profile_a(aa) <= HALF_CHI2_95;
-    // b's interval: below b (towards 0) and above; None where the drop never comes.
-    let b_lo = (!inside_b(1e-9 * b)).then(|| {
-        let x = bisect_last(-(b.ln()), -(1e-9 * b).ln(), 1e-12, 200, |x| {
-            inside_b((-x).exp())
-        });
-        (-x).exp()
-    });
-    let b_hi = (!inside_b(1e4 / span)).then(|| bisect_last(b, 1e4 / span, 0.0, 200, inside_b));
+    let ln_t: Vec<f64> = d.tr.iter().map(|t| t.ln()).collect();
+    // Each best b starts from the last one found (the crossing's steps are near).
+    let last_b = std::cell::Cell::new(b);
+    let profile_a = |aa: f64| {
+        let bb = best_b(d, &o, &ln_t, aa, last_b.get());
+        if bb.is_finite() {
+            last_b.set(bb);
+        }
+        log_lik(d, &o, aa, bb)
+    };
+    let drop_b = |bb: f64| peak - profile_b(bb) - HALF_CHI2_95;
+    let drop_a = |aa: f64| peak - profile_a(aa) - HALF_CHI2_95;
+    // Standard errors from the observed information at the peak, the first guesses of
+    // each interval end's distance (the profile falls by 1.92 about 1.96 of them away).
+    let (mut i_aa, mut i_ab, mut i_bb) = (0.0, 0.0, 0.0);
+    for (t, o) in d.tr.iter().zip(&o) {
+        let mu = (a - b * t + o).exp();
+        i_aa += mu;
+        i_ab += mu * t;
+        i_bb += mu * t * t;
+    }
+    let det = i_aa * i_bb - i_ab * i_ab;
+    let (se_a, se_b) = ((i_bb / det).sqrt(), (i_aa / det).sqrt());
+    // b's interval: below b (towards 0, in -ln b) and above; None where the drop never
+    // comes.
+    let b_lo = crossing(-(b.ln()), -(1e-9 * b).ln(), 1.5 * se_b / b, |x| {
+        drop_b((-x).exp())
+    })
+    .map(|x| (-x).exp());
+    let b_hi = crossing(b, 1e4 / span, 1.5 * se_b, drop_b);
     // a's interval: the profile falls within a few tens of nepers on either side.
     let reach = 60.0;
-    let a_lo =
-        (!inside_a(a - reach)).then(|| -bisect_last(-a, -(a - reach), 0.0, 200, |x| inside_a(-x)));
-    let a_hi = (!inside_a(a + reach)).then(|| bisect_last(a, a + reach, 0.0, 200, inside_a));
+    let a_lo = crossing(-a, -(a - reach), 1.5 * se_a, |x| drop_a(-x)).map(|x| -x);
+    let a_hi = crossing(a, a + reach, 1.5 * se_a, drop_a);
+    let d = rows;
     let expected: Vec<f64> =
         d.tr.iter()
-            .zip(&o)
+            .zip(&rows_o)
             .map(|(t, o)| (a - b * t + o).exp())
             .collect();
     let unit: Vec<f64> = d
