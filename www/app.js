@@ -99,10 +99,12 @@
     }
   }
 
+  // Writes (or with null removes) a stored value; says whether the store now holds it.
   function store(key, value) {
     try {
       if (value === null) localStorage.removeItem(key); else localStorage.setItem(key, value);
-    } catch (e) { /* storage disabled: the URL still holds the case */ }
+      return value === null || localStorage.getItem(key) === value;
+    } catch (e) { return false; /* storage off or its quota full */ }
   }
 
   function stored(key) {
@@ -297,10 +299,58 @@
   var SAVE_AT_ONCE_CHARS = 20000;
   var saveTimer = null;
 
+  // What a link or storage can hold and read back: a packed table unpacks to at most
+  // 16 MiB (the core's link::MOST_UNPACKED), and browsers keep links of about 2 million
+  // characters at most (Chromium's limit; common practice for the others).
+  var UNPACKED_MOST = 16 * 1024 * 1024;
+  var URL_MOST_CHARS = 2000000;
+  // Where the last case could not be kept: a stored note read at the next load.
+  var lostKey = storeKey + ':not-kept';
+
+  // A standing notice that the case on screen is not kept (empty: it is).
+  function unsaved(msg) {
+    var n = document.getElementById('unsaved');
+    if (!n) {
+      n = document.createElement('p');
+      n.id = 'unsaved';
+      n.className = 'note unsaved';
+      n.setAttribute('role', 'alert');
+      var after = document.getElementById('ignored');
+      after.parentNode.insertBefore(n, after.nextSibling);
+    }
+    n.textContent = msg;
+    show(n, msg !== '');
+  }
+
+  // Saves the case into the link and the browser's storage, and says on the page when
+  // either cannot hold it: never an older case brought back by a reload without a word.
   function saveNow(q) {
-    var c = compactQuery(q);
-    try { history.replaceState(null, '', '?' + c + location.hash); } catch (e) { /* file:// in some browsers */ }
-    store(storeKey, c);
+    var big = q.length > UNPACKED_MOST;
+    var c = big ? '' : compactQuery(q);
+    var inLink = !big && c.length <= URL_MOST_CHARS;
+    // A link that cannot hold the case holds none, so that a reload does not bring back
+    // an older one from it.
+    try { history.replaceState(null, '', '?' + (inLink ? c : '') + location.hash); } catch (e) { inLink = false; }
+    var kept = !big && store(storeKey, c);
+    var why = [];
+    if (big) {
+      why.push('the case holds ' + (q.length / 1048576).toFixed(1) + ' MiB of text, more than the 16 MiB a link or this browser\'s storage can read back');
+    } else {
+      if (!inLink) why.push('its link would be ' + c.length.toLocaleString('en') + ' characters, beyond what browsers keep (about 2 million)');
+      if (!kept) why.push('this browser\'s storage did not take it (storage is off, or its quota is full)');
+    }
+    if (!kept) {
+      // Nothing older is brought back in its place: the stored case goes, and a short
+      // note says why at the next load.
+      store(storeKey, null);
+      store(lostKey, new Date().toISOString().slice(0, 16).replace('T', ' ') + ': ' + why.join('; '));
+    } else {
+      store(lostKey, null);
+    }
+    var then = kept ? 'A reload brings it back from this browser.' :
+      inLink ? 'Its link still brings it back.' : 'A reload will not bring it back.';
+    var files = document.querySelector('[data-save]') ? ' Save CSV keeps the tables as files.' : '';
+    unsaved(why.length === 0 ? '' : 'This case is not kept: ' + why.join('; ') + '. ' + then + files);
   }
 
   function save(q) {
@@ -620,6 +670,12 @@
     } else if (q === '') {
       q = stored(storeKey);
       fromStorage = q !== '';
+      var lost = stored(lostKey);
+      if (!fromStorage && lost !== '') {
+        note('The last case on this page was not kept (' + lost + '); the demo case is shown. ' +
+          'Open its CSV files to carry on.');
+        store(lostKey, null);
+      }
       // The last load of this stored case never finished: set it aside, start afresh.
       if (fromStorage && stored(pendingKey) === q) {
         store(asideKey, q);

@@ -10,7 +10,8 @@ import path from 'node:path';
 
 // Tolerances of the browser tests, named as tests/tolerance.rs names the Rust ones.
 /** The wasm build brings its own asin/exp/ln, which may differ from the native libm in
- * the last bit; the sine model sums thousands of asin terms: page against CLI, relative. */
+ * the last bit; the sine model sums thousands of asin terms, and the counts fit takes
+ * Newton steps on exp and ln sums: page against CLI, relative. */
 export const WASM_LIBM_REL = 1e-13;
 /** A canvas's backing pixels per CSS pixel round to whole pixels: 0.02 at 300 px. */
 export const CANVAS_RATIO_ABS = 0.02;

@@ -185,3 +185,31 @@ test('an ambiguous unit is refused at its field with both readings', async () =>
   assert.equal(await page.textContent('#m-fclk'), "fclk: '400mhz' is ambiguous: write 400MHz for megahertz or 400mHz for millihertz");
   await context.close();
 });
+
+test('a case the browser cannot store is never lost without a word', async () => {
+  const { context, page } = await open(env.browser, env.server.url + 'index.html');
+  // The storage quota is full for this page's case (as with a large design).
+  await page.evaluate(() => {
+    const set = Storage.prototype.setItem;
+    Storage.prototype.setItem = function (k, v) {
+      if (k === 'latchwise:sync') throw new DOMException('quota', 'QuotaExceededError');
+      return set.call(this, k, v);
+    };
+  });
+  await fill(page, '[name="tau"]', '23ps');
+  assert.equal(await page.isVisible('#unsaved'), true);
+  assert.match(await page.textContent('#unsaved'), /not kept: this browser's storage did not take it .*Its link still brings it back/);
+  assert.equal(await page.evaluate(() => localStorage.getItem('latchwise:sync')), null, 'no older case left to come back');
+  // The link still holds it.
+  assert.match(page.url(), /tau=23ps/);
+  // Opened again without the link: it says why the case is not there.
+  await page.goto(env.server.url + 'index.html');
+  await page.waitForSelector('body[data-ready="yes"]');
+  assert.equal(await page.inputValue('[name="tau"]'), '20ps', 'the demo case');
+  assert.match(await page.textContent('#ignored'), /The last case on this page was not kept \(.*storage did not take it.*\); the demo case is shown/);
+  // Once stored again, the notice goes.
+  await fill(page, '[name="tau"]', '21ps');
+  assert.equal(await page.isVisible('#unsaved'), false);
+  assert.match(await page.evaluate(() => localStorage.getItem('latchwise:sync')), /tau=21ps/);
+  await context.close();
+});
