@@ -268,3 +268,44 @@ fn a_phase_beyond_one_lattice_spacing_is_refused() {
         }
     }
 }
+
+/// One line per fact: without a phase the clock factor is the worst phase's, and the
+/// report says so once ("(worst phase)"), not again as "K at the worst phase".
+#[test]
+fn the_worst_phase_is_said_once() {
+    let pairs = [
+        ("tau", "50ps"),
+        ("tw", "35ps"),
+        ("fclk", "500MHz"),
+        ("fdata", "50MHz"),
+        ("stages", "2"),
+        ("tsu", "25ps"),
+        ("tcq", "40ps"),
+        ("ratio", "4/5"),
+        ("jitter", "8ps"),
+    ];
+    let names = |extra: Option<(&str, &str)>| {
+        let mut p = pairs.to_vec();
+        p.extend(extra);
+        let raw = RawInputs::from_pairs(p.iter().map(|(k, v)| (k.to_string(), v.to_string())));
+        let case = SyncCalculator::read(&raw).unwrap();
+        let outcome = SyncCalculator::outcome(&SyncCalculator::evaluate(&case));
+        outcome
+            .readouts
+            .iter()
+            .map(|r| (r.name, r.text.clone()))
+            .collect::<Vec<_>>()
+    };
+    let worst = names(None);
+    assert!(
+        !worst.iter().any(|(n, _)| *n == "log10_clock_factor_worst"),
+        "{worst:?}"
+    );
+    let k = worst
+        .iter()
+        .find(|(n, _)| *n == "log10_clock_factor")
+        .unwrap();
+    assert_eq!(k.1, "24.9 (worst phase)");
+    let phased = names(Some(("phase", "125ps")));
+    assert!(phased.iter().any(|(n, _)| *n == "log10_clock_factor_worst"));
+}

@@ -34,6 +34,7 @@ fn coverage(name: &str) -> Vec<String> {
             "tau=20ps&tw=40ps&fclk=1GHz&fdata=1&stages=2&tsu=30ps&tcq=50ps&target-years=1e-7",
             "tau-master=20ps&tau-slave=30ps&duty=0.5&tw=10ps&tw2=30ps&fclk=1GHz&fdata=100MHz&stages=3&tsu=30ps&tcq=50ps&target-years=1e9",
             "tau=14ps,22ps&tw=40ps&fclk=500MHz&crossing=gray&increments=50MHz&stages=3&tsu=30ps&tcq=50ps&ratio=4/5&jitter=10ps&target-years=1e6",
+            "tau=50ps&tw=35ps&fclk=500MHz&fdata=50MHz&stages=2&tsu=25ps&tcq=40ps&ratio=4/5&jitter=8ps&phase=125ps",
         ],
         "comparator" => &[
             "tau=15ps&treg=80ps&extra-stages=2&stage-time=100ps&vmin=0.4&gain=4&input=uniform&lsb=1mV&fs=5GHz&target-ber=1e-10",

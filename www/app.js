@@ -144,6 +144,14 @@
     return box ? box.querySelector('.lbl') : null;
   }
 
+  // The elements that show one result: its term and description in a list, or its box.
+  function rowOf(out) {
+    var dd = out.closest('dd');
+    if (dd) return dd.previousElementSibling ? [dd.previousElementSibling, dd] : [dd];
+    var box = out.parentNode;
+    return box && box.querySelector('.lbl') ? [box] : [];
+  }
+
   function render(state) {
     state.fields.forEach(function (f) {
       var el = form.elements.namedItem(f.name);
@@ -176,9 +184,13 @@
       // The page writes tau as τ; relabel only when the wording itself differs.
       if (label && label.textContent.replace(/τ/g, 'tau') !== r.label) label.textContent = r.label;
     });
+    // A result that does not apply to this case (the core gives no readout for it) is
+    // left out of the list; while the inputs are not valid every row waits with "…".
     each('output[name]', function (out) {
+      var applies = !state.ok || seen[out.getAttribute('name')] === true;
+      rowOf(out).forEach(function (el) { el.hidden = !applies; });
       if (seen[out.getAttribute('name')]) return;
-      out.textContent = state.ok ? '—' : '…';
+      out.textContent = state.ok ? '' : '…';
       out.dataset.value = '';
       out.dataset.state = '';
     });

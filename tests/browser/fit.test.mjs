@@ -59,3 +59,26 @@ test('bad data are flagged with line and column, and a fixed table recovers', as
   assert.equal(await page.$eval('body', (b) => b.dataset.valid), 'yes');
   await context.close();
 });
+
+test('each kind of fit lists only its own results, none as a dash', async () => {
+  const { context, page } = await open(env.browser, fileUrl('characterize.html'));
+  const visible = () => page.$$eval('output[name]', (els) => els
+    .filter((e) => e.offsetParent !== null)
+    .map((e) => [e.getAttribute('name'), e.textContent]));
+  for (const [demo, own, foreign] of [
+    [null, 'tw_s', ['v0_v', 'offset_m_s', 't0_s']],
+    ['demo-delay', 'offset_m_s', ['v0_v', 't0_s', 'deviance']],
+    ['demo-comparator', 'v0_v', ['tw_s', 'offset_m_s', 't0_s', 'deviance']],
+  ]) {
+    if (demo) {
+      await page.click(`button[data-demo="${demo}"]`);
+      await settle(page);
+    }
+    const shown = await visible();
+    const names = shown.map((s) => s[0]);
+    assert.ok(names.includes(own), `${demo}: ${names}`);
+    for (const f of foreign) assert.ok(!names.includes(f), `${demo}: ${f} shown`);
+    for (const [n, t] of shown) assert.ok(t !== '—' && t !== '', `${demo}: ${n} shows '${t}'`);
+  }
+  await context.close();
+});

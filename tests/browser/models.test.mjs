@@ -85,3 +85,21 @@ test('every new field refuses a bad value beside itself and recovers', async () 
   assert.equal(await page.$eval('[name="fdata"]', (e) => e.closest('.field').dataset.unused), 'yes');
   await context.close();
 });
+
+test('results of models the case does not use are left out, not dashed', async () => {
+  const { context, page } = await open(env.browser, fileUrl('index.html'));
+  const shown = () => page.$$eval('output[name]', (els) => els
+    .filter((e) => e.offsetParent !== null).map((e) => e.getAttribute('name')));
+  let names = await shown();
+  for (const n of ['log10_clock_factor', 'tau_eff_s', 'log10_expected_failures']) assert.ok(!names.includes(n), n);
+  assert.ok(names.includes('log10_fit'));
+  // Related clocks without a phase: K once, at the worst phase.
+  await page.evaluate(() => { document.getElementById('beyond').open = true; });
+  await page.fill('[name="ratio"]', '4/5');
+  await fill(page, '[name="jitter"]', '8ps');
+  names = await shown();
+  assert.ok(names.includes('log10_clock_factor'));
+  assert.ok(!names.includes('log10_clock_factor_worst'));
+  assert.match(await page.textContent('output[name="log10_clock_factor"]'), /worst phase/);
+  await context.close();
+});

@@ -128,7 +128,15 @@ impl Plot {
         } else {
             format!("_{}", self.x_unit)
         };
-        let x_col = self.x_label.split(' ').next().unwrap_or("x");
+        // The axis label's words before its parenthesis, joined: "total regeneration
+        // time (s)" is the column total_regeneration_time_s.
+        let x_col = self
+            .x_label
+            .split(" (")
+            .next()
+            .map(|w| w.trim().replace(' ', "_"))
+            .filter(|w| !w.is_empty())
+            .unwrap_or_else(|| "x".to_string());
         let many = self.curves.len() > 1;
         let mut out = String::new();
         for line in preface {

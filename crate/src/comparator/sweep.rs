@@ -38,7 +38,8 @@ pub fn p_vs_treg(c: &Comparator, reach: Option<f64>, n: usize) -> Plot {
     Plot::new(
         "plot-treg",
         "Error probability against regeneration time",
-        ("treg (s)", "s", Spacing::Linear),
+        // The total: treg and the extra latch stages, as the case's marker is.
+        ("total regeneration time (s)", "s", Spacing::Linear),
     )
     .y(Y_NAME, Y_LABEL)
     .clip_y(Y_SPAN)

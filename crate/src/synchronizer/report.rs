@@ -393,19 +393,22 @@ impl SyncReport {
         }
         if let Some(k) = &self.clocks {
             let at = if k.phase_given { "" } else { " (worst phase)" };
-            v.extend([
-                Readout::new(
-                    "log10_clock_factor",
-                    "clock factor K",
-                    format!("{}{at}", format_log10(k.log10_clock_factor, 3)),
-                    Some(k.log10_clock_factor),
-                ),
-                Readout::new(
+            v.push(Readout::new(
+                "log10_clock_factor",
+                "clock factor K",
+                format!("{}{at}", format_log10(k.log10_clock_factor, 3)),
+                Some(k.log10_clock_factor),
+            ));
+            // Without a phase, K is the worst phase's already: one line per fact.
+            if k.phase_given {
+                v.push(Readout::new(
                     "log10_clock_factor_worst",
                     "K at the worst phase",
                     format_log10(k.log10_clock_factor_worst, 3),
                     Some(k.log10_clock_factor_worst),
-                ),
+                ));
+            }
+            v.extend([
                 Readout::new(
                     "log10_clock_factor_best",
                     "K at the best phase",
