@@ -11,8 +11,12 @@
   var ROW_PX = 30;
   // Rows drawn beyond each edge of the view, so that scrolling shows no gap.
   var OVERSCAN = 6;
-  // The most snapshots Undo keeps.
-  var UNDO_MOST = 100;
+  // The most text Undo keeps, in characters over all its snapshots: every edit of a
+  // session on a table of ordinary size (a 2 kB design: 30,000 edits), and the last few
+  // hundred on a 10,000-row one. When older snapshots are let go the Undo button says
+  // where its history ends.
+  // (A test sets window.LATCHWISE_UNDO_CHARS_MOST to reach the end of the history.)
+  var UNDO_CHARS_MOST = window.LATCHWISE_UNDO_CHARS_MOST || 64 * 1024 * 1024;
   // Changes to the text from outside the table (typing in the text view, a file, the
   // demo) within this many milliseconds are undone as one.
   var BURST_MS = 1500;
@@ -58,6 +62,8 @@
     var orderFor = 'file';  // the order menu's choice that `order` follows
     var selected = -1;      // a data row index
     var undo = [];
+    var undoChars = 0;       // characters held by the snapshots
+    var undoCut = 0;         // snapshots let go from the oldest end
     var lastOutside = 0;
     var editing = '';       // the cell being typed in, so that one cell's typing is one undo step
     var forceValues = false; // set while undoing: even the focused cell takes the text's value
@@ -284,7 +290,9 @@
       empty.hidden = !none;
       empty.textContent = none ? 'No table yet: Add row starts one, or type, paste, drop or open a CSV file.' : '';
       scroll.hidden = none || !tableB.classList.contains('on');
-      count.textContent = n === 1 ? '1 row' : n.toLocaleString('en-US') + ' rows';
+      count.textContent = (n === 1 ? '1 row' : n.toLocaleString('en-US') + ' rows') +
+        (undo.length === 0 && undoCut > 0 ? ' · undo history ends here: ' + undoCut +
+          ' older changes were let go (the table is large)' : '');
       dupB.disabled = delB.disabled = selected < 0;
       undoB.disabled = undo.length === 0;
       syncOrderMenu();
@@ -295,7 +303,20 @@
 
     function remember(before) {
       undo.push(before);
-      if (undo.length > UNDO_MOST) undo.shift();
+      undoChars += before.length;
+      while (undoChars > UNDO_CHARS_MOST && undo.length > 1) {
+        undoChars -= undo.shift().length;
+        undoCut++;
+      }
+      undoTitle();
+    }
+
+    // The Undo button says how far back it goes once its history has been cut.
+    function undoTitle() {
+      undoB.title = undoCut === 0 ? 'Undo the last change to this table' :
+        'Undo the last change to this table (' + undo.length + ' more back; the ' + undoCut +
+        ' oldest changes were let go, as the table is large)';
+      undoB.dataset.cut = undoCut > 0 && undo.length === 0 ? 'yes' : 'no';
     }
 
     // Writes `text` into the text area now, unless the text area was changed from
@@ -369,7 +390,10 @@
         draw();
       } else if (what === 'undo' && undo.length) {
         forceValues = true;
-        try { write(undo.pop()); } finally { forceValues = false; }
+        var back = undo.pop();
+        undoChars -= back.length;
+        try { write(back); } finally { forceValues = false; }
+        undoTitle();
       }
     }
 

@@ -271,3 +271,41 @@ test('a CSV file dropped on a table fills it', async () => {
   assert.deepEqual(problems, []);
   await context.close();
 });
+
+test('undo keeps every edit of the session: 150 added rows undo back to the demo', async () => {
+  const { context, page, problems } = await open(env.browser, fileUrl('budget.html'));
+  const demo = await designText(page);
+  await page.click(cell(2, 0));
+  for (let i = 0; i < 150; i++) await page.click('#grid-design [data-act="add"]');
+  await settle(page);
+  assert.equal(await page.textContent('#grid-design .grid-count'), '174 rows');
+  for (let i = 0; i < 150; i++) await page.click('#grid-design [data-act="undo"]');
+  await settle(page);
+  assert.equal(await designText(page), demo);
+  assert.equal(await page.isDisabled('#grid-design [data-act="undo"]'), true);
+  assert.equal(await page.$eval('#grid-design [data-act="undo"]', (b) => b.dataset.cut), 'no');
+  assert.deepEqual(problems, []);
+  await context.close();
+});
+
+test('where undo history was let go, the table says where it ends', async () => {
+  const context = await env.browser.newContext({ viewport: { width: 1280, height: 900 } });
+  // A small history (as a 10,000-row design's would be, in snapshots).
+  await context.addInitScript(() => { window.LATCHWISE_UNDO_CHARS_MOST = 12000; });
+  const page = await context.newPage();
+  await page.goto(fileUrl('budget.html'));
+  await page.waitForSelector('body[data-ready="yes"]');
+  await page.click(cell(2, 0));
+  for (let i = 0; i < 20; i++) await page.click('#grid-design [data-act="add"]');
+  await settle(page);
+  const title = await page.$eval('#grid-design [data-act="undo"]', (b) => b.title);
+  assert.match(title, /oldest changes were let go/);
+  for (let i = 0; i < 20; i++) {
+    if (await page.isDisabled('#grid-design [data-act="undo"]')) break;
+    await page.click('#grid-design [data-act="undo"]');
+  }
+  await settle(page);
+  assert.match(await page.textContent('#grid-design .grid-count'), /undo history ends here: \d+ older changes were let go/);
+  assert.equal(await page.$eval('#grid-design [data-act="undo"]', (b) => b.dataset.cut), 'yes');
+  await context.close();
+});
