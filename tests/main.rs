@@ -5,6 +5,7 @@ mod budget;
 mod cli;
 mod comparator;
 mod fits;
+mod invariants;
 mod links;
 mod plot;
 mod properties;

@@ -95,7 +95,11 @@ const PREFIXES: [(i32, &str); 11] = [
 /// assert_eq!(format_si(0.0, "s"), "0 s");
 /// ```
 pub fn format_si(v: f64, unit: &str) -> String {
-    if v == 0.0 || !v.is_finite() {
+    // Zero is written "0" whatever its sign bit: never "-0".
+    if v == 0.0 {
+        return join_unit("0", unit);
+    }
+    if !v.is_finite() {
         return join_unit(&format!("{v}"), unit);
     }
     let e3 = ((v.abs().log10() + 1e-9).floor() as i32).div_euclid(3) * 3;
@@ -205,6 +209,13 @@ pub fn format_log10(l: f64, sig: usize) -> String {
 /// assert_eq!(format_decades(-4.343e17), "-4.34e17");
 /// ```
 pub fn format_decades(d: f64) -> String {
+    if d == 0.0 {
+        return "0.00".to_string();
+    }
+    // A margin that would round to zero keeps its sign and shows its size: never "-0.00".
+    if d.abs() < 0.005 {
+        return format!("{}{}", if d < 0.0 { "" } else { "+" }, format_sig(d, 2));
+    }
     if d.abs() < 1e6 {
         format!("{d:+.2}")
     } else {

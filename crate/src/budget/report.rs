@@ -165,8 +165,11 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
         }
     }
     let added = fix.as_ref().map(|f| {
-        f.as_ref()
-            .map(|rows| rows.iter().map(|x| x.added_flip_flops).sum::<f64>())
+        f.as_ref().map(|rows| {
+            rows.iter()
+                .map(|x| x.added_flip_flops)
+                .fold(0.0, |a, b| a + b)
+        })
     });
     let after = fixed
         .as_ref()

@@ -352,17 +352,20 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
     let a_lo = crossing(-a, -(a - reach), 1.5 * se_a, |x| drop_a(-x)).map(|x| -x);
     let a_hi = crossing(a, a + reach, 1.5 * se_a, drop_a);
     let d = rows;
-    let expected: Vec<f64> =
+    // Each row's expected count, and its unit deviance from ln mu (a count far below the
+    // f64 range has a finite log, where k ln(k / mu) would be infinite).
+    let ln_mu: Vec<f64> =
         d.tr.iter()
             .zip(&rows_o)
-            .map(|(t, o)| (a - b * t + o).exp())
+            .map(|(t, o)| a - b * t + o)
             .collect();
+    let expected: Vec<f64> = ln_mu.iter().map(|l| l.exp()).collect();
     let unit: Vec<f64> = d
         .failures
         .iter()
-        .zip(&expected)
-        .map(|(k, mu)| {
-            let term = if *k > 0.0 { k * (k / mu).ln() } else { 0.0 };
+        .zip(ln_mu.iter().zip(&expected))
+        .map(|(k, (l, mu))| {
+            let term = if *k > 0.0 { k * (k.ln() - l) } else { 0.0 };
             2.0 * (term - (k - mu))
         })
         .collect();

@@ -55,7 +55,7 @@ pub fn fit(vin: &[f64], time: &[f64]) -> Result<DecisionFit, String> {
     let var = da * da * l.var_intercept + db * db * l.var_slope + 2.0 * da * db * l.cov;
     let se_ln_v0 = var.max(0.0).sqrt();
     let v0 = ln_v0.exp();
-    if !v0.is_normal() {
+    if !v0.is_normal() || v0 > 1e300 {
         return Err(
             "the fitted v0 = vmin/gain is beyond any voltage: the decision times do \
                     not follow tau ln(v0/vin); check the data"

@@ -24,10 +24,11 @@ pub struct Line {
     pub sse: f64,
 }
 
-/// An interval end that a fit can give only when it is a positive, normal number (a time
-/// constant below zero, or a voltage beyond an f64, is no bound at all).
+/// An interval end that a fit can give only when it is a positive, normal number no
+/// larger than 1e300 (a time constant below zero, or a voltage of 1e300 V, is no bound at
+/// all: the data do not bound the value on that side).
 pub fn bound(v: f64) -> Option<f64> {
-    Some(v).filter(|v| v.is_normal() && *v > 0.0)
+    Some(v).filter(|v| v.is_normal() && *v > 0.0 && *v <= 1e300)
 }
 
 impl Line {

@@ -293,7 +293,9 @@ impl Synchronizer {
             tw2: p.tw2,
             related: p.related,
         };
-        if s.tr.is_none() && s.tw2.is_none() && s.stages() > 1 && s.hop_time() <= 0.0 {
+        // Even one flip-flop must meet its setup and clock-to-output within a period, and a
+        // deeper chain (the depth solver) would have no time to resolve.
+        if s.tr.is_none() && s.tw2.is_none() && s.hop_time() <= 0.0 {
             return Err(error(
                 FCLK.name,
                 ParamErrorKind::PeriodTooShort {
@@ -747,6 +749,8 @@ mod tests {
             "stages"
         );
         assert_eq!(Synchronizer::new(parts(2, 20e9)).unwrap_err().field, "fclk");
-        assert!(Synchronizer::new(parts(1, 20e9)).is_ok());
+        // One flip-flop cannot meet its own setup and clock-to-output either.
+        assert_eq!(Synchronizer::new(parts(1, 20e9)).unwrap_err().field, "fclk");
+        assert!(Synchronizer::new(parts(1, 1e9)).is_ok());
     }
 }
