@@ -228,23 +228,26 @@ fn tutorial_examples_to_the_precision_it_gives() {
     );
 }
 
+/// The README's related-clock example: 400 MHz into 500 MHz from one PLL, no phase given.
+const RELATED_DEMO: [(&str, &str); 9] = [
+    ("tau", "50ps"),
+    ("tw", "35ps"),
+    ("fclk", "500MHz"),
+    ("fdata", "50MHz"),
+    ("stages", "2"),
+    ("tsu", "25ps"),
+    ("tcq", "40ps"),
+    ("ratio", "4/5"),
+    ("jitter", "8ps"),
+];
+
 /// A phase is an offset within one lattice spacing (here 1/(4 x 500 MHz) = 500 ps): a
 /// phase of 1e6 s once printed K = 7.5e-8 where the value for it reduced onto the lattice
 /// differs by 8.4 decades (the reduction rests on digits the typed value does not have),
 /// so it is refused naming the spacing; a phase within it is kept.
 #[test]
 fn a_phase_beyond_one_lattice_spacing_is_refused() {
-    let base = [
-        ("tau", "50ps"),
-        ("tw", "35ps"),
-        ("fclk", "500MHz"),
-        ("fdata", "50MHz"),
-        ("stages", "2"),
-        ("tsu", "25ps"),
-        ("tcq", "40ps"),
-        ("ratio", "4/5"),
-        ("jitter", "8ps"),
-    ];
+    let base = RELATED_DEMO;
     for (phase, ok) in [
         ("1e6", false),
         ("500ps", false),
@@ -273,17 +276,7 @@ fn a_phase_beyond_one_lattice_spacing_is_refused() {
 /// report says so once ("(worst phase)"), not again as "K at the worst phase".
 #[test]
 fn the_worst_phase_is_said_once() {
-    let pairs = [
-        ("tau", "50ps"),
-        ("tw", "35ps"),
-        ("fclk", "500MHz"),
-        ("fdata", "50MHz"),
-        ("stages", "2"),
-        ("tsu", "25ps"),
-        ("tcq", "40ps"),
-        ("ratio", "4/5"),
-        ("jitter", "8ps"),
-    ];
+    let pairs = RELATED_DEMO;
     let names = |extra: Option<(&str, &str)>| {
         let mut p = pairs.to_vec();
         p.extend(extra);
