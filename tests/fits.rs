@@ -495,7 +495,7 @@ fn rows_of_equal_tr_fit_as_one() {
         "tw_s_ci_high",
     ] {
         let (a, b) = (whole[key].as_f64().unwrap(), split[key].as_f64().unwrap());
-        assert_rel(key, b, a, 1e-9);
+        assert_rel(key, b, a, FIT_REL);
     }
     assert_eq!(
         split["rows"].as_array().unwrap().len(),

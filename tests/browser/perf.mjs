@@ -41,8 +41,9 @@ async function navigation(url, steps) {
 }
 
 try {
-// BENCH_ONLY=budget measures the budget page alone.
-for (const file of process.env.BENCH_ONLY === 'budget' ? [] : ['index.html', 'comparator.html']) {
+// BENCH_ONLY=budget measures the budget page alone, BENCH_ONLY=fit the Characterise page.
+const only = process.env.BENCH_ONLY || '';
+for (const file of only !== '' ? [] : ['index.html', 'comparator.html']) {
   for (const [name, at] of [['file://', fileUrl], ['served', (f) => server.url + f]]) {
     // Interleave page and blank baseline so that both see the same machine state.
     const steps = [];
@@ -100,7 +101,72 @@ for (const file of process.env.BENCH_ONLY === 'budget' ? [] : ['index.html', 'co
 // the edit (the table writing the row back), of the recompute (numbers, table, results)
 // and of the redraw (plots), each as the page times it; and the same edit to the plots on
 // screen.
-for (const size of [1000, 10000]) {
+// The Characterise page with 3,000 rows of failure counts, every tr distinct (the worst
+// case for the fit, which merges rows of equal tr): one count edited in the data, the
+// recompute (the fit with its profile intervals) and the redraw, as the page times them.
+for (const size of only === '' || only === 'fit' ? [3000] : []) {
+  const { context, page } = await open(browser, fileUrl('characterize.html'));
+  await page.evaluate((size) => {
+    let t = 'tr,failures,duration\n';
+    for (let i = 0; i < size; i++) {
+      const tr = 100 + 400 * i / size;
+      t += `${tr.toFixed(4)}ps,${Math.round(1e-3 * 1e9 * 5e7 * 22e-12 * Math.exp(-tr / 18))},1ms\n`;
+    }
+    const area = document.querySelector('[name=data]');
+    area.value = t;
+    area.dispatchEvent(new Event('input', { bubbles: true }));
+  }, size);
+  await page.waitForFunction(() => document.querySelector('output[name=tau_s]').dataset.value !== '');
+  await page.waitForTimeout(500);
+  const edits = await page.evaluate(async () => {
+    const frame = () => new Promise((r) => requestAnimationFrame(() => r()));
+    const out = { compute: [], draw: [] };
+    const area = document.querySelector('[name=data]');
+    const lines = area.value.split('\n');
+    for (let i = 0; i < 42; i++) {
+      const before = document.body.dataset.drawnAt;
+      const cells = lines[5].split(',');
+      cells[1] = String(Number(cells[1]) + (i % 2 === 0 ? 1 : -1));
+      lines[5] = cells.join(',');
+      area.value = lines.join('\n');
+      area.dispatchEvent(new Event('input', { bubbles: true }));
+      while (document.body.dataset.drawnAt === before) await frame();
+      if (i < 2) continue;
+      out.compute.push(Number(document.body.dataset.computeMs));
+      out.draw.push(Number(document.body.dataset.drawMs));
+      await frame();
+    }
+    return out;
+  });
+  const work = edits.compute.map((c, i) => c + edits.draw[i]);
+  rows.push([`characterize.html, ${size.toLocaleString('en-US')} rows of counts (every tr distinct): one edit, recompute / redraw (medians of 40)`,
+    `${median(edits.compute).toFixed(1)} ms / ${median(edits.draw).toFixed(1)} ms: ${median(work).toFixed(1)} ms of work, ` +
+    `${(100 * median(work) / (1000 / 60)).toFixed(0)} % of a 60 Hz frame`]);
+  await context.close();
+}
+// Pasting 3.2 MB of design (100,000 rows) into the budget page: from the paste to the
+// results and the table on screen.
+for (const size of only === '' || only === 'budget' ? [100000] : []) {
+  const { context, page } = await open(browser, fileUrl('budget.html'));
+  const took = await page.evaluate(async (size) => {
+    const clocks = ['1.2GHz', '400MHz', '125MHz'];
+    const rates = ['1kHz', '1MHz', '20MHz', '100MHz'];
+    let t = 'name,fclk,fdata,stages,count\n';
+    for (let i = 0; i < size; i++) t += `crossing_${i},${clocks[i % 3]},${rates[i % 4]},${[2, 2, 2, 3][i % 4]},${[1, 1, 8, 32][i % 4]}\n`;
+    const area = document.querySelector('[name=design]');
+    const before = document.body.dataset.drawnAt;
+    const t0 = performance.now();
+    area.value = t;
+    area.dispatchEvent(new Event('input', { bubbles: true }));
+    const frame = () => new Promise((r) => requestAnimationFrame(() => r()));
+    while (document.body.dataset.drawnAt === before) await frame();
+    return { ms: performance.now() - t0, chars: t.length };
+  }, size);
+  rows.push([`budget.html, pasting ${(took.chars / 1e6).toFixed(1)} MB (${size.toLocaleString('en-US')} rows) to results and plots on screen`,
+    `${took.ms.toFixed(0)} ms`]);
+  await context.close();
+}
+for (const size of only === '' || only === 'budget' ? [1000, 10000] : []) {
   const label = `budget.html, ${size.toLocaleString('en-US')}-row design`;
   const { context, page } = await open(browser, fileUrl('budget.html'));
   await page.evaluate((size) => {
