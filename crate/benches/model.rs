@@ -127,6 +127,10 @@ fn bench(c: &mut Criterion) {
         b.iter(|| BudgetCalculator::evaluate(black_box(&case)))
     });
     g.bench_function("fix_plan", |b| b.iter(|| black_box(&case).rollup.fix(1.0)));
+    let report = BudgetCalculator::evaluate(&case);
+    g.bench_function("json_report", |b| {
+        b.iter(|| serde_json::to_vec_pretty(black_box(&report)).unwrap())
+    });
     g.bench_function("percentiles", |b| {
         b.iter(|| black_box(&case).rollup.percentiles(0.05, 0.3, &[0.5, 0.95]))
     });

@@ -3,6 +3,8 @@
 
 use std::borrow::Cow;
 use std::io::Write;
+
+use serde_json::ser::{Formatter, PrettyFormatter};
 use std::process::ExitCode;
 
 use latchwise::calculator::{Calculator, Outcome, Visit};
@@ -108,15 +110,9 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
     let report = C::evaluate(&case);
     let outcome = C::outcome(&report);
     if parsed.json {
-        match serde_json::to_string_pretty(&report) {
-            Ok(mut s) => {
-                s.push('\n');
-                say_json(&s);
-            }
-            Err(e) => {
-                complain(&format!("latchwise {name}: cannot write JSON: {e}"));
-                return ExitCode::from(EXIT_BAD_INPUT);
-            }
+        if let Err(e) = say_json(&report) {
+            complain(&format!("latchwise {name}: cannot write JSON: {e}"));
+            return ExitCode::from(EXIT_BAD_INPUT);
         }
     } else {
         say(&text_report(C::TITLE, &outcome));
@@ -133,14 +129,6 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
 /// usual case) is passed through as it is, without a copy.
 pub fn clean(text: &str) -> Cow<'_, str> {
     escape_controls(text, |c, out| out.extend(c.escape_unicode()))
-}
-
-/// JSON text with the control characters that JSON strings may hold raw (DEL and the C1
-/// range; serde_json escapes the rest) written as `\u` escapes, which keep it valid JSON.
-pub fn clean_json(text: &str) -> Cow<'_, str> {
-    escape_controls(text, |c, out| {
-        out.push_str(&format!("\\u{:04x}", u32::from(c)))
-    })
 }
 
 /// `text` with `escape` applied to each control character other than a line break or a
@@ -168,9 +156,79 @@ pub fn say(text: &str) {
     write_out(&clean(text));
 }
 
-/// Writes JSON text to standard output (see [`clean_json`]).
-pub fn say_json(text: &str) {
-    write_out(&clean_json(text));
+/// Writes `value` as pretty JSON to standard output as it is serialised (no copy of the
+/// whole text), with the control characters that JSON strings may hold raw (DEL and the
+/// C1 range; serde_json escapes the rest) written as `\\u` escapes, which keep it valid
+/// JSON and inert on a terminal. A reader that has gone away ends the output quietly.
+///
+/// # Errors
+/// A value that cannot be serialised.
+pub fn say_json(value: &impl serde::Serialize) -> Result<(), serde_json::Error> {
+    let out = std::io::BufWriter::with_capacity(1 << 16, std::io::stdout().lock());
+    let mut ser = serde_json::Serializer::with_formatter(out, Inert(PrettyFormatter::new()));
+    match value.serialize(&mut ser) {
+        Err(e) if e.is_io() => return Ok(()),
+        r => r?,
+    }
+    let mut out = ser.into_inner();
+    let _ = out.write_all(b"\n").and_then(|()| out.flush());
+    Ok(())
+}
+
+/// Pretty JSON whose strings carry no raw DEL or C1 control character.
+struct Inert(PrettyFormatter<'static>);
+
+impl Formatter for Inert {
+    fn write_string_fragment<W: ?Sized + Write>(
+        &mut self,
+        w: &mut W,
+        fragment: &str,
+    ) -> std::io::Result<()> {
+        let risky = |c: char| c == '\u{7f}' || ('\u{80}'..='\u{9f}').contains(&c);
+        let mut rest = fragment;
+        while let Some(at) = rest.find(risky) {
+            w.write_all(&rest.as_bytes()[..at])?;
+            let c = rest[at..].chars().next().unwrap_or(' ');
+            write!(w, "\\u{:04x}", u32::from(c))?;
+            rest = &rest[at + c.len_utf8()..];
+        }
+        w.write_all(rest.as_bytes())
+    }
+    fn begin_array<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.begin_array(w)
+    }
+    fn end_array<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.end_array(w)
+    }
+    fn begin_array_value<W: ?Sized + Write>(
+        &mut self,
+        w: &mut W,
+        first: bool,
+    ) -> std::io::Result<()> {
+        self.0.begin_array_value(w, first)
+    }
+    fn end_array_value<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.end_array_value(w)
+    }
+    fn begin_object<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.begin_object(w)
+    }
+    fn end_object<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.end_object(w)
+    }
+    fn begin_object_key<W: ?Sized + Write>(
+        &mut self,
+        w: &mut W,
+        first: bool,
+    ) -> std::io::Result<()> {
+        self.0.begin_object_key(w, first)
+    }
+    fn begin_object_value<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.begin_object_value(w)
+    }
+    fn end_object_value<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
+        self.0.end_object_value(w)
+    }
 }
 
 fn write_out(text: &str) {
