@@ -363,10 +363,36 @@ fn compact_queries_pack_only_long_table_values() {
     let packed = pack_pairs(RawInputs::from_query(&q).pairs(), &["design", "corners"]);
     assert!(packed.starts_with("tau=20+ps&design=~1"), "{packed}");
     assert!(packed.len() < q.len() / 3);
-    let back = RawInputs::from_query(&packed);
+    let back = RawInputs::from_query(&packed).unpack_tables(&["design", "corners"]);
     assert_eq!(back.get("design"), Some(design.as_str()));
     assert_eq!(back.get("tau"), Some("20 ps"));
     // A short value stays readable.
     let short = RawInputs::from_query("design=a%2Cb");
     assert_eq!(pack_pairs(short.pairs(), &["design"]), "design=a%2Cb");
+}
+
+/// Only a calculator's data tables unpack: a 22 kB link that packs 16 MiB into `tau` is
+/// refused as the text it is, without unpacking it (it once froze the page for 10 s and
+/// printed 16.8 MB), on the page's reader and the command's.
+#[test]
+fn a_packed_value_outside_a_table_is_never_unpacked() {
+    use latchwise::calculator::query_inputs;
+    use latchwise::synchronizer::SyncCalculator;
+    let bomb = latchwise::link::pack(&"9".repeat((16 << 20) - 64));
+    assert!(bomb.len() < 40_000, "{}", bomb.len());
+    let q = format!("tau={bomb}&tw=40ps&fclk=1GHz&fdata=100MHz&stages=2&tsu=30ps&tcq=50ps");
+    let raw = query_inputs::<SyncCalculator>(&q);
+    assert_eq!(raw.get("tau"), Some(bomb.as_str()));
+    let e = <SyncCalculator as latchwise::calculator::Calculator>::read(&raw)
+        .err()
+        .unwrap();
+    assert!(e.to_string().contains("is not a number"), "{e}");
+    let out = latchwise(&["sync", "--from-url", &format!("?{q}")]);
+    assert_eq!(out.status.code(), Some(2));
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        err.contains("tau: '~1") && err.contains("is not a number"),
+        "{err}"
+    );
+    assert!(err.len() < 1000, "{} bytes", err.len());
 }

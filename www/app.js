@@ -312,9 +312,9 @@
   var saveTimer = null;
 
   // What a link or storage can hold and read back: a packed table unpacks to at most
-  // 16 MiB (the core's link::MOST_UNPACKED), and browsers keep links of about 2 million
+  // 4 MiB (the core's link::MOST_UNPACKED), and browsers keep links of about 2 million
   // characters at most (Chromium's limit; common practice for the others).
-  var UNPACKED_MOST = 16 * 1024 * 1024;
+  var UNPACKED_MOST = 4 * 1024 * 1024;
   var URL_MOST_CHARS = 2000000;
   // Where the last case could not be kept: a stored note read at the next load.
   var lostKey = storeKey + ':not-kept';
@@ -346,7 +346,7 @@
     var kept = !big && store(storeKey, c);
     var why = [];
     if (big) {
-      why.push('the case holds ' + (q.length / 1048576).toFixed(1) + ' MiB of text, more than the 16 MiB a link or this browser\'s storage can read back');
+      why.push('the case holds ' + (q.length / 1048576).toFixed(1) + ' MiB of text, more than the 4 MiB a link or this browser\'s storage carries (about 130,000 design rows)');
     } else {
       if (!inLink) why.push('its link would be ' + c.length.toLocaleString('en') + ' characters, beyond what browsers keep (about 2 million)');
       if (!kept) why.push('this browser\'s storage did not take it (storage is off, or its quota is full)');

@@ -95,7 +95,11 @@ pub fn parse(
                     if url.is_some() {
                         return Err("--from-url given twice".into());
                     }
-                    url = Some(RawInputs::from_query(&value).renamed(aliases));
+                    url = Some(
+                        RawInputs::from_query(&value)
+                            .renamed(aliases)
+                            .unpack_tables(&latchwise::calculator::table_fields(fields)),
+                    );
                 } else if fields.iter().any(|f| f.name == name) {
                     // A second value would silently win over the first: refuse it.
                     if explicit.iter().any(|(k, _)| k == name) {

@@ -166,7 +166,18 @@ impl About {
 
 /// The raw inputs of a link's query for calculator `C`: old names read as their new ones.
 pub fn query_inputs<C: Calculator>(query: &str) -> RawInputs {
-    RawInputs::from_query(query).renamed(C::ALIASES)
+    RawInputs::from_query(query)
+        .renamed(C::ALIASES)
+        .unpack_tables(&table_fields(C::FIELDS))
+}
+
+/// The names of the data-table fields among `fields` (the ones a link may pack).
+pub fn table_fields(fields: &[FieldSpec]) -> Vec<&'static str> {
+    fields
+        .iter()
+        .filter(|f| f.dim == crate::units::Dim::Text)
+        .map(|f| f.name)
+        .collect()
 }
 
 /// The CSV of plot `plot` (its canvas id) of the case `raw` describes, opening with the
@@ -192,12 +203,11 @@ pub fn plot_csv<C: Calculator>(raw: &RawInputs, plot: &str, link: &str) -> Optio
 /// A link's query for calculator `C` with its long text values (data tables) packed,
 /// where that makes them shorter (see [`crate::link`]).
 pub fn compact_query<C: Calculator>(query: &str) -> String {
-    let texts: Vec<&str> = C::FIELDS
-        .iter()
-        .filter(|f| f.dim == crate::units::Dim::Text)
-        .map(|f| f.name)
-        .collect();
-    crate::link::pack_pairs(RawInputs::from_query(query).pairs(), &texts)
+    let texts = table_fields(C::FIELDS);
+    crate::link::pack_pairs(
+        RawInputs::from_query(query).unpack_tables(&texts).pairs(),
+        &texts,
+    )
 }
 
 /// Something to do with a calculator chosen by name at run time (see

@@ -116,19 +116,26 @@ impl RawInputs {
         };
         RawInputs::from_pairs(query.split('&').filter(|p| !p.is_empty()).map(|p| {
             match p.split_once('=') {
-                Some((k, v)) => {
-                    // A packed value unpacks here; a damaged one stays as it is and is
-                    // refused, with the reason, when its field is read.
-                    let v = percent_decode(v);
-                    let v = match crate::link::unpack(&v) {
-                        Some(Ok(text)) => text,
-                        _ => v,
-                    };
-                    (percent_decode(k), v)
-                }
+                Some((k, v)) => (percent_decode(k), percent_decode(v)),
                 None => (percent_decode(p), String::new()),
             }
         }))
+    }
+
+    /// The same inputs with the packed values of the fields `names` (a calculator's data
+    /// tables) unpacked (see [`crate::link`]). A damaged one stays as it is and is
+    /// refused, with the reason, when its field is read; a packed value in any other
+    /// field is never unpacked (a 22 kB link cannot put 16 MiB into `tau`), and is
+    /// refused as the text it is.
+    pub fn unpack_tables(mut self, names: &[&str]) -> Self {
+        for (k, v) in &mut self.pairs {
+            if names.contains(&k.as_str()) {
+                if let Some(Ok(text)) = crate::link::unpack(v) {
+                    *v = text;
+                }
+            }
+        }
+        self
     }
 
     /// The text given for `name` (the last one wins), if any.
@@ -230,9 +237,12 @@ impl<'a> FieldReader<'a> {
     /// A packed value that could not be unpacked (see [`crate::link`]) is an error.
     pub fn text(&mut self, spec: &FieldSpec) -> Option<&'a str> {
         let text = self.raw.get_nonblank(spec.name).map(str::trim)?;
-        if let Some(Err(why)) = crate::link::unpack(text) {
-            self.push(ParamError::new(spec.name, ParamErrorKind::Damaged(why)));
-            return None;
+        // A data table still packed here is one that did not unpack: say why.
+        if spec.dim == Dim::Text && text.starts_with(crate::link::MARK) {
+            if let Some(Err(why)) = crate::link::unpack(text) {
+                self.push(ParamError::new(spec.name, ParamErrorKind::Damaged(why)));
+                return None;
+            }
         }
         Some(text)
     }

@@ -13,6 +13,10 @@ import path from 'node:path';
  * the last bit; the sine model sums thousands of asin terms, and the counts fit takes
  * Newton steps on exp and ln sums: page against CLI, relative. */
 export const WASM_LIBM_REL = 1e-13;
+/** The counts fit's goodness of fit: its deviance sums terms k (ln k - ln mu) - (k - mu)
+ * that cancel to a total about a thousand times smaller than the terms, so those same
+ * last-bit differences grow by that much before the chi-squared tail: relative. */
+export const WASM_DEVIANCE_REL = 1e-10;
 /** A canvas's backing pixels per CSS pixel round to whole pixels: 0.02 at 300 px. */
 export const CANVAS_RATIO_ABS = 0.02;
 
