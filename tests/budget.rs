@@ -703,3 +703,19 @@ fn table_cells_are_held_to_the_field_limits() {
         &e[e.len() - 200..]
     );
 }
+
+/// Every crossing has a name of its own: a repeated name is refused with both lines (the
+/// fix plan once printed "a to 3 stages, a to 3 stages").
+#[test]
+fn a_repeated_crossing_name_is_refused_with_both_lines() {
+    let e = budget(
+        "name,fclk,fdata,stages\na,1GHz,1MHz,2\nb,1GHz,1MHz,2\n# note\na,1GHz,1MHz,3\n",
+        Some(&example("budget-corners.csv")),
+        &[],
+    )
+    .unwrap_err();
+    assert!(
+        e.contains("design, line 5, column name: 'a' names line 2 already"),
+        "{e}"
+    );
+}

@@ -237,8 +237,19 @@ impl BudgetCase {
         let mut row_stages = Vec::with_capacity(table.len());
         let mut counts = Vec::with_capacity(table.len());
         let mut tr_given = Vec::with_capacity(table.len());
+        // Each crossing by its own name: the fix plan and the results name rows.
+        let mut first_line: std::collections::HashMap<&str, usize> = Default::default();
         for (i, line) in table.lines.iter().enumerate() {
             let here = |m: String| format!("design, line {line}, {m}");
+            if let Some(name) = names.get(i).filter(|n| !n.is_empty()) {
+                if let Some(first) = first_line.insert(name.as_str(), *line) {
+                    first_line.insert(name.as_str(), first);
+                    problems.push(here(format!(
+                        "column name: '{}' names line {first} already: each crossing needs a name of its own",
+                        crate::error::short(name)
+                    )));
+                }
+            }
             let (Some(fc), Some(fd)) = (at(&fclk, i), at(&fdata, i)) else {
                 continue;
             };
@@ -284,7 +295,8 @@ impl BudgetCase {
                     at(&tcq, i).or(c.tcq).unwrap_or(0.0)
                 };
                 let hop = 1.0 / fc - tsu_v - tcq_v;
-                if trv.is_none() && st.unwrap_or(1.0) > 1.0 && hop <= 0.0 {
+                // As the synchronizer: even one flip-flop needs tsu + tcq within a period.
+                if trv.is_none() && hop <= 0.0 {
                     problems.push(here(format!(
                         "corner {}: the clock period {} is not longer than tsu + tcq = {}",
                         c.name,
