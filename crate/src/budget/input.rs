@@ -238,7 +238,8 @@ impl BudgetCase {
         let mut counts = Vec::with_capacity(table.len());
         let mut tr_given = Vec::with_capacity(table.len());
         // Each crossing by its own name: the fix plan and the results name rows.
-        let mut first_line: std::collections::HashMap<&str, usize> = Default::default();
+        let mut first_line: std::collections::HashMap<&str, usize> =
+            std::collections::HashMap::with_capacity(table.len());
         for (i, line) in table.lines.iter().enumerate() {
             let here = |m: String| format!("design, line {line}, {m}");
             if let Some(name) = names.get(i).filter(|n| !n.is_empty()) {
