@@ -81,6 +81,16 @@ pub const TW_SIGMA: FieldSpec = FieldSpec {
     usual: (0.01, 1.0),
 };
 
+/// Which statistic of the worst total decides the verdict.
+pub const SIGNOFF: FieldSpec = FieldSpec {
+    name: "signoff",
+    dim: Dim::Choice,
+    help: "the figure the verdict, exit status and fix plan use: p95 (the 95th percentile \
+           under the sigmas; the default when a sigma is given) or nominal",
+    limits: (0.0, 0.0),
+    usual: (0.0, 0.0),
+};
+
 /// The input fields of the budget, in display order.
 pub const FIELDS: &[FieldSpec] = &[
     DESIGN,
@@ -95,4 +105,5 @@ pub const FIELDS: &[FieldSpec] = &[
     SERVICE_YEARS,
     TAU_SIGMA,
     TW_SIGMA,
+    SIGNOFF,
 ];

@@ -10,7 +10,8 @@ use crate::table::{read, Column};
 use crate::units::{format_si, Dim};
 
 use super::fields::{
-    BUDGET_FIT, CORNERS, DESIGN, DEVICES, SERVICE_YEARS, T0, TAU, TAU_SIGMA, TCQ, TSU, TW, TW_SIGMA,
+    BUDGET_FIT, CORNERS, DESIGN, DEVICES, SERVICE_YEARS, SIGNOFF, T0, TAU, TAU_SIGMA, TCQ, TSU, TW,
+    TW_SIGMA,
 };
 use super::rollup::{Cell, Rollup, MAX_STAGES};
 
@@ -51,6 +52,9 @@ pub struct BudgetCase {
     pub fleet: Option<Fleet>,
     /// Standard deviations of ln tau and ln tw, when given.
     pub sigmas: Option<(f64, f64)>,
+    /// Whether the verdict, exit status and fix plan use the 95th percentile (the default
+    /// with sigmas; else the nominal total).
+    pub signoff_p95: bool,
 }
 
 /// The design's columns: each a synchronizer field, with that field's limits.
@@ -210,6 +214,30 @@ impl BudgetCase {
                 a.zip(b)
             }
         };
+        let signoff_p95 = match r.text(&SIGNOFF).map(str::to_ascii_lowercase).as_deref() {
+            None => r.has(&TAU_SIGMA) || r.has(&TW_SIGMA),
+            Some("nominal") => false,
+            Some("p95") if r.has(&TAU_SIGMA) || r.has(&TW_SIGMA) => true,
+            Some("p95") => {
+                r.push(ParamError::new(
+                    SIGNOFF.name,
+                    ParamErrorKind::Unfittable(
+                        "p95 needs the uncertainty: give tau-sigma or tw-sigma".to_string(),
+                    ),
+                ));
+                false
+            }
+            Some(other) => {
+                r.push(ParamError::new(
+                    SIGNOFF.name,
+                    ParamErrorKind::UnknownChoice {
+                        text: other.to_string(),
+                        choices: "p95, nominal",
+                    },
+                ));
+                false
+            }
+        };
         let Some(text) = r.text(&DESIGN) else {
             r.push(ParamError::new(DESIGN.name, ParamErrorKind::Missing));
             return Err(r.into_errors());
@@ -335,6 +363,7 @@ impl BudgetCase {
             budget_fit,
             fleet,
             sigmas,
+            signoff_p95,
         })
     }
 }
