@@ -2,12 +2,13 @@
 
 use std::io::Read;
 
+use latchwise::digest::Sha256;
 use latchwise::params::{FieldSpec, RawInputs};
 use latchwise::units::Dim;
 
 /// The text of a file operand (`-`: standard input), decoded as the page decodes a file:
-/// UTF-8 or UTF-16 with a byte-order mark, any line ends.
-fn read_file(path: &str) -> Result<String, String> {
+/// UTF-8 or UTF-16 with a byte-order mark, any line ends. Its bytes go into `stamp`.
+fn read_file(path: &str, stamp: &mut Sha256) -> Result<String, String> {
     let mut bytes = Vec::new();
     let result = if path == "-" {
         std::io::stdin().read_to_end(&mut bytes).map(|_| ())
@@ -17,8 +18,17 @@ fn read_file(path: &str) -> Result<String, String> {
     result
         .map_err(|e| format!("cannot read '{path}': {e}"))
         .and_then(|()| {
+            feed(stamp, b"file", &bytes);
             latchwise::table::decode(&bytes).map_err(|e| format!("cannot read '{path}': {e}"))
         })
+}
+
+/// One piece of the audit stamp: a tag, the length and the bytes (so that no two
+/// different sequences of pieces run together into the same bytes).
+fn feed(stamp: &mut Sha256, tag: &[u8], bytes: &[u8]) {
+    stamp.update(tag);
+    stamp.update(&(bytes.len() as u64).to_be_bytes());
+    stamp.update(bytes);
 }
 
 /// The most unknown link parameters named in a note; the rest are counted.
@@ -37,6 +47,8 @@ pub struct Parsed {
     pub ignored: Vec<String>,
     /// How many distinct unknown keys `--from-url` had in all.
     pub ignored_total: usize,
+    /// SHA-256 of the arguments as written, each file's bytes in place of its path.
+    pub input_sha256: String,
 }
 
 /// Parses `args` against `fields`, reading old names as `aliases` say.
@@ -53,6 +65,7 @@ pub fn parse(
     let mut url: Option<RawInputs> = None;
     let mut explicit: Vec<(String, String)> = Vec::new();
     let mut positional = operands.iter();
+    let mut stamp = Sha256::default();
     let mut i = 0;
     while i < args.len() {
         let a = &args[i];
@@ -62,7 +75,12 @@ pub fn parse(
                 return Err(format!("unexpected argument '{a}' (options start with --)"));
             };
             let is_file = fields.iter().any(|f| f.name == *name && f.dim == Dim::Text);
-            let value = if is_file { read_file(a)? } else { a.clone() };
+            let value = if is_file {
+                read_file(a, &mut stamp)?
+            } else {
+                feed(&mut stamp, b"operand", a.as_bytes());
+                a.clone()
+            };
             explicit.push(((*name).to_string(), value));
             continue;
         };
@@ -78,6 +96,7 @@ pub fn parse(
             "json" | "help" if inline.is_some() => {
                 return Err(format!("--{name} takes no value"));
             }
+            // How the report is written, not what it says: not part of the stamp.
             "json" => out.json = true,
             "help" => out.help = true,
             _ => {
@@ -92,6 +111,7 @@ pub fn parse(
                     },
                 };
                 if name == "from-url" {
+                    feed(&mut stamp, b"link", value.as_bytes());
                     if url.is_some() {
                         return Err("--from-url given twice".into());
                     }
@@ -107,7 +127,13 @@ pub fn parse(
                     }
                     // A text field (a table) is given on the command line as a file.
                     let is_file = fields.iter().any(|f| f.name == name && f.dim == Dim::Text);
-                    let value = if is_file { read_file(&value)? } else { value };
+                    feed(&mut stamp, b"option", name.as_bytes());
+                    let value = if is_file {
+                        read_file(&value, &mut stamp)?
+                    } else {
+                        feed(&mut stamp, b"value", value.as_bytes());
+                        value
+                    };
                     explicit.push((name.to_string(), value));
                 } else {
                     return Err(format!(
@@ -134,6 +160,7 @@ pub fn parse(
     }
     pairs.extend(explicit);
     out.raw = RawInputs::from_pairs(pairs);
+    out.input_sha256 = stamp.hex();
     Ok(out)
 }
 

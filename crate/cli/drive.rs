@@ -110,7 +110,20 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
     let report = C::evaluate(&case);
     let outcome = C::outcome(&report);
     if parsed.json {
-        if let Err(e) = say_json(&report) {
+        // The report with its audit stamp: the version and the inputs' digest first.
+        #[derive(serde::Serialize)]
+        struct Stamped<'a, R: serde::Serialize> {
+            version: &'static str,
+            input_sha256: &'a str,
+            #[serde(flatten)]
+            report: &'a R,
+        }
+        let stamped = Stamped {
+            version: env!("CARGO_PKG_VERSION"),
+            input_sha256: &parsed.input_sha256,
+            report: &report,
+        };
+        if let Err(e) = say_json(&stamped) {
             complain(&format!("latchwise {name}: cannot write JSON: {e}"));
             return ExitCode::from(EXIT_BAD_INPUT);
         }

@@ -85,6 +85,12 @@ test('design and corners round-trip through CSV files; the JSON export is the co
     '--budget-fit', '10', '--tau-sigma', '0.05', '--tw-sigma', '0.3']);
   // Same keys, same text; numbers to 1e-12 relative (the page's exp and log are the
   // WebAssembly build's, which may differ from the native ones in the last bit).
+  // The command's audit stamp stands beside its report; the page's export has the
+  // version beside its report too, and the link in place of the files' digest.
+  assert.equal(doc.version, want.version);
+  assert.match(want.input_sha256, /^[0-9a-f]{64}$/);
+  delete want.version;
+  delete want.input_sha256;
   assertClose(doc.report, want, 'report');
   assert.equal(doc.calculator, 'budget');
   assert.match(doc.link, /budget\.html\?/);
