@@ -965,3 +965,104 @@ fn the_json_carries_the_version_and_the_inputs_digest() {
     );
     std::fs::remove_dir_all(&dir).ok();
 }
+
+/// `--results` writes every crossing at every corner: against the JSON (the worst
+/// corner's rows, the fix plan's stages and flip-flops), and each corner's rows summed
+/// against the mpmath totals of `tests/fixtures/budget_reference.csv`.
+#[test]
+fn the_results_csv_has_every_crossing_at_every_corner() {
+    let root = env!("CARGO_MANIFEST_DIR");
+    let file = std::env::temp_dir().join(format!("latchwise-results-{}.csv", std::process::id()));
+    let out = Command::new(env!("CARGO_BIN_EXE_latchwise"))
+        .args([
+            "budget",
+            &format!("{root}/examples/budget-design.csv"),
+            "--corners",
+            &format!("{root}/examples/budget-corners.csv"),
+            "--budget-fit",
+            "10",
+            "--json",
+            "--results",
+        ])
+        .arg(&file)
+        .output()
+        .unwrap();
+    let v: Value = serde_json::from_slice(&out.stdout).unwrap();
+    let csv = std::fs::read_to_string(&file).unwrap();
+    std::fs::remove_file(&file).ok();
+    let mut lines = csv.lines();
+    assert_eq!(
+        lines.next(),
+        Some("name,corner,log10_fit,fit,share,stages,stages_after_fix,flip_flops_added")
+    );
+    let rows: Vec<Vec<String>> = lines.map(|l| latchwise::table::split(l, ',')).collect();
+    let json_rows = v["rows"].as_array().unwrap();
+    assert_eq!(rows.len(), 3 * json_rows.len());
+    let worst = v["worst_corner"].as_str().unwrap();
+    let fix = v["fix"].as_array().unwrap();
+    for row in rows.iter().filter(|r| r[1] == worst) {
+        let j = json_rows.iter().find(|j| j["name"] == row[0]).unwrap();
+        // The same f64, though serde_json's default float reading may land one unit in
+        // the last place off.
+        let (a, b) = (
+            row[2].parse::<f64>().unwrap(),
+            j["log10_fit"].as_f64().unwrap(),
+        );
+        assert!(
+            (a - b).abs() <= F64_REL * b.abs().max(1.0),
+            "{row:?}: {a} against {b}"
+        );
+        // The CSV's share is 10^(row - corner total), the JSON's the row over the sum of
+        // rows relative to the largest: two f64 forms of one quantity.
+        let (a, b) = (row[4].parse::<f64>().unwrap(), j["share"].as_f64().unwrap());
+        assert!(
+            (a - b).abs() <= F64_REL * b.max(1e-300),
+            "{row:?}: {a} against {b}"
+        );
+        let planned = fix.iter().find(|f| f["name"] == row[0]);
+        let after: u32 = row[6].parse().unwrap();
+        assert_eq!(
+            after,
+            planned.map_or(
+                j["stages"].as_u64().unwrap() as u32,
+                |f| f["stages"].as_u64().unwrap() as u32
+            )
+        );
+        let added: f64 = row[7].parse().unwrap();
+        assert_eq!(
+            added,
+            planned.map_or(0.0, |f| f["added_flip_flops"].as_f64().unwrap())
+        );
+        // fit is 10^log10_fit to ten digits.
+        let (fit, log) = (
+            row[3].parse::<f64>().unwrap(),
+            row[2].parse::<f64>().unwrap(),
+        );
+        assert!((fit.log10() - log).abs() < 1e-9, "{row:?}");
+    }
+    for line in table_rows(include_str!("fixtures/budget_reference.csv")) {
+        let (corner, want) = line.split_once(',').unwrap();
+        let logs: Vec<f64> = rows
+            .iter()
+            .filter(|r| r[1] == corner)
+            .map(|r| r[2].parse().unwrap())
+            .collect();
+        let top = logs.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+        let sum = top
+            + logs
+                .iter()
+                .map(|l| 10f64.powf(l - top))
+                .sum::<f64>()
+                .log10();
+        assert_log10(corner, sum, want.parse().unwrap());
+        let shares: f64 = rows
+            .iter()
+            .filter(|r| r[1] == corner)
+            .map(|r| r[4].parse::<f64>().unwrap())
+            .sum();
+        assert!(
+            (shares - 1.0).abs() < 1e-12,
+            "{corner}: shares add to {shares}"
+        );
+    }
+}

@@ -581,6 +581,12 @@
       if (t.dataset.csv) {
         var text = wasm_bindgen.csv(page, query(), t.dataset.csv, link());
         if (text) download(t.dataset.csv + '.csv', new Blob([text], { type: 'text/csv' }));
+      } else if (t.dataset.results !== undefined) {
+        // Every row at every corner, as the command's --results writes it.
+        flushGrids();
+        var rows = wasm_bindgen.results_csv(page, query());
+        if (rows) download(page + '-results.csv', new Blob([rows], { type: 'text/csv' }));
+        else note('There are no results to export until the inputs are valid.');
       } else if (t.dataset.png) {
         try { png(t.dataset.png); } catch (err) { fatal('Internal error while exporting: ' + err); }
       } else if (t.dataset.save) {

@@ -49,6 +49,8 @@ pub struct Parsed {
     pub ignored_total: usize,
     /// SHA-256 of the arguments as written, each file's bytes in place of its path.
     pub input_sha256: String,
+    /// `--results FILE`: where to write the results row by row (CSV).
+    pub results: Option<String>,
 }
 
 /// Parses `args` against `fields`, reading old names as `aliases` say.
@@ -110,7 +112,12 @@ pub fn parse(
                         None => return Err(format!("--{name} needs a value")),
                     },
                 };
-                if name == "from-url" {
+                if name == "results" {
+                    // Where the output goes, not an input: not part of the stamp.
+                    if out.results.replace(value).is_some() {
+                        return Err("--results given twice".into());
+                    }
+                } else if name == "from-url" {
                     feed(&mut stamp, b"link", value.as_bytes());
                     if url.is_some() {
                         return Err("--from-url given twice".into());

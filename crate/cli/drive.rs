@@ -109,6 +109,18 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
     }
     let report = C::evaluate(&case);
     let outcome = C::outcome(&report);
+    if let Some(path) = &parsed.results {
+        let Some(csv) = C::results_csv(&case, &report) else {
+            complain(&format!(
+                "latchwise {name}: --results: this command has no rows to write (the budget has)"
+            ));
+            return ExitCode::from(EXIT_BAD_INPUT);
+        };
+        if let Err(e) = std::fs::write(path, csv) {
+            complain(&format!("latchwise {name}: cannot write '{path}': {e}"));
+            return ExitCode::from(EXIT_BAD_INPUT);
+        }
+    }
     if parsed.json {
         // The report with its audit stamp: the version and the inputs' digest first.
         #[derive(serde::Serialize)]

@@ -66,6 +66,12 @@ pub trait Calculator: 'static {
     fn figures(_case: &Self::Case, _report: &Self::Report) -> Vec<RowFigures> {
         Vec::new()
     }
+
+    /// The results row by row as a CSV file, for an audit (`--results FILE`, the page's
+    /// "Results CSV"); `None` for a calculator without rows.
+    fn results_csv(_case: &Self::Case, _report: &Self::Report) -> Option<String> {
+        None
+    }
 }
 
 /// Figures a page shows beside each data row of one of its table fields, in the order of

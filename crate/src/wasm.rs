@@ -352,6 +352,30 @@ pub fn csv(name: &str, query: &str, plot: &str, link: &str) -> Result<String, Js
         .unwrap_or_default())
 }
 
+struct Results<'a>(&'a str);
+
+impl Visit for Results<'_> {
+    type Out = Option<String>;
+
+    fn visit<C: Calculator>(self) -> Option<String> {
+        let case = C::read(&query_inputs::<C>(self.0)).ok()?;
+        let report = C::evaluate(&case);
+        C::results_csv(&case, &report)
+    }
+}
+
+/// Calculator `name`'s results row by row as CSV (the command's `--results`); "" when
+/// the inputs are not valid or the calculator has no rows.
+///
+/// # Errors
+/// An unknown calculator.
+#[wasm_bindgen]
+pub fn results_csv(name: &str, query: &str) -> Result<String, JsError> {
+    Ok(dispatch(name, Results(query))
+        .ok_or_else(|| unknown(name))?
+        .unwrap_or_default())
+}
+
 /// Draws calculator `name`'s plot `plot` into the canvas `canvas` (an export's
 /// off-screen canvas), at `scale` device pixels per CSS pixel. Returns whether it drew.
 ///

@@ -4,6 +4,7 @@ import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import path from 'node:path';
 import fs from 'node:fs';
+import os from 'node:os';
 import { setup, open, fileUrl, outputs, root, cli, fill, inked, settle } from './harness.mjs';
 
 const env = setup({ before, after });
@@ -162,6 +163,28 @@ test('the headline follows the signed-off statistic: the 95th percentile with si
   const want = cli('budget', [path.join(root, 'examples/budget-design.csv'), '--corners', path.join(root, 'examples/budget-corners.csv'),
     '--budget-fit', '1e7', '--tau-sigma', '0.05', '--tw-sigma', '0.3', '--signoff', 'nominal', '--devices', '1e6', '--service-years', '10']);
   assert.equal(Number(out.margin_decades.value), want.margin_decades);
+  assert.deepEqual(problems, []);
+  await context.close();
+});
+
+test('Results CSV: every crossing at every corner, as the command line writes it', async () => {
+  const { context, page, problems } = await open(env.browser, fileUrl('budget.html'));
+  const [dl] = await Promise.all([page.waitForEvent('download'), page.click('[data-results]')]);
+  assert.equal(dl.suggestedFilename(), 'budget-results.csv');
+  const got = fs.readFileSync(await dl.path(), 'utf8').trim().split('\n');
+  const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), 'latchwise-')), 'results.csv');
+  cli('budget', [path.join(root, 'examples/budget-design.csv'), '--corners', path.join(root, 'examples/budget-corners.csv'),
+    '--budget-fit', '10', '--tau-sigma', '0.05', '--tw-sigma', '0.3', '--devices', '1e6', '--service-years', '10', '--results', file]);
+  const want = fs.readFileSync(file, 'utf8').trim().split('\n');
+  assert.equal(got.length, want.length);
+  assert.equal(got[0], 'name,corner,log10_fit,fit,share,stages,stages_after_fix,flip_flops_added');
+  for (let i = 1; i < want.length; i++) {
+    const [g, w] = [got[i].split(','), want[i].split(',')];
+    assert.deepEqual([g[0], g[1], g[5], g[6], g[7]], [w[0], w[1], w[5], w[6], w[7]], want[i]);
+    for (const c of [2, 4]) {
+      assert.ok(Math.abs(Number(g[c]) - Number(w[c])) <= 1e-12 * Math.max(1, Math.abs(Number(w[c]))), `${got[i]} against ${want[i]}`);
+    }
+  }
   assert.deepEqual(problems, []);
   await context.close();
 });

@@ -32,7 +32,8 @@ impl Calculator for BudgetCalculator {
     const HELP: &'static str = "\
 Usage: latchwise budget DESIGN.csv [--corners FILE | --tau T --tw W|--t0 W --tsu T --tcq T]
                         [--budget-fit F] [--devices N --service-years Y]
-                        [--tau-sigma S --tw-sigma S] [--json]
+                        [--tau-sigma S --tw-sigma S] [--signoff p95|nominal]
+                        [--results FILE.csv] [--json]
 
 DESIGN.csv: one row per crossing: name, fclk, fdata, stages or tr, count (instances,
 default 1: a 32-bit bus synchronized bit by bit counts 32); optional tau, tw or t0, tsu,
@@ -46,7 +47,12 @@ With a budget, the fix plan adds stages where they remove the most FIT per added
 flip-flop, one at a time, until every corner is within the budget (rows given by tr are
 left alone). --tau-sigma and --tw-sigma are the standard deviations of ln tau and ln tw,
 shared by every row; the report gives the median and the 95th percentile of the worst
-total, computed exactly by quadrature: sign off with the 95th percentile.
+total by quadrature, and the 95th percentile then decides the verdict, the exit status
+and the fix plan (--signoff nominal: the nominal total decides instead).
+
+--results FILE.csv writes every crossing at every corner: name, corner, log10_fit, fit,
+share (of that corner's total), stages, stages_after_fix, flip_flops_added. The JSON
+opens with version and input_sha256 (a digest of the arguments and the files' bytes).
 
 Example:
   latchwise budget examples/budget-design.csv --corners examples/budget-corners.csv \\
@@ -74,5 +80,9 @@ Example:
 
     fn figures(case: &BudgetCase, report: &BudgetReport) -> Vec<RowFigures> {
         report::figures(case, report)
+    }
+
+    fn results_csv(case: &BudgetCase, report: &BudgetReport) -> Option<String> {
+        Some(report::results_csv(case, report))
     }
 }

@@ -310,6 +310,56 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
     }
 }
 
+/// `10^x` written exactly from its log10 (ten significant digits), at any magnitude: a
+/// FIT of 1e-400 is written `1e-400`, not 0.
+fn decimal_of_log10(x: f64) -> String {
+    let e = x.floor();
+    let mut m = exp10(x - e);
+    let mut e = e as i64;
+    // Rounding to ten digits can carry to 10.
+    if format!("{m:.9}").starts_with("10") {
+        m /= 10.0;
+        e += 1;
+    }
+    format!("{m:.9}e{e}")
+}
+
+/// Every crossing at every corner as one CSV: its name, the corner, its FIT (log10 and
+/// plain), its share of that corner's total, its stages now and after the fix plan, and
+/// the flip-flops the plan adds to it. Names are written as a spreadsheet shows text.
+pub fn results_csv(c: &BudgetCase, report: &BudgetReport) -> String {
+    use crate::chart::series::text_cell;
+    let r = &c.rollup;
+    let mut out =
+        String::from("name,corner,log10_fit,fit,share,stages,stages_after_fix,flip_flops_added\n");
+    let after = report.stages_after_fix.as_ref();
+    for (k, corner) in c.corners.iter().enumerate() {
+        let fits = r.row_fits(k, &r.stages);
+        let total = report.corners[k].log10_total_fit;
+        for (i, f) in fits.iter().enumerate() {
+            let now = r.stages[i];
+            let (stages, later) = if c.tr_given[i] {
+                (String::new(), String::new())
+            } else {
+                let later = after.map_or(now, |a| a[i]);
+                (now.to_string(), later.to_string())
+            };
+            let added = match after {
+                Some(a) if !c.tr_given[i] => f64::from(a[i] - now) * r.counts[i],
+                _ => 0.0,
+            };
+            out.push_str(&format!(
+                "{},{},{f:e},{},{:e},{stages},{later},{added}\n",
+                text_cell(&c.names[i]),
+                text_cell(corner),
+                decimal_of_log10(*f),
+                exp10(f - total).min(1.0),
+            ));
+        }
+    }
+    out
+}
+
 /// The figures beside the design's rows (FIT at the worst corner, share, stages after
 /// the fix) and beside the corners' rows (total FIT), for the page's tables.
 pub fn figures(c: &BudgetCase, report: &BudgetReport) -> Vec<RowFigures> {
