@@ -405,3 +405,69 @@ fn exported_csv_cells_never_start_a_formula() {
         ["# design = a,=b"]
     );
 }
+
+/// The budget's plots show the answer: one 32.768 kHz crossing far below the rest (near
+/// 10^-389803 FIT) no longer stretches the FIT-per-crossing axis; the budget line and the
+/// other rows stay in a span of about a dozen decades, the far row is counted in the
+/// title, and the corners are named on their axis and in their CSV.
+#[test]
+fn one_extreme_row_cannot_flatten_the_budget_plots() {
+    use latchwise::budget::BudgetCalculator;
+    let mut design = String::from("name,fclk,fdata,stages,count\nrtc_tick,32.768kHz,1Hz,3,1\n");
+    for i in 0..25 {
+        design.push_str(&format!("x{i},1GHz,{}MHz,2,{}\n", 1 + i, 1 + i % 4));
+    }
+    let raw = RawInputs::from_pairs([
+        ("design", design),
+        (
+            "corners",
+            "corner,tau,tw,tsu,tcq\ncold,20ps,30ps,30ps,50ps\nhot,15ps,25ps,30ps,50ps\n"
+                .to_string(),
+        ),
+        ("budget-fit", "1e-3".to_string()),
+    ]);
+    let case = BudgetCalculator::read(&raw).unwrap();
+    let report = BudgetCalculator::evaluate(&case);
+    assert!(
+        report.rows[0].log10_fit < -1e5,
+        "{}",
+        report.rows[0].log10_fit
+    );
+    let plots = BudgetCalculator::plots(&case, &report);
+    let rows = plots.iter().find(|p| p.id == "plot-rows").unwrap();
+    assert!(
+        rows.title.contains("the largest 25 of 26") && rows.title.contains("1 below"),
+        "{}",
+        rows.title
+    );
+    let (_, drawn) = svg(rows, Some(-3.0));
+    let (lo, hi) = drawn.y_range;
+    assert!(hi - lo < 16.0, "{lo}..{hi}");
+    assert!(
+        lo < -3.0 && hi > -3.0,
+        "the budget line in view: {lo}..{hi}"
+    );
+    let top = report
+        .rows
+        .iter()
+        .map(|r| r.log10_fit)
+        .fold(f64::NEG_INFINITY, f64::max);
+    assert!(hi >= top, "the largest row in view: {top} in {lo}..{hi}");
+    assert_eq!(drawn.points, 25);
+    // Named: the rows plot's CSV names each point; the corners plot names its axis.
+    let csv = latchwise::calculator::plot_csv::<BudgetCalculator>(&raw, "plot-rows", "").unwrap();
+    assert!(csv.contains("\nname,rank,log10_fit\n\"x"), "{csv}");
+    let corners = plots.iter().find(|p| p.id == "plot-corners").unwrap();
+    let (out, _) = svg(corners, None);
+    let labels = texts(&out);
+    assert!(
+        labels.iter().any(|t| t == "cold") && labels.iter().any(|t| t == "hot"),
+        "{labels:?}"
+    );
+    let csv =
+        latchwise::calculator::plot_csv::<BudgetCalculator>(&raw, "plot-corners", "").unwrap();
+    assert!(
+        csv.contains("\nname,corner,log10_total_fit\n\"cold\",1,"),
+        "{csv}"
+    );
+}

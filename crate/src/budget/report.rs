@@ -17,6 +17,10 @@ use super::input::BudgetCase;
 /// within the budget (each round lowers it by what the percentile still exceeds; two or
 /// three suffice, as the percentile's offset from the nominal total changes little).
 const FIX_ROUNDS_MOST: usize = 30;
+
+/// The most decades the FIT-per-crossing plot shows below the higher of the largest row
+/// and the budget.
+const ROWS_SPAN_DECADES: f64 = 12.0;
 use super::rollup::Rollup;
 
 /// One corner's total.
@@ -574,39 +578,63 @@ const MOST_ROWS_PLOTTED: usize = 500;
 /// with the budget line; the spread of the total under uncertainty when it is asked.
 pub fn plots(c: &BudgetCase, report: &BudgetReport) -> Vec<Plot> {
     let budget = report.budget_fit.map(|b| (b.log10(), "budget".to_string()));
-    let mut fits: Vec<f64> = report.rows.iter().map(|r| r.log10_fit).collect();
-    fits.sort_by(|a, b| b.total_cmp(a));
-    let title = if fits.len() > MOST_ROWS_PLOTTED {
+    let mut order: Vec<usize> = (0..report.rows.len()).collect();
+    order.sort_by(|&a, &b| {
+        report.rows[b]
+            .log10_fit
+            .total_cmp(&report.rows[a].log10_fit)
+    });
+    // The answer in view: the largest row and the budget, and at most ROWS_SPAN_DECADES
+    // below the higher of them; a row far below (a slow clock at 1e-389803 FIT) is
+    // counted in the title, not allowed to flatten the rest onto one edge.
+    let top = order.first().map_or(0.0, |&i| report.rows[i].log10_fit);
+    let floor = top.min(budget.as_ref().map_or(top, |b| b.0)) - 1.0;
+    let floor = floor.min(top.max(budget.as_ref().map_or(top, |b| b.0)) - ROWS_SPAN_DECADES);
+    let shown: Vec<usize> = order
+        .iter()
+        .copied()
+        .filter(|&i| report.rows[i].log10_fit >= floor)
+        .take(MOST_ROWS_PLOTTED)
+        .collect();
+    let below = order
+        .iter()
+        .filter(|&&i| report.rows[i].log10_fit < floor)
+        .count();
+    let mut title = if shown.len() < order.len() {
         format!(
-            "FIT of each crossing, the largest {MOST_ROWS_PLOTTED} of {}",
-            fits.len()
+            "FIT of each crossing, the largest {} of {}",
+            shown.len(),
+            order.len()
         )
     } else {
         "FIT of each crossing, largest first".to_string()
     };
+    if below > 0 {
+        title.push_str(&format!(
+            " ({below} below {} FIT not shown)",
+            format_log10(floor, 2)
+        ));
+    }
     let mut rows = Plot::new("plot-rows", &title, ("rank", "", Spacing::Integer))
         .y("log10_fit", "FIT at the worst corner");
     rows.curves = vec![Curve {
         label: String::new(),
-        points: fits
+        points: shown
             .iter()
-            .take(MOST_ROWS_PLOTTED)
             .enumerate()
-            .map(|(i, f)| ((i + 1) as f64, *f))
+            .map(|(k, &i)| ((k + 1) as f64, report.rows[i].log10_fit))
             .collect(),
         points_only: true,
     }];
+    rows.x_names = shown.iter().map(|&i| report.rows[i].name.clone()).collect();
     rows.hline.clone_from(&budget);
     let mut corners = Plot::new(
         "plot-corners",
         "Total FIT at each corner",
-        (
-            "corner (in the order of the corners table)",
-            "",
-            Spacing::Integer,
-        ),
+        ("corner", "", Spacing::Integer),
     )
     .y("log10_total_fit", "total FIT");
+    corners.x_names = report.corners.iter().map(|k| k.name.clone()).collect();
     corners.curves = vec![Curve {
         label: String::new(),
         points: report

@@ -141,8 +141,24 @@ fn to_axis_x(spacing: Spacing, x: f64) -> f64 {
     }
 }
 
+/// The most named categories an axis labels by name (more would overlap).
+const NAMES_ON_AXIS_MOST: usize = 8;
+
 fn x_label_text(spec: &Plot, x: f64) -> String {
     match spec.spacing {
+        Spacing::Integer
+            if !spec.x_names.is_empty() && spec.x_names.len() <= NAMES_ON_AXIS_MOST =>
+        {
+            let i = (x.round() as usize).wrapping_sub(1);
+            spec.x_names.get(i).map_or(String::new(), |n| {
+                let cut: String = n.chars().take(14).collect();
+                if cut.len() < n.len() {
+                    format!("{cut}…")
+                } else {
+                    cut
+                }
+            })
+        }
         Spacing::Integer => format!("{}", x.round()),
         // A plain quantity (FIT) reads as 1e6, not as 1 M.
         Spacing::Log if spec.x_unit.is_empty() => format_number(10f64.powf(x)),

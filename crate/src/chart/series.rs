@@ -59,6 +59,9 @@ pub struct Plot {
     pub y_log: bool,
     /// Unit symbol of a linear y axis.
     pub y_unit: &'static str,
+    /// Names of the categories at x = 1, 2, ... (an integer axis of named things, such
+    /// as corners): the axis shows them when they are few, and the CSV has them all.
+    pub x_names: Vec<String>,
 }
 
 impl Plot {
@@ -79,6 +82,7 @@ impl Plot {
             y_span_max: None,
             y_log: true,
             y_unit: "",
+            x_names: Vec::new(),
         }
     }
 
@@ -146,11 +150,20 @@ impl Plot {
         if many {
             out.push_str("curve,");
         }
+        let named = !self.x_names.is_empty();
+        if named {
+            out.push_str("name,");
+        }
         out.push_str(&format!("{x_col}{unit},{}\n", self.y_name));
         for c in &self.curves {
             for (x, y) in &c.points {
                 if many {
                     out.push_str(&text_cell(&c.label));
+                    out.push(',');
+                }
+                if named {
+                    let i = (x.round() as usize).wrapping_sub(1);
+                    out.push_str(&text_cell(self.x_names.get(i).map_or("", String::as_str)));
                     out.push(',');
                 }
                 if self.spacing == Spacing::Integer {
