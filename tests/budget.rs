@@ -1066,3 +1066,86 @@ fn the_results_csv_has_every_crossing_at_every_corner() {
         );
     }
 }
+
+/// A mission profile: corners with `hours` (shares of service time summing to 1) weight
+/// the fleet figures, against a hand computation; every hour at the worst corner stands
+/// beside them; shares that do not sum to 1 are refused with their sum.
+#[test]
+fn the_fleet_follows_the_mission_profile() {
+    let design = example("budget-design.csv");
+    let corners = "corner,tau,tw,tsu,tcq,hours\ntypical,12ps,20ps,25ps,40ps,0.7\nslow_hot,18ps,26ps,35ps,60ps,0.29\nlow_v_cold,24ps,30ps,40ps,70ps,0.01\n";
+    let v = budget(
+        &design,
+        Some(corners),
+        &[("devices", "1e6"), ("service-years", "10")],
+    )
+    .unwrap();
+    // By hand: rate = sum of hours times each corner's FIT / 3.6e12 per second.
+    let totals: Vec<f64> = v["corners"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|c| c["log10_total_fit"].as_f64().unwrap())
+        .collect();
+    let fit: f64 = [0.7, 0.29, 0.01]
+        .iter()
+        .zip(&totals)
+        .map(|(h, t)| h * 10f64.powf(*t))
+        .sum();
+    let seconds = 1e6 * 10.0 * 365.25 * 86400.0;
+    let expected = fit / 3.6e12 * seconds;
+    assert_log10(
+        "weighted",
+        v["log10_expected_failures"].as_f64().unwrap(),
+        expected.log10(),
+    );
+    let p_any = -(-expected).exp_m1();
+    assert!((10f64.powf(v["log10_p_any_failure"].as_f64().unwrap()) - p_any).abs() < 1e-12);
+    let worst = 10f64.powf(totals[2]) / 3.6e12 * seconds;
+    assert_log10(
+        "worst",
+        v["log10_expected_failures_worst"].as_f64().unwrap(),
+        worst.log10(),
+    );
+    // The same corners without hours: every hour at the worst corner, nothing beside it.
+    let plain = budget(
+        &design,
+        Some(&example("budget-corners.csv")),
+        &[("devices", "1e6"), ("service-years", "10")],
+    )
+    .unwrap();
+    assert_eq!(
+        plain["log10_expected_failures"],
+        v["log10_expected_failures_worst"]
+    );
+    assert!(plain.get("log10_expected_failures_worst").is_none());
+    // Shares that do not sum to 1, and a corner without its share.
+    let e = budget(&design, Some(&corners.replace("0.01", "0.02")), &[]).unwrap_err();
+    assert!(
+        e.contains("corners, column hours: the shares of service time sum to 1.01, not 1"),
+        "{e}"
+    );
+    let e = budget(&design, Some(&corners.replace(",0.29\n", ",\n")), &[]).unwrap_err();
+    assert!(
+        e.contains("line 3, column hours: give every corner its share"),
+        "{e}"
+    );
+    // With sigmas the fleet at the 95th percentile of the worst total is given too.
+    let s = budget(
+        &design,
+        Some(corners),
+        &[
+            ("devices", "1e6"),
+            ("service-years", "10"),
+            ("tau-sigma", "0.05"),
+            ("tw-sigma", "0.3"),
+        ],
+    )
+    .unwrap();
+    let p95 = 10f64.powf(s["log10_total_fit_p95"].as_f64().unwrap()) / 3.6e12 * seconds;
+    assert_log10(
+        "p95",
+        s["log10_expected_failures_p95"].as_f64().unwrap(),
+        p95.log10(),
+    );
+}

@@ -63,6 +63,9 @@ fn coverage(name: &str) -> Vec<String> {
                     .replacen("kind=&data=", "design=", 1),
                 with_data("", "budget-design.csv", "&tau=12ps&tw=20ps&tsu=25ps&tcq=40ps&budget-fit=1e-30")
                     .replacen("kind=&data=", "design=", 1),
+                // A mission profile: corners with their shares of service time.
+                with_data("", "budget-design.csv", "&corners=corner%2Ctau%2Ctw%2Ctsu%2Ctcq%2Chours%0Acool%2C12ps%2C20ps%2C25ps%2C40ps%2C0.9%0Awarm%2C18ps%2C26ps%2C35ps%2C60ps%2C0.1&devices=1000&service-years=5")
+                    .replacen("kind=&data=", "design=", 1),
             ];
         }
         other => panic!("no coverage cases for calculator '{other}': add them here"),

@@ -26,7 +26,8 @@ pub const DESIGN: FieldSpec = FieldSpec {
 pub const CORNERS: FieldSpec = FieldSpec {
     name: "corners",
     dim: Dim::Text,
-    help: "the corners, CSV: corner, tau, tw or t0, tsu, tcq (instead of --tau, --tw ...)",
+    help: "the corners, CSV: corner, tau, tw or t0, tsu, tcq, optional hours (shares of \
+           service time, summing to 1); instead of --tau, --tw ...",
     limits: (0.0, 0.0),
     usual: (0.0, 0.0),
 };

@@ -31,6 +31,7 @@ pub struct Corner {
     window: Option<Win>,
     tsu: Option<f64>,
     tcq: Option<f64>,
+    hours: Option<f64>,
 }
 
 /// A budget case: the roll-up, names, and the questions asked of it.
@@ -55,6 +56,8 @@ pub struct BudgetCase {
     /// Whether the verdict, exit status and fix plan use the 95th percentile (the default
     /// with sigmas; else the nominal total).
     pub signoff_p95: bool,
+    /// Each corner's share of service time (a mission profile), when the corners give it.
+    pub hours: Option<Vec<f64>>,
 }
 
 /// The design's columns: each a synchronizer field, with that field's limits.
@@ -79,14 +82,22 @@ const DESIGN_COLUMNS: [Column; 11] = [
 pub const MAX_COUNT: f64 = 1e9;
 
 /// The corners' columns, with the synchronizer's limits.
-const CORNER_COLUMNS: [Column; 6] = [
+const CORNER_COLUMNS: [Column; 7] = [
     Column::any("corner", Dim::Text),
     Column::of(sync::TAU).positive(),
     Column::of(sync::TW).positive().optional(),
     Column::of(sync::T0).positive().optional(),
     Column::of(sync::TSU).non_negative(),
     Column::of(sync::TCQ).non_negative().optional(),
+    // The share of service time spent at the corner (a mission profile).
+    Column::any("hours", Dim::Ratio)
+        .within(1e-300, 1.0)
+        .non_negative()
+        .optional(),
 ];
+
+/// How far the corners' `hours` may sum from 1.
+pub const HOURS_SUM_TOLERANCE: f64 = 1e-9;
 
 fn window(tw: Option<f64>, t0: Option<f64>) -> Result<Option<Win>, &'static str> {
     match (tw, t0) {
@@ -114,12 +125,13 @@ fn read_corners(r: &mut FieldReader) -> Option<Vec<Corner>> {
             }
         };
         let names = table.text(0);
-        let (tau, tw, t0, tsu, tcq) = (
+        let (tau, tw, t0, tsu, tcq, hours) = (
             table.optional(1),
             table.optional(2),
             table.optional(3),
             table.optional(4),
             table.optional(5),
+            table.optional(6),
         );
         let mut problems = Vec::new();
         let mut out: Vec<Corner> = Vec::new();
@@ -144,13 +156,29 @@ fn read_corners(r: &mut FieldReader) -> Option<Vec<Corner>> {
             if w.is_none() {
                 problems.push(format!("corners, line {line}: the corner needs tw or t0"));
             }
+            let h = hours.get(i).copied().flatten();
+            if table.has(6) && h.is_none() {
+                problems.push(format!(
+                    "corners, line {line}, column hours: give every corner its share of the \
+                     service time (0 for none)"
+                ));
+            }
             out.push(Corner {
                 name,
                 tau: tau[i],
                 window: w,
                 tsu: tsu[i],
                 tcq: tcq.get(i).copied().flatten(),
+                hours: h,
             });
+        }
+        if table.has(6) && problems.is_empty() {
+            let sum: f64 = out.iter().filter_map(|c| c.hours).sum();
+            if (sum - 1.0).abs() > HOURS_SUM_TOLERANCE {
+                problems.push(format!(
+                    "corners, column hours: the shares of service time sum to {sum}, not 1"
+                ));
+            }
         }
         if problems.is_empty() {
             return Some(out);
@@ -176,6 +204,7 @@ fn read_corners(r: &mut FieldReader) -> Option<Vec<Corner>> {
         window: window(tw, t0).ok().flatten(),
         tsu,
         tcq,
+        hours: None,
     }])
 }
 
@@ -350,6 +379,10 @@ impl BudgetCase {
         if r.has_errors() {
             return Err(r.into_errors());
         }
+        let hours = corners
+            .iter()
+            .map(|c| c.hours)
+            .collect::<Option<Vec<f64>>>();
         Ok(BudgetCase {
             rollup: Rollup {
                 cells,
@@ -358,6 +391,7 @@ impl BudgetCase {
             },
             names,
             tr_given,
+            hours,
             corners: corners.into_iter().map(|c| c.name).collect(),
             corners_from_table,
             budget_fit,

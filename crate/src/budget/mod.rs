@@ -38,7 +38,9 @@ Usage: latchwise budget DESIGN.csv [--corners FILE | --tau T --tw W|--t0 W --tsu
 DESIGN.csv: one row per crossing: name, fclk, fdata, stages or tr, count (instances,
 default 1: a 32-bit bus synchronized bit by bit counts 32); optional tau, tw or t0, tsu,
 tcq, which hold for that row at every corner. The corners file: corner, tau, tw or t0,
-tsu, tcq, one row per named corner; without it the options give one corner, 'given'.
+tsu, tcq, one row per named corner, and optionally hours, each corner's share of service
+time (summing to 1), which weights the fleet figures; without it the options give one
+corner, 'given'.
 Comma, semicolon or tab separated, # comments, cells in engineering notation; every
 problem is reported with its file, line and column.
 

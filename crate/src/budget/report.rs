@@ -113,9 +113,20 @@ pub struct BudgetReport {
     /// Whether the 95th percentile is within the budget (with a budget and sigmas).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub meets_budget_p95: Option<bool>,
-    /// Fleet figures.
+    /// Fleet figures: time-weighted over the corners when they give `hours`, else with
+    /// every hour at the worst corner.
     #[serde(flatten, skip_serializing_if = "Option::is_none")]
     pub fleet: Option<FleetOutcome>,
+    /// With `hours`: log10 of the expected failures with every hour at the worst corner.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub log10_expected_failures_worst: Option<f64>,
+    /// With `hours`: log10 of the probability of a failure, every hour at the worst corner.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub log10_p_any_failure_worst: Option<f64>,
+    /// With sigmas: log10 of the expected failures at the 95th percentile of the worst
+    /// corner's total, every hour there (the sign-off figure's fleet).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub log10_expected_failures_p95: Option<f64>,
     /// For each result that is null: why.
     #[serde(serialize_with = "serialize_pairs")]
     pub not_applicable: Vec<(&'static str, String)>,
@@ -304,9 +315,31 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
         log10_total_fit_p50: pcts.as_ref().map(|p| p[0]),
         log10_total_fit_p95: pcts.as_ref().map(|p| p[1]),
         meets_budget_p95: meets_p95,
-        fleet: c
+        fleet: c.fleet.map(|f| {
+            // Time-weighted with a mission profile: sum of hours_k 10^total_k.
+            let rate = match &c.hours {
+                Some(h) => super::rollup::log10_sum(
+                    h.iter()
+                        .zip(&totals)
+                        .filter(|(h, _)| **h > 0.0)
+                        .map(|(h, t)| h.log10() + t),
+                ),
+                None => log10_total,
+            };
+            fleet_outcome(rate - FIT_PER_RATE.log10(), f)
+        }),
+        log10_expected_failures_worst: c
             .fleet
-            .map(|f| fleet_outcome(log10_total - FIT_PER_RATE.log10(), f)),
+            .filter(|_| c.hours.is_some())
+            .map(|f| fleet_outcome(log10_total - FIT_PER_RATE.log10(), f).log10_expected_failures),
+        log10_p_any_failure_worst: c
+            .fleet
+            .filter(|_| c.hours.is_some())
+            .map(|f| fleet_outcome(log10_total - FIT_PER_RATE.log10(), f).log10_p_any_failure),
+        log10_expected_failures_p95: c
+            .fleet
+            .zip(pcts.as_ref())
+            .map(|(f, p)| fleet_outcome(p[1] - FIT_PER_RATE.log10(), f).log10_expected_failures),
         not_applicable,
         warnings,
         caution: CAUTION,
@@ -509,6 +542,30 @@ impl BudgetReport {
         if let Some(f) = self.fleet {
             v.extend(f.readouts());
         }
+        if let Some(m) = self.log10_expected_failures_worst {
+            v.push(Readout::new(
+                "log10_expected_failures_worst",
+                "expected failures, every hour at the worst corner",
+                format_log10(m, 3),
+                Some(m),
+            ));
+        }
+        if let Some(p) = self.log10_p_any_failure_worst {
+            v.push(Readout::new(
+                "log10_p_any_failure_worst",
+                "probability of at least one, every hour at the worst corner",
+                format_log10(p, 3),
+                Some(p),
+            ));
+        }
+        if let Some(m) = self.log10_expected_failures_p95 {
+            v.push(Readout::new(
+                "log10_expected_failures_p95",
+                "expected failures at the 95th percentile",
+                format_log10(m, 3),
+                Some(m),
+            ));
+        }
         v
     }
 
@@ -551,6 +608,13 @@ impl BudgetReport {
             facts.push(
                 "The uncertainty of tau and tw is systematic, shared by every row: sign off \
                  with the 95th percentile of the worst corner's total."
+                    .into(),
+            );
+        }
+        if self.log10_expected_failures_worst.is_some() {
+            facts.push(
+                "Fleet figures weight each corner by its share of service time (hours); \
+                 every hour at the worst corner is shown beside them."
                     .into(),
             );
         }
