@@ -619,9 +619,12 @@
       var stamp = document.getElementById('print-stamp');
       if (stamp) {
         var here = link();
-        if (here.length > LINK_MOST_CHARS / 20) {
-          // A design-sized link is pages of noise on paper: the inputs above are the case.
-          here = here.split('?')[0] + ' (the case is printed above; its link has ' + here.length + ' characters)';
+        if (here.length > LINK_MOST_CHARS) {
+          // Beyond what a link can carry safely: the digest of the case identifies it, and
+          // the CSV files are what to keep.
+          here = here.split('?')[0] + ' (the link would have ' + here.length.toLocaleString('en') +
+            ' characters; SHA-256 of the case ' + wasm_bindgen.sha256_hex(query()) +
+            '; keep the design and corners as CSV files: Save CSV)';
         }
         stamp.textContent = 'latchwise ' + wasm_bindgen.version() + ' · printed ' +
           new Date().toISOString().slice(0, 16).replace('T', ' ') + ' UTC · ' + here;

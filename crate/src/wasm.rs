@@ -364,6 +364,13 @@ impl Visit for Results<'_> {
     }
 }
 
+/// The SHA-256 of `text` in hexadecimal: what identifies a printed case whose link is too
+/// long to print.
+#[wasm_bindgen]
+pub fn sha256_hex(text: &str) -> String {
+    crate::digest::sha256_hex(text.as_bytes())
+}
+
 /// Calculator `name`'s results row by row as CSV (the command's `--results`); "" when
 /// the inputs are not valid or the calculator has no rows.
 ///

@@ -123,7 +123,8 @@ test('a design too large for a link says so and points to the CSV files', async 
   const demo = (await page.inputValue('[name="design"]')).trim();
   await page.pdf({ format: 'A4' });
   assert.equal((await page.textContent('pre.print-text')).trim(), demo);
-  assert.match(await page.textContent('#print-stamp'), /budget\.html \(the case is printed above; its link has \d+ characters\)$/);
+  // A link under 8,000 characters is printed in full.
+  assert.match(await page.textContent('#print-stamp'), /budget\.html\?[^ ]*design=~1[-\w]+/);
   // Packed, 400 alike rows make a short link; a design of 2,000 rows with names and
   // rates that do not repeat does not fit in one.
   let design = 'name,fclk,fdata,stages,count\n';
@@ -144,6 +145,10 @@ test('a design too large for a link says so and points to the CSV files', async 
   assert.equal(await page.isVisible('#link-text'), false);
   await page.pdf({ format: 'A4' });
   assert.match(await page.textContent('pre.print-text'), /\n… and 1881 more lines \(Save CSV has them all\)$/);
+  // Beyond 8,000 characters the print carries the case's digest and the way to keep it.
+  assert.match(await page.textContent('#print-stamp'),
+    /budget\.html \(the link would have [\d,]+ characters; SHA-256 of the case [0-9a-f]{64}; keep the design and corners as CSV files: Save CSV\)$/);
+  assert.match(await page.textContent(".reviewed"), /^Reviewed by _+\s+Date _+$/);
   assert.deepEqual(problems, []);
   await context.close();
 });

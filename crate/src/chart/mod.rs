@@ -144,18 +144,29 @@ fn to_axis_x(spacing: Spacing, x: f64) -> f64 {
 /// The most named categories an axis labels by name (more would overlap).
 const NAMES_ON_AXIS_MOST: usize = 8;
 
-fn x_label_text(spec: &Plot, x: f64) -> String {
+/// How many characters of each category name fit under the axis at `css_width` pixels
+/// with type scaled by `k` (about 6.5 px a character at full size, 14 at most); `None`
+/// when not even a short name fits, and the axis shows numbers.
+fn names_fit(spec: &Plot, css_width: f64, k: f64) -> Option<usize> {
+    let n = spec.x_names.len();
+    if n == 0 || n > NAMES_ON_AXIS_MOST {
+        return None;
+    }
+    let room = ((css_width - 90.0) / n as f64 - 6.0) / (6.5 * k);
+    Some(room.floor().min(14.0) as usize).filter(|c| *c >= 4)
+}
+
+fn x_label_text(spec: &Plot, x: f64, named: Option<usize>) -> String {
     match spec.spacing {
-        Spacing::Integer
-            if !spec.x_names.is_empty() && spec.x_names.len() <= NAMES_ON_AXIS_MOST =>
-        {
+        Spacing::Integer if named.is_some() => {
+            let most = named.unwrap_or(14);
             let i = (x.round() as usize).wrapping_sub(1);
             spec.x_names.get(i).map_or(String::new(), |n| {
-                let cut: String = n.chars().take(14).collect();
-                if cut.len() < n.len() {
-                    format!("{cut}…")
+                if n.chars().count() <= most {
+                    n.clone()
                 } else {
-                    cut
+                    let cut: String = n.chars().take(most - 1).collect();
+                    format!("{cut}…")
                 }
             })
         }
@@ -253,10 +264,16 @@ pub fn draw<DB: DrawingBackend>(
         .map(|t| y_text(*t).chars().count())
         .max()
         .unwrap_or(4) as f64;
+    // A title fits its plot: a long one on a small (printed) plot gets smaller type
+    // rather than losing its ends (about 0.55 em per character of sans-serif).
+    let title_chars = spec.title.chars().count().max(1) as f64;
+    let title_size = 15.0_f64
+        .min(0.92 * css_width / (0.55 * title_chars * k))
+        .max(7.0);
     let mut chart = ChartBuilder::on(area)
         .margin(px(10.0))
         .margin_right(px(18.0))
-        .caption(&spec.title, font(15.0))
+        .caption(&spec.title, font(title_size))
         .x_label_area_size(px(42.0 * k))
         .y_label_area_size(px((30.0 + 7.0 * widest) * k))
         .build_cartesian_2d(
@@ -272,7 +289,8 @@ pub fn draw<DB: DrawingBackend>(
             },
         )
         .map_err(err)?;
-    let x_fmt = |x: &f64| x_label_text(spec, *x);
+    let named = names_fit(spec, css_width, k);
+    let x_fmt = |x: &f64| x_label_text(spec, *x, named);
     let y_fmt = |y: &f64| y_text(*y);
     chart
         .configure_mesh()
