@@ -632,7 +632,8 @@ fn the_exit_status_follows_the_signoff() {
 /// quadrature: ln total = ln T(tau scaled by e^(s_tau z)) + s_tw w for standard normal z
 /// and w, so P(log10 total <= x) = integral of phi(z) Phi((x - log10 T(z)) ln 10 / s_tw) dz,
 /// with T(z) the nominal worst total (itself checked against mpmath) of corners whose tau
-/// is scaled; Simpson's rule on z from -8 to 8, the 95 % point by bisection.
+/// is scaled; Simpson's rule on z from -8 to 8 (800 steps: 1600 change it by 2e-11
+/// decades), the 95 % point by bisection; agreement to 1e-9 relative in FIT.
 #[test]
 fn the_fix_plan_meets_the_budget_at_the_95th_percentile() {
     let design = "name,fclk,fdata,stages,count\na,1GHz,100MHz,2,8\nb,400MHz,20MHz,2,32\nc,1GHz,300MHz,2,1\nd,125MHz,1MHz,2,16\n";
@@ -671,7 +672,7 @@ fn the_fix_plan_meets_the_budget_at_the_95th_percentile() {
             .as_f64()
             .unwrap()
     };
-    let n = 400;
+    let n = 800;
     let h = 16.0 / n as f64;
     let zs: Vec<f64> = (0..=n).map(|i| -8.0 + h * i as f64).collect();
     let ts_at: Vec<f64> = zs.iter().map(|&z| log10_t(z)).collect();
@@ -703,7 +704,11 @@ fn the_fix_plan_meets_the_budget_at_the_95th_percentile() {
         }
     }
     let p95 = v["log10_total_fit_p95_after_fix"].as_f64().unwrap();
-    assert!((p95 - lo).abs() < 1e-6, "reported {p95}, quadrature {lo}");
+    // 1e-9 relative in FIT: 1e-9 / ln 10 decades.
+    assert!(
+        (p95 - lo).abs() < 1e-9 / std::f64::consts::LN_10,
+        "reported {p95}, quadrature {lo}"
+    );
     assert!(
         lo <= -3.0 + 1e-9,
         "the plan's 95th percentile {lo} is above the budget"

@@ -284,9 +284,10 @@ impl Rollup {
                 .collect();
         }
         let nodes = self.terms().spread_nodes(tau_sigma);
-        // From the total at tau's -3.5 sigma (node 45) to that at +3.5 sigma (node 115).
-        let lo = nodes[45].1 - 3.5 * tw_sigma;
-        let hi = nodes[115].1 + 3.5 * tw_sigma;
+        // From the total at tau's -3.5 sigma (z = -8 + 4.5) to that at +3.5 sigma.
+        let at = |z: f64| nodes[((z + 8.0) / SPREAD_STEP).round() as usize].1;
+        let lo = at(-3.5) - 3.5 * tw_sigma;
+        let hi = at(3.5) + 3.5 * tw_sigma;
         (0..n)
             .map(|i| {
                 let x = lo + (hi - lo) * i as f64 / (n - 1) as f64;
@@ -303,7 +304,8 @@ impl Rollup {
     /// # Formula
     /// The worst total is `s_w G(s_tau)` with G rising in `s_tau`. So
     /// `P(ln T <= x) = integral of phi(z) Phi((x - ln G(exp(tau_sigma z))) / tw_sigma) dz`,
-    /// by the trapezoid rule on z in [-8, 8] (exact to rounding for this smooth integrand);
+    /// by the trapezoid rule on z in [-8, 8] in steps of 0.05 (within 1e-9 of an
+    /// independent quadrature);
     /// each percentile by the Illinois method on x. With `tw_sigma = 0` the percentile is G at the
     /// same percentile of `s_tau`; with `tau_sigma = 0` the total is lognormal.
     pub fn percentiles(&self, tau_sigma: f64, tw_sigma: f64, ps: &[f64]) -> Vec<f64> {
@@ -351,15 +353,22 @@ impl Terms {
     /// (trapezoid weight times the normal density at z, ln of the worst total with every
     /// tau scaled by `exp(tau_sigma z)`).
     fn spread_nodes(&self, tau_sigma: f64) -> Vec<(f64, f64)> {
-        (0..=160)
+        (0..=SPREAD_NODES_LAST)
             .map(|i| {
-                let z = -8.0 + 0.1 * f64::from(i);
-                let weight = (-0.5 * z * z).exp() / (2.0 * PI).sqrt() * 0.1;
+                let z = -8.0 + SPREAD_STEP * f64::from(i);
+                let weight = (-0.5 * z * z).exp() / (2.0 * PI).sqrt() * SPREAD_STEP;
                 (weight, self.log10_worst_at((tau_sigma * z).exp()) * LN_10)
             })
             .collect()
     }
 }
+
+/// The step in z of the spread's quadrature: 0.05 (321 nodes on [-8, 8]) puts the
+/// percentiles within 1e-9 of an independent quadrature (at 0.1 they were 1.3e-6 off:
+/// the trapezoid rule converges exponentially here, so halving the step squares the error).
+const SPREAD_STEP: f64 = 0.05;
+/// The last node's index: z = 8.
+const SPREAD_NODES_LAST: u32 = 320;
 
 /// `P(ln T <= x)` by the quadrature over [`Terms::spread_nodes`]: each node's weight
 /// times the normal probability that ln tw's shift keeps the total at most `x`.
