@@ -1154,3 +1154,58 @@ fn the_fleet_follows_the_mission_profile() {
         p95.log10(),
     );
 }
+
+/// The text report lists the largest 20 crossings at the worst corner with their FIT,
+/// share and stages now and after the fix, and counts the rest; `--all-rows` lists all.
+#[test]
+fn the_text_report_lists_the_largest_crossings() {
+    let root = env!("CARGO_MANIFEST_DIR");
+    let run = |extra: &[&str]| {
+        let out = Command::new(env!("CARGO_BIN_EXE_latchwise"))
+            .args([
+                "budget",
+                &format!("{root}/examples/budget-design.csv"),
+                "--corners",
+                &format!("{root}/examples/budget-corners.csv"),
+                "--budget-fit",
+                "10",
+            ])
+            .args(extra)
+            .output()
+            .unwrap();
+        String::from_utf8_lossy(&out.stdout).to_string()
+    };
+    let text = run(&[]);
+    let table: Vec<&str> = text
+        .lines()
+        .skip_while(|l| *l != "Largest crossings at low_v_cold")
+        .skip(1)
+        .take_while(|l| !l.is_empty())
+        .collect();
+    assert!(
+        table[0]
+            .split_whitespace()
+            .eq(["crossing", "FIT", "share", "stages", "after", "the", "fix"]),
+        "{text}"
+    );
+    assert!(
+        table[1]
+            .split_whitespace()
+            .eq(["fabric_dma_ack", "4.222e6", "59.7", "%", "2", "3"]),
+        "{text}"
+    );
+    assert_eq!(table.len(), 1 + 20 + 1, "{text}");
+    assert!(
+        table[21].contains("and 4 more (--all-rows lists every one"),
+        "{text}"
+    );
+    let all = run(&["--all-rows"]);
+    let rows = all
+        .lines()
+        .skip_while(|l| *l != "Largest crossings at low_v_cold")
+        .skip(2)
+        .take_while(|l| !l.is_empty())
+        .count();
+    assert_eq!(rows, 24, "{all}");
+    assert!(!all.contains("more (--all-rows"));
+}

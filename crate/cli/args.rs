@@ -51,6 +51,8 @@ pub struct Parsed {
     pub input_sha256: String,
     /// `--results FILE`: where to write the results row by row (CSV).
     pub results: Option<String>,
+    /// `--all-rows`: the text report's table lists every row, not the largest 20.
+    pub all_rows: bool,
 }
 
 /// Parses `args` against `fields`, reading old names as `aliases` say.
@@ -95,12 +97,13 @@ pub fn parse(
             .find(|(old, _)| *old == given)
             .map_or(given, |(_, new)| new);
         match name {
-            "json" | "help" if inline.is_some() => {
+            "json" | "help" | "all-rows" if inline.is_some() => {
                 return Err(format!("--{name} takes no value"));
             }
             // How the report is written, not what it says: not part of the stamp.
             "json" => out.json = true,
             "help" => out.help = true,
+            "all-rows" => out.all_rows = true,
             _ => {
                 let value = match inline {
                     Some(v) => v,

@@ -7,7 +7,7 @@ use std::io::Write;
 use serde_json::ser::{Formatter, PrettyFormatter};
 use std::process::ExitCode;
 
-use latchwise::calculator::{Calculator, Outcome, Visit};
+use latchwise::calculator::{Calculator, Outcome, TextTable, Visit};
 use latchwise::error::ParamErrorKind;
 use latchwise::reliability::CAUTION;
 
@@ -140,7 +140,14 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
             return ExitCode::from(EXIT_BAD_INPUT);
         }
     } else {
-        say(&text_report(C::TITLE, &outcome));
+        let table = C::text_table(&report, (!parsed.all_rows).then_some(TABLE_ROWS_MOST));
+        if parsed.all_rows && table.is_none() {
+            complain(&format!(
+                "latchwise {name}: --all-rows: this command has no table of rows (the budget has)"
+            ));
+            return ExitCode::from(EXIT_BAD_INPUT);
+        }
+        say(&text_report(C::TITLE, &outcome, table.as_ref()));
     }
     if outcome.target_missed {
         ExitCode::from(EXIT_TARGET_MISSED)
@@ -174,6 +181,9 @@ fn escape_controls(text: &str, escape: impl Fn(char, &mut String)) -> Cow<'_, st
     }
     Cow::Owned(out)
 }
+
+/// The most rows of the text report's table without `--all-rows`.
+pub const TABLE_ROWS_MOST: usize = 20;
 
 /// Writes to standard output; a reader that has gone away (a closed pipe) ends the
 /// output quietly instead of aborting.
@@ -270,7 +280,7 @@ pub fn complain(line: &str) {
 }
 
 /// The human-readable report: inputs as understood, results, notes, warnings, caution.
-pub fn text_report(title: &str, o: &Outcome) -> String {
+pub fn text_report(title: &str, o: &Outcome, table: Option<&TextTable>) -> String {
     let width = o
         .readouts
         .iter()
@@ -291,6 +301,41 @@ pub fn text_report(title: &str, o: &Outcome) -> String {
             _ => "",
         };
         s.push_str(&format!("  {:<width$}{}{flag}\n", r.label, r.text));
+    }
+    if let Some(t) = table {
+        s.push_str(&format!("\n{}\n", t.title));
+        let cols = t.header.len();
+        let widths: Vec<usize> = (0..cols)
+            .map(|c| {
+                t.rows
+                    .iter()
+                    .map(|r| r[c].chars().count())
+                    .chain([t.header[c].chars().count()])
+                    .max()
+                    .unwrap_or(0)
+            })
+            .collect();
+        for row in std::iter::once(&t.header).chain(&t.rows) {
+            let cells: Vec<String> = row
+                .iter()
+                .enumerate()
+                .map(|(c, v)| {
+                    // The first column (names) to the left, figures to the right.
+                    if c == 0 {
+                        format!("{v:<w$}", w = widths[c])
+                    } else {
+                        format!("{v:>w$}", w = widths[c])
+                    }
+                })
+                .collect();
+            s.push_str(&format!("  {}\n", cells.join("  ").trim_end()));
+        }
+        if t.total > t.rows.len() {
+            s.push_str(&format!(
+                "  ... and {} more (--all-rows lists every one; --results writes them to a file)\n",
+                t.total - t.rows.len()
+            ));
+        }
     }
     if !o.unused.is_empty() {
         s.push_str(&format!(

@@ -72,6 +72,26 @@ pub trait Calculator: 'static {
     fn results_csv(_case: &Self::Case, _report: &Self::Report) -> Option<String> {
         None
     }
+
+    /// A table for the command's text report: its title, its header and rows (the
+    /// largest `most`, or all), and how many rows there are in all; `None` when the
+    /// calculator has none. The page shows its own tables instead.
+    fn text_table(_report: &Self::Report, _most: Option<usize>) -> Option<TextTable> {
+        None
+    }
+}
+
+/// A table of the command's text report (see [`Calculator::text_table`]).
+#[derive(Debug, Clone, PartialEq)]
+pub struct TextTable {
+    /// What the table holds.
+    pub title: String,
+    /// Column headings.
+    pub header: Vec<String>,
+    /// The rows shown.
+    pub rows: Vec<Vec<String>>,
+    /// How many rows there are in all.
+    pub total: usize,
 }
 
 /// Figures a page shows beside each data row of one of its table fields, in the order of

@@ -10,7 +10,7 @@ pub mod input;
 pub mod report;
 pub mod rollup;
 
-use crate::calculator::{Calculator, Outcome, RowFigures};
+use crate::calculator::{Calculator, Outcome, RowFigures, TextTable};
 use crate::chart::Plot;
 use crate::error::ParamErrors;
 use crate::params::{FieldSpec, RawInputs};
@@ -33,7 +33,7 @@ impl Calculator for BudgetCalculator {
 Usage: latchwise budget DESIGN.csv [--corners FILE | --tau T --tw W|--t0 W --tsu T --tcq T]
                         [--budget-fit F] [--devices N --service-years Y]
                         [--tau-sigma S --tw-sigma S] [--signoff p95|nominal]
-                        [--results FILE.csv] [--json]
+                        [--results FILE.csv] [--all-rows] [--json]
 
 DESIGN.csv: one row per crossing: name, fclk, fdata, stages or tr, count (instances,
 default 1: a 32-bit bus synchronized bit by bit counts 32); optional tau, tw or t0, tsu,
@@ -52,7 +52,8 @@ shared by every row; the report gives the median and the 95th percentile of the 
 total by quadrature, and the 95th percentile then decides the verdict, the exit status
 and the fix plan (--signoff nominal: the nominal total decides instead).
 
---results FILE.csv writes every crossing at every corner: name, corner, log10_fit, fit,
+The text report lists the 20 largest crossings at the worst corner (--all-rows: every
+one). --results FILE.csv writes every crossing at every corner: name, corner, log10_fit, fit,
 share (of that corner's total), stages, stages_after_fix, flip_flops_added. The JSON
 opens with version and input_sha256 (a digest of the arguments and the files' bytes).
 
@@ -86,5 +87,9 @@ Example:
 
     fn results_csv(case: &BudgetCase, report: &BudgetReport) -> Option<String> {
         Some(report::results_csv(case, report))
+    }
+
+    fn text_table(report: &BudgetReport, most: Option<usize>) -> Option<TextTable> {
+        Some(report::text_table(report, most))
     }
 }

@@ -347,6 +347,52 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
     }
 }
 
+/// The largest crossings at the worst corner, by share: name, FIT, share, stages now and
+/// after the fix plan (the `most` largest, or every one).
+pub fn text_table(report: &BudgetReport, most: Option<usize>) -> crate::calculator::TextTable {
+    use crate::calculator::format_figure;
+    let mut order: Vec<usize> = (0..report.rows.len()).collect();
+    order.sort_by(|&a, &b| report.rows[b].share.total_cmp(&report.rows[a].share));
+    let after = |i: usize| {
+        let r = &report.rows[i];
+        match (&report.fix, r.stages) {
+            (_, 0) => "tr given".to_string(),
+            (Some(Some(fix)), s) => fix
+                .iter()
+                .find(|f| f.name == r.name)
+                .map_or(s, |f| f.stages)
+                .to_string(),
+            (_, s) => s.to_string(),
+        }
+    };
+    let rows = order
+        .iter()
+        .take(most.unwrap_or(usize::MAX))
+        .map(|&i| {
+            let r = &report.rows[i];
+            vec![
+                r.name.clone(),
+                format_figure("log10", r.log10_fit),
+                format_figure("fraction", r.share),
+                if r.stages == 0 {
+                    "-".to_string()
+                } else {
+                    r.stages.to_string()
+                },
+                after(i),
+            ]
+        })
+        .collect();
+    crate::calculator::TextTable {
+        title: format!("Largest crossings at {}", report.worst_corner),
+        header: ["crossing", "FIT", "share", "stages", "after the fix"]
+            .map(String::from)
+            .to_vec(),
+        rows,
+        total: report.rows.len(),
+    }
+}
+
 /// `10^x` written exactly from its log10 (ten significant digits), at any magnitude: a
 /// FIT of 1e-400 is written `1e-400`, not 0.
 fn decimal_of_log10(x: f64) -> String {
