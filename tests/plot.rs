@@ -471,3 +471,54 @@ fn one_extreme_row_cannot_flatten_the_budget_plots() {
         "{csv}"
     );
 }
+
+/// CSV prefaces say what a column holds: "log10 of" only where the axis is a log (the
+/// budget's distribution is a plain probability); and a narrow (printed) plot gets fewer
+/// x labels, so that they never run together.
+#[test]
+fn csv_labels_say_what_they_hold_and_narrow_plots_thin_their_labels() {
+    use latchwise::budget::BudgetCalculator;
+    let root = env!("CARGO_MANIFEST_DIR");
+    let read = |f: &str| std::fs::read_to_string(format!("{root}/examples/{f}")).unwrap();
+    let raw = RawInputs::from_pairs([
+        ("design", read("budget-design.csv")),
+        ("corners", read("budget-corners.csv")),
+        ("tau-sigma", "0.05".to_string()),
+        ("tw-sigma", "0.3".to_string()),
+    ]);
+    let csv = latchwise::calculator::plot_csv::<BudgetCalculator>(&raw, "plot-spread", "").unwrap();
+    assert!(
+        csv.contains("# probability is probability of a total at most this"),
+        "{csv}"
+    );
+    assert!(!csv.contains("probability is log10"), "{csv}");
+    let csv = latchwise::calculator::plot_csv::<BudgetCalculator>(&raw, "plot-rows", "").unwrap();
+    assert!(
+        csv.contains("# log10_fit is log10 of FIT at the worst corner"),
+        "{csv}"
+    );
+    // The comparator's regeneration-time plot at 640 and at 220 pixels.
+    let raw = RawInputs::from_query("tau=15ps&treg=80ps&extra-stages=2&stage-time=100ps&vmin=0.4&gain=4&input=uniform&lsb=1mV&fs=5GHz&target-ber=1e-10");
+    let case = ComparatorCalculator::read(&raw).unwrap();
+    let report = ComparatorCalculator::evaluate(&case);
+    let plot = ComparatorCalculator::plots(&case, &report)
+        .into_iter()
+        .find(|p| p.id == "plot-treg")
+        .unwrap();
+    let labels_at = |w: u32| {
+        let mut out = String::new();
+        {
+            let root = SVGBackend::with_string(&mut out, (w, 200)).into_drawing_area();
+            draw(&root, &plot, 1.0).unwrap();
+        }
+        texts(&out)
+            .iter()
+            .filter(|t| t.ends_with(" ps") || *t == "0 s")
+            .count()
+    };
+    let (wide, narrow) = (labels_at(640), labels_at(220));
+    assert!(
+        narrow < wide && narrow <= 4,
+        "{narrow} labels at 220 px, {wide} at 640 px"
+    );
+}

@@ -629,6 +629,18 @@
         stamp.textContent = 'latchwise ' + wasm_bindgen.version() + ' · printed ' +
           new Date().toISOString().slice(0, 16).replace('T', ' ') + ' UTC · ' + here;
       }
+      // A drop-down list prints its choice as text (a select clips it on paper).
+      each('select[name]', function (sel) {
+        var shown = sel.parentNode.querySelector('span.print-choice');
+        if (!shown) {
+          shown = document.createElement('span');
+          shown.className = 'print-only print-choice';
+          sel.parentNode.insertBefore(shown, sel.nextSibling);
+        }
+        // The value as the link holds it (short); the option's words when it has none.
+        var opt = sel.options[sel.selectedIndex];
+        shown.textContent = sel.value !== '' ? sel.value : (opt ? opt.textContent : '');
+      });
       // Data text areas print as text: every line up to a page or so, then a count.
       each('textarea[name]', function (t) {
         var pre = t.parentNode.querySelector('pre.print-text');

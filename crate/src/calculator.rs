@@ -222,7 +222,12 @@ pub fn plot_csv<C: Calculator>(raw: &RawInputs, plot: &str, link: &str) -> Optio
     if !link.is_empty() {
         preface.push(format!("link: {link}"));
     }
-    preface.push(format!("{} is log10 of {}", p.y_name, p.y_label));
+    // Say what the y column holds: a log10 only where the axis is one.
+    preface.push(if p.y_log {
+        format!("{} is log10 of {}", p.y_name, p.y_label)
+    } else {
+        format!("{} is {}", p.y_name, p.y_label)
+    });
     Some(p.to_csv(&preface))
 }
 

@@ -91,10 +91,18 @@ pub(super) fn linear_ticks(lo: f64, hi: f64) -> Vec<f64> {
 }
 
 /// Tick positions on an x axis of the given spacing (log axes in log10 units).
+#[cfg(test)]
 pub(super) fn x_ticks(spacing: Spacing, lo: f64, hi: f64) -> Vec<f64> {
+    x_ticks_within(spacing, lo, hi, 8.0)
+}
+
+/// As [`x_ticks`], aiming at about `most` labels (fewer on a narrow plot, whose labels
+/// would otherwise run into each other).
+pub(super) fn x_ticks_within(spacing: Spacing, lo: f64, hi: f64, most: f64) -> Vec<f64> {
+    let most = most.clamp(2.0, 8.0);
     match spacing {
         Spacing::Integer => {
-            let step = nice_step((hi - lo).max(1.0) / 8.0).max(1.0);
+            let step = nice_step((hi - lo).max(1.0) / most).max(1.0);
             let mut v: Vec<f64> = ladder(lo, hi, step, MAX_TICKS)
                 .into_iter()
                 .filter(|t| *t >= 1.0)
@@ -107,16 +115,17 @@ pub(super) fn x_ticks(spacing: Spacing, lo: f64, hi: f64) -> Vec<f64> {
             v
         }
         Spacing::Log => {
-            let dense = hi - lo < 2.5;
+            // 1-2-5 within a decade only where there is room for three labels a decade.
+            let dense = hi - lo < 2.5 && most >= 3.0 * (hi - lo).max(1.0);
             let mantissas: &[f64] = if dense { &[1.0, 2.0, 5.0] } else { &[1.0] };
-            let step = nice_step((hi - lo).max(1.0) / 8.0).max(1.0);
+            let step = nice_step((hi - lo).max(1.0) / most).max(1.0);
             ladder(lo.floor(), hi, step, MAX_TICKS)
                 .into_iter()
                 .flat_map(|d| mantissas.iter().map(move |m| d + m.log10()))
                 .filter(|t| *t >= lo - 1e-9 && *t <= hi + 1e-9)
                 .collect()
         }
-        Spacing::Linear => ladder(lo, hi, nice_step((hi - lo) / 6.0), MAX_TICKS),
+        Spacing::Linear => ladder(lo, hi, nice_step((hi - lo) / (most * 0.75)), MAX_TICKS),
     }
 }
 

@@ -17,7 +17,7 @@ pub mod series;
 pub use axis::{decade_label, decade_ticks};
 pub use series::{Curve, Plot, Spacing};
 
-use axis::{linear_ticks, x_ticks, TickedAxis};
+use axis::{linear_ticks, x_ticks_within, TickedAxis};
 
 /// Series colours, in order: our own calm palette.
 const INK: [RGBColor; 4] = [
@@ -252,11 +252,12 @@ pub fn draw<DB: DrawingBackend>(
             format_si(y, spec.y_unit)
         }
     };
-    let xk = x_ticks(spec.spacing, xlo, xhi);
     // Small charts (a phone, a printed page) get smaller text and room for it, so that
     // the plot keeps most of its area: full size from 420 CSS pixels wide.
     let css_width = f64::from(area.dim_in_pixel().0) / s;
     let k = (css_width / 420.0).clamp(0.72, 1.0);
+    // About one x label per 55 pixels of plot, so that labels never run together.
+    let xk = x_ticks_within(spec.spacing, xlo, xhi, (css_width - 80.0) / (55.0 * k));
     let font = |size: f64| ("sans-serif", size * s * k).into_font().color(&AXIS);
     // Room for the longest decade label ("1e-399153" needs more than "1e40").
     let widest = y_ticks
