@@ -1209,3 +1209,56 @@ fn the_text_report_lists_the_largest_crossings() {
     assert_eq!(rows, 24, "{all}");
     assert!(!all.contains("more (--all-rows"));
 }
+
+/// Notes travel: a design's `note` and `note:WORD` columns are kept per row and written
+/// back in the JSON (`rows[].notes`), the results CSV and the text report; any other
+/// column of the user's own is still refused, with the known names and how to carry it.
+#[test]
+fn notes_travel_with_their_rows() {
+    let corners = example("budget-corners.csv");
+    let design = "name,fclk,fdata,stages,note:owner,note\nirq,1.2GHz,2MHz,2,ana,\"waived, see CDC-12\"\ndbg,1.2GHz,100kHz,2,,\n";
+    let v = budget(design, Some(&corners), &[]).unwrap();
+    assert_eq!(
+        v["rows"][0]["notes"],
+        serde_json::json!({"note:owner": "ana", "note": "waived, see CDC-12"})
+    );
+    assert!(
+        v["rows"][1].get("notes").is_none(),
+        "blank notes are left out: {}",
+        v["rows"][1]
+    );
+    let raw = RawInputs::from_pairs([("design", design.to_string()), ("corners", corners.clone())]);
+    let case = BudgetCalculator::read(&raw).unwrap();
+    let report = BudgetCalculator::evaluate(&case);
+    let csv = BudgetCalculator::results_csv(&case, &report).unwrap();
+    let mut lines = csv.lines();
+    assert_eq!(lines.next(), Some("name,\"note:owner\",\"note\",corner,log10_fit,fit,share,stages,stages_after_fix,flip_flops_added"));
+    assert!(
+        lines
+            .next()
+            .unwrap()
+            .starts_with("\"irq\",\"ana\",\"waived, see CDC-12\",\"typical\","),
+        "{csv}"
+    );
+    let table = BudgetCalculator::text_table(&report, None).unwrap();
+    assert_eq!(table.header.last().map(String::as_str), Some("notes"));
+    assert!(
+        table
+            .rows
+            .iter()
+            .any(|r| r[5] == "note: waived, see CDC-12; note:owner: ana"),
+        "{:?}",
+        table.rows
+    );
+    let e = budget(
+        "name,fclk,fdata,stages,owner\nirq,1.2GHz,2MHz,2,ana\n",
+        Some(&corners),
+        &[],
+    )
+    .unwrap_err();
+    assert!(
+        e.contains("column owner: unknown column (known: name, fclk"),
+        "{e}"
+    );
+    assert!(e.contains("name it note or note:WORD"), "{e}");
+}

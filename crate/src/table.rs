@@ -111,6 +111,9 @@ pub struct Table {
     pub texts: Vec<Option<Vec<String>>>,
     /// The line of each row.
     pub lines: Vec<usize>,
+    /// Columns of the user's own that the reader was asked to keep (see [`read_keeping`]):
+    /// each its header name and its cells, as text, one per row.
+    pub kept: Vec<(String, Vec<String>)>,
 }
 
 impl Table {
@@ -485,6 +488,20 @@ pub const PROBLEMS_MOST: usize = 40;
 /// assert_eq!(e[0].to_string(), "line 2, column tr: 'fast' is not a number (write e.g. 20p, 20 ps, 2e-11 or 1.5GHz)");
 /// ```
 pub fn read(text: &str, columns: &[Column]) -> Result<Table, Vec<CellError>> {
+    read_keeping(text, columns, |_| None)
+}
+
+/// As [`read`], and columns of the user's own that `keep` accepts (say, notes) are kept
+/// as text instead of refused; for any other unknown column `keep` may give a hint that
+/// the message adds (how to carry such a column).
+///
+/// # Errors
+/// As [`read`].
+pub fn read_keeping(
+    text: &str,
+    columns: &[Column],
+    keep: impl Fn(&str) -> Option<Result<(), &'static str>>,
+) -> Result<Table, Vec<CellError>> {
     let mut errors = Vec::new();
     let mut lines = content_lines(text);
     let Some((header_line, header)) = lines.next() else {
@@ -502,8 +519,20 @@ pub fn read(text: &str, columns: &[Column]) -> Result<Table, Vec<CellError>> {
         .collect();
     let known: Vec<&str> = columns.iter().map(|c| c.name).collect();
     let mut at: Vec<Option<usize>> = vec![None; columns.len()];
+    let mut kept_at: Vec<(String, usize)> = Vec::new();
     for (i, n) in names.iter().enumerate() {
         match columns.iter().position(|c| c.name == n) {
+            None if keep(n) == Some(Ok(())) => {
+                if kept_at.iter().any(|(k, _)| k == n) {
+                    errors.push(CellError {
+                        line: header_line,
+                        column: Some(n.clone()),
+                        message: "the column is named twice".into(),
+                    });
+                } else {
+                    kept_at.push((n.clone(), i));
+                }
+            }
             Some(k) if at[k].is_some() => errors.push(CellError {
                 line: header_line,
                 column: Some(n.clone()),
@@ -517,7 +546,12 @@ pub fn read(text: &str, columns: &[Column]) -> Result<Table, Vec<CellError>> {
                 } else {
                     n.clone()
                 }),
-                message: format!("unknown column (known: {})", known.join(", ")),
+                message: match keep(n) {
+                    Some(Err(hint)) => {
+                        format!("unknown column (known: {}); {hint}", known.join(", "))
+                    }
+                    _ => format!("unknown column (known: {})", known.join(", ")),
+                },
             }),
         }
     }
@@ -541,6 +575,21 @@ pub fn read(text: &str, columns: &[Column]) -> Result<Table, Vec<CellError>> {
         .map(|(a, c)| a.filter(|_| c.dim == Dim::Text).map(|_| Vec::new()))
         .collect();
     let mut rows = Vec::new();
+    let mut kept: Vec<(String, Vec<String>)> = kept_at
+        .iter()
+        .map(|(n, _)| (n.clone(), Vec::new()))
+        .collect();
+    let mut keep_row = |text: &str| {
+        if kept_at.is_empty() {
+            return;
+        }
+        let row = cells(text, delim);
+        for (k, (_, i)) in kept_at.iter().enumerate() {
+            kept[k]
+                .1
+                .push(row.get(*i).map(|c| c.to_string()).unwrap_or_default());
+        }
+    };
     let mut remembered = REMEMBER.with(Cell::get).then(|| {
         let key = format!("{}\u{0}{}\u{0}{header}", known.join(","), delim);
         REMEMBERED.with(|r| {
@@ -576,9 +625,11 @@ pub fn read(text: &str, columns: &[Column]) -> Result<Table, Vec<CellError>> {
                 }
                 // A row with bad cells still counts as a row.
                 rows.push(line);
+                keep_row(text);
             }
             Ok(cells) => {
                 rows.push(line);
+                keep_row(text);
                 for (k, cell) in cells.iter().enumerate() {
                     match cell {
                         RowCell::Absent => {}
@@ -632,6 +683,7 @@ pub fn read(text: &str, columns: &[Column]) -> Result<Table, Vec<CellError>> {
             numbers: values,
             texts,
             lines: rows,
+            kept,
         })
     } else {
         Err(errors)

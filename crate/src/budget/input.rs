@@ -6,7 +6,7 @@ use crate::params::{positive_number, whole, FieldReader, RawInputs};
 use crate::quantity::Time;
 use crate::reliability::Fleet;
 use crate::synchronizer::fields as sync;
-use crate::table::{read, Column};
+use crate::table::{read, read_keeping, Column};
 use crate::units::{format_si, Dim};
 
 use super::fields::{
@@ -58,6 +58,8 @@ pub struct BudgetCase {
     pub signoff_p95: bool,
     /// Each corner's share of service time (a mission profile), when the corners give it.
     pub hours: Option<Vec<f64>>,
+    /// The design's note columns: each its name and one text per row.
+    pub notes: Vec<(String, Vec<String>)>,
 }
 
 /// The design's columns: each a synchronizer field, with that field's limits.
@@ -77,6 +79,20 @@ const DESIGN_COLUMNS: [Column; 11] = [
     Column::of(sync::TSU).non_negative().optional(),
     Column::of(sync::TCQ).non_negative().optional(),
 ];
+
+/// Which of a design's own columns are kept: `note` and `note:WORD` (an owner, a waiver,
+/// a ticket) travel with their rows into every export; any other is refused, with how to
+/// carry it.
+fn note_column(name: &str) -> Option<Result<(), &'static str>> {
+    Some(if name == "note" || name.starts_with("note:") {
+        Ok(())
+    } else {
+        Err(
+            "to carry a column of your own with each row, name it note or note:WORD \
+             (note:owner, note:waiver)",
+        )
+    })
+}
 
 /// The most instances one row may count (a billion: far beyond any chip's crossings).
 pub const MAX_COUNT: f64 = 1e9;
@@ -271,7 +287,7 @@ impl BudgetCase {
             r.push(ParamError::new(DESIGN.name, ParamErrorKind::Missing));
             return Err(r.into_errors());
         };
-        let table = match read(text, &DESIGN_COLUMNS) {
+        let table = match read_keeping(text, &DESIGN_COLUMNS, note_column) {
             Ok(t) => Some(t),
             Err(p) => {
                 r.push(ParamError::new(
@@ -383,6 +399,7 @@ impl BudgetCase {
             .iter()
             .map(|c| c.hours)
             .collect::<Option<Vec<f64>>>();
+        let notes = table.kept.clone();
         Ok(BudgetCase {
             rollup: Rollup {
                 cells,
@@ -392,6 +409,7 @@ impl BudgetCase {
             names,
             tr_given,
             hours,
+            notes,
             corners: corners.into_iter().map(|c| c.name).collect(),
             corners_from_table,
             budget_fit,

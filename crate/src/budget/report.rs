@@ -45,6 +45,9 @@ pub struct RowFit {
     pub log10_fit: f64,
     /// Its share of the worst corner's total.
     pub share: f64,
+    /// Its notes (the design's `note` and `note:WORD` columns), where not blank.
+    #[serde(skip_serializing_if = "std::collections::BTreeMap::is_empty")]
+    pub notes: std::collections::BTreeMap<String, String>,
 }
 
 /// A row the fix plan changes.
@@ -160,6 +163,12 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
             stages: if c.tr_given[i] { 0 } else { r.stages[i] },
             log10_fit: *f,
             share: rel[i] / sum,
+            notes: c
+                .notes
+                .iter()
+                .filter(|(_, v)| !v[i].is_empty())
+                .map(|(k, v)| (k.clone(), v[i].clone()))
+                .collect(),
         })
         .collect();
     let mut order: Vec<usize> = (0..rows.len()).collect();
@@ -365,12 +374,13 @@ pub fn text_table(report: &BudgetReport, most: Option<usize>) -> crate::calculat
             (_, s) => s.to_string(),
         }
     };
+    let with_notes = report.rows.iter().any(|r| !r.notes.is_empty());
     let rows = order
         .iter()
         .take(most.unwrap_or(usize::MAX))
         .map(|&i| {
             let r = &report.rows[i];
-            vec![
+            let mut row = vec![
                 r.name.clone(),
                 format_figure("log10", r.log10_fit),
                 format_figure("fraction", r.share),
@@ -380,14 +390,33 @@ pub fn text_table(report: &BudgetReport, most: Option<usize>) -> crate::calculat
                     r.stages.to_string()
                 },
                 after(i),
-            ]
+            ];
+            if with_notes {
+                row.push(
+                    r.notes
+                        .iter()
+                        .map(|(k, v)| format!("{k}: {v}"))
+                        .collect::<Vec<_>>()
+                        .join("; "),
+                );
+            }
+            row
         })
         .collect();
     crate::calculator::TextTable {
         title: format!("Largest crossings at {}", report.worst_corner),
-        header: ["crossing", "FIT", "share", "stages", "after the fix"]
-            .map(String::from)
-            .to_vec(),
+        header: [
+            "crossing",
+            "FIT",
+            "share",
+            "stages",
+            "after the fix",
+            "notes",
+        ]
+        .into_iter()
+        .take(if with_notes { 6 } else { 5 })
+        .map(String::from)
+        .collect(),
         rows,
         total: report.rows.len(),
     }
@@ -413,8 +442,12 @@ fn decimal_of_log10(x: f64) -> String {
 pub fn results_csv(c: &BudgetCase, report: &BudgetReport) -> String {
     use crate::chart::series::text_cell;
     let r = &c.rollup;
-    let mut out =
-        String::from("name,corner,log10_fit,fit,share,stages,stages_after_fix,flip_flops_added\n");
+    let mut out = String::from("name");
+    for (k, _) in &c.notes {
+        out.push(',');
+        out.push_str(&text_cell(k));
+    }
+    out.push_str(",corner,log10_fit,fit,share,stages,stages_after_fix,flip_flops_added\n");
     let after = report.stages_after_fix.as_ref();
     for (k, corner) in c.corners.iter().enumerate() {
         let fits = r.row_fits(k, &r.stages);
@@ -431,8 +464,13 @@ pub fn results_csv(c: &BudgetCase, report: &BudgetReport) -> String {
                 Some(a) if !c.tr_given[i] => f64::from(a[i] - now) * r.counts[i],
                 _ => 0.0,
             };
+            let notes: String = c
+                .notes
+                .iter()
+                .map(|(_, v)| format!(",{}", text_cell(&v[i])))
+                .collect();
             out.push_str(&format!(
-                "{},{},{f:e},{},{:e},{stages},{later},{added}\n",
+                "{}{notes},{},{f:e},{},{:e},{stages},{later},{added}\n",
                 text_cell(&c.names[i]),
                 text_cell(corner),
                 decimal_of_log10(*f),
