@@ -18,7 +18,7 @@ pub const DESIGN: FieldSpec = FieldSpec {
     name: "design",
     dim: Dim::Text,
     help: "the crossings, CSV: name, fclk, fdata, stages or tr, count; optional tau, tw or \
-           t0, tsu, tcq per row",
+           t0, tsu, tcq per row, and note or note:WORD columns of your own",
     limits: (0.0, 0.0),
     usual: (0.0, 0.0),
 };

@@ -37,7 +37,8 @@ Usage: latchwise budget DESIGN.csv [--corners FILE | --tau T --tw W|--t0 W --tsu
 
 DESIGN.csv: one row per crossing: name, fclk, fdata, stages or tr, count (instances,
 default 1: a 32-bit bus synchronized bit by bit counts 32); optional tau, tw or t0, tsu,
-tcq, which hold for that row at every corner. The corners file: corner, tau, tw or t0,
+tcq, which hold for that row at every corner; and columns of your own named note or
+note:WORD (note:owner, note:waiver), kept with each row in every export. The corners file: corner, tau, tw or t0,
 tsu, tcq, one row per named corner, and optionally hours, each corner's share of service
 time (summing to 1), which weights the fleet figures; without it the options give one
 corner, 'given'.
