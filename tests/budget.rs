@@ -1262,3 +1262,47 @@ fn notes_travel_with_their_rows() {
     );
     assert!(e.contains("name it note or note:WORD"), "{e}");
 }
+
+/// Count and width: `count` instances of `width` flip-flops per stage. A stage on a 5-bit
+/// Gray pointer costs 5 flip-flops, so where a pointer and a 1-bit crossing fail alike
+/// the plan deepens the bit first, and counts the pointer's flip-flops by its width;
+/// `max_stages` caps a row, and a plan that only capped rows could finish says which.
+#[test]
+fn the_fix_plan_counts_width_and_respects_max_stages() {
+    let corners = "corner,tau,tw,tsu,tcq\nslow,24ps,30ps,40ps,70ps\n";
+    // Two crossings of equal FIT; the budget needs one of them fixed.
+    let design =
+        "name,fclk,fdata,stages,count,width\nptr,1.2GHz,50MHz,2,1,5\nbit,1.2GHz,50MHz,2,1,\n";
+    let v = budget(design, Some(corners), &[("budget-fit", "8e5")]).unwrap();
+    let rows = v["rows"].as_array().unwrap();
+    assert_eq!(rows[0]["width"], 5.0);
+    assert_eq!(rows[0]["flip_flops"], 10.0);
+    assert_eq!(rows[1]["flip_flops"], 2.0);
+    let fix = v["fix"].as_array().unwrap();
+    assert_eq!(fix.len(), 1, "{fix:?}");
+    assert_eq!(fix[0]["name"], "bit");
+    assert_eq!(v["added_flip_flops"], 1.0);
+    // A budget that needs both: the pointer's stage counts five flip-flops.
+    let v = budget(design, Some(corners), &[("budget-fit", "1")]).unwrap();
+    assert_eq!(v["added_flip_flops"], 6.0, "{}", v["fix"]);
+    // The pointer capped at 2 stages: no plan, and the reason names it.
+    let capped = design
+        .replace("count,width\n", "count,width,max_stages\n")
+        .replace(",1,5\n", ",1,5,2\n")
+        .replace(",1,\n", ",1,,\n");
+    let v = budget(&capped, Some(corners), &[("budget-fit", "1")]).unwrap();
+    assert!(v["fix"].is_null());
+    assert!(
+        v["not_applicable"]["fix"]
+            .as_str()
+            .unwrap()
+            .contains("or at their max_stages (ptr)"),
+        "{}",
+        v["not_applicable"]
+    );
+    let e = budget(&capped.replace(",1,5,2\n", ",1,5,1\n"), Some(corners), &[]).unwrap_err();
+    assert!(
+        e.contains("column max_stages: 1 is below the row's stages, 2"),
+        "{e}"
+    );
+}

@@ -54,6 +54,12 @@ impl Column {
         Column::any(spec.name, spec.dim).within(spec.limits.0, spec.limits.1)
     }
 
+    /// The same column under another name (a field's limits for a column of its own).
+    pub const fn renamed(mut self, name: &'static str) -> Column {
+        self.name = name;
+        self
+    }
+
     /// The same column, its non-zero magnitudes limited to `lo..=hi`.
     pub const fn within(mut self, lo: f64, hi: f64) -> Column {
         self.limits = (lo, hi);

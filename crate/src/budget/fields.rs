@@ -17,8 +17,8 @@ const fn time(name: &'static str, help: &'static str) -> FieldSpec {
 pub const DESIGN: FieldSpec = FieldSpec {
     name: "design",
     dim: Dim::Text,
-    help: "the crossings, CSV: name, fclk, fdata, stages or tr, count; optional tau, tw or \
-           t0, tsu, tcq per row, and note or note:WORD columns of your own",
+    help: "the crossings, CSV: name, fclk, fdata, stages or tr, count; optional width, \
+           max_stages, tau, tw or t0, tsu, tcq per row, and note or note:WORD columns",
     limits: (0.0, 0.0),
     usual: (0.0, 0.0),
 };

@@ -63,7 +63,7 @@ pub struct BudgetCase {
 }
 
 /// The design's columns: each a synchronizer field, with that field's limits.
-const DESIGN_COLUMNS: [Column; 11] = [
+const DESIGN_COLUMNS: [Column; 13] = [
     Column::any("name", Dim::Text),
     Column::of(sync::FCLK).positive(),
     Column::of(sync::FDATA).positive(),
@@ -78,6 +78,16 @@ const DESIGN_COLUMNS: [Column; 11] = [
     Column::of(sync::T0).positive().optional(),
     Column::of(sync::TSU).non_negative().optional(),
     Column::of(sync::TCQ).non_negative().optional(),
+    // Flip-flops per stage of one instance (a 5-bit Gray pointer: 5): the fix plan's cost.
+    Column::any("width", Dim::Count)
+        .within(1.0, 1e6)
+        .positive()
+        .optional(),
+    // The most stages the fix plan may give the row.
+    Column::of(sync::STAGES)
+        .renamed("max_stages")
+        .positive()
+        .optional(),
 ];
 
 /// Which of a design's own columns are kept: `note` and `note:WORD` (an owner, a waiver,
@@ -304,11 +314,14 @@ impl BudgetCase {
         let col = |i| table.optional(i);
         let (fclk, fdata, stages, tr, count) = (col(1), col(2), col(3), col(4), col(5));
         let (tau, tw, t0, tsu, tcq) = (col(6), col(7), col(8), col(9), col(10));
+        let (width, cap) = (col(11), col(12));
         let at = |v: &Vec<Option<f64>>, i: usize| v.get(i).copied().flatten();
         let mut problems: Vec<String> = Vec::new();
         let mut cells = Vec::with_capacity(table.len());
         let mut row_stages = Vec::with_capacity(table.len());
         let mut counts = Vec::with_capacity(table.len());
+        let mut widths = Vec::with_capacity(table.len());
+        let mut caps = Vec::with_capacity(table.len());
         let mut tr_given = Vec::with_capacity(table.len());
         // Each crossing by its own name: the fix plan and the results name rows.
         let mut first_line: std::collections::HashMap<&str, usize> =
@@ -328,6 +341,23 @@ impl BudgetCase {
                 continue;
             };
             let n = at(&count, i).unwrap_or(1.0);
+            let wd = at(&width, i).unwrap_or(1.0);
+            if wd.fract() != 0.0 {
+                problems.push(here(format!("column width: '{wd}' is not a whole number")));
+            }
+            let most = at(&cap, i);
+            if let Some(m) = most {
+                if m.fract() != 0.0 {
+                    problems.push(here(format!(
+                        "column max_stages: '{m}' is not a whole number from 1 to 1000"
+                    )));
+                } else if m < at(&stages, i).unwrap_or(1.0) {
+                    problems.push(here(format!(
+                        "column max_stages: {m} is below the row's stages, {}",
+                        at(&stages, i).unwrap_or(1.0)
+                    )));
+                }
+            }
             if n.fract() != 0.0 {
                 problems.push(here(format!("column count: '{n}' is not a whole number")));
             }
@@ -384,6 +414,8 @@ impl BudgetCase {
             cells.push(row);
             row_stages.push(st.unwrap_or(1.0) as u32);
             counts.push(n);
+            widths.push(wd);
+            caps.push(most.map_or(MAX_STAGES, |m| m as u32));
             tr_given.push(trv.is_some());
         }
         if !problems.is_empty() {
@@ -405,6 +437,8 @@ impl BudgetCase {
                 cells,
                 stages: row_stages,
                 counts,
+                widths,
+                caps,
             },
             names,
             tr_given,

@@ -36,7 +36,10 @@ Usage: latchwise budget DESIGN.csv [--corners FILE | --tau T --tw W|--t0 W --tsu
                         [--results FILE.csv] [--all-rows] [--json]
 
 DESIGN.csv: one row per crossing: name, fclk, fdata, stages or tr, count (instances,
-default 1: a 32-bit bus synchronized bit by bit counts 32); optional tau, tw or t0, tsu,
+default 1: a 32-bit bus synchronized bit by bit counts 32); optional width (flip-flops
+per stage of one instance: a 5-bit Gray pointer is count 1, width 5; a stage then costs
+count x width flip-flops in the fix plan) and max_stages (the plan never passes it);
+optional tau, tw or t0, tsu,
 tcq, which hold for that row at every corner; and columns of your own named note or
 note:WORD (note:owner, note:waiver), kept with each row in every export. The corners file: corner, tau, tw or t0,
 tsu, tcq, one row per named corner, and optionally hours, each corner's share of service

@@ -39,6 +39,10 @@ pub struct RowFit {
     pub name: String,
     /// Its instances.
     pub count: f64,
+    /// Flip-flops per stage of one instance.
+    pub width: f64,
+    /// Its flip-flops: count x width x stages (0 when tr is given).
+    pub flip_flops: f64,
     /// Its stages (0 when tr is given).
     pub stages: u32,
     /// log10 of its FIT, count included.
@@ -160,6 +164,12 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
         .map(|(i, f)| RowFit {
             name: c.names[i].clone(),
             count: r.counts[i],
+            width: r.widths[i],
+            flip_flops: if c.tr_given[i] {
+                0.0
+            } else {
+                r.counts[i] * r.widths[i] * f64::from(r.stages[i])
+            },
             stages: if c.tr_given[i] { 0 } else { r.stages[i] },
             log10_fit: *f,
             share: rel[i] / sum,
@@ -215,18 +225,34 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
                 .map(|(i, s)| FixRow {
                     name: c.names[i].clone(),
                     stages: *s,
-                    added_flip_flops: f64::from(s - r.stages[i]) * r.counts[i],
+                    added_flip_flops: f64::from(s - r.stages[i]) * r.counts[i] * r.widths[i],
                 })
                 .collect::<Vec<_>>()
         })
     });
+    // The rows the plan may not deepen past their max_stages, named when the plan fails.
+    let capped = {
+        let names: Vec<&str> = (0..r.caps.len())
+            .filter(|&i| r.caps[i] < super::rollup::MAX_STAGES && !c.tr_given[i])
+            .map(|i| c.names[i].as_str())
+            .collect();
+        match names.len() {
+            0 => String::new(),
+            n if n <= 10 => format!(" or at their max_stages ({})", names.join(", ")),
+            n => format!(
+                " or at their max_stages ({}, and {} more)",
+                names[..10].join(", "),
+                n - 10
+            ),
+        }
+    };
     if let Some(None) = fixed {
         for key in ["fix", "added_flip_flops", "log10_total_fit_after_fix"] {
             not_applicable.push((
                 key,
                 format!(
-                    "adding stages cannot meet the budget{}: rows given by tr or at 1000 \
-                     stages already exceed it",
+                    "adding stages cannot meet the budget{}: rows given by tr, at 1000 \
+                     stages{capped} already exceed it",
                     if c.signoff_p95 {
                         " at the 95th percentile"
                     } else {
@@ -461,7 +487,7 @@ pub fn results_csv(c: &BudgetCase, report: &BudgetReport) -> String {
                 (now.to_string(), later.to_string())
             };
             let added = match after {
-                Some(a) if !c.tr_given[i] => f64::from(a[i] - now) * r.counts[i],
+                Some(a) if !c.tr_given[i] => f64::from(a[i] - now) * r.counts[i] * r.widths[i],
                 _ => 0.0,
             };
             let notes: String = c

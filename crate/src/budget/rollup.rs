@@ -64,6 +64,10 @@ pub struct Rollup {
     pub stages: Vec<u32>,
     /// Instances of each row.
     pub counts: Vec<f64>,
+    /// Flip-flops per stage of one instance of each row (its width; 1 for one bit).
+    pub widths: Vec<f64>,
+    /// The most stages the fix plan may give each row.
+    pub caps: Vec<u32>,
 }
 
 /// log10 of a sum of numbers given by their log10.
@@ -161,11 +165,12 @@ impl Rollup {
             }
         }
         let gain = |cur: &[f64], k: usize, r: usize, s: u32| {
-            (cur[r * corners + k] - lin(k, r, s + 1)) / self.counts[r]
+            // FIT removed per flip-flop added: a stage costs count x width flip-flops.
+            (cur[r * corners + k] - lin(k, r, s + 1)) / (self.counts[r] * self.widths[r])
         };
         let candidates = |cur: &[f64], k: usize, stages: &[u32]| -> BinaryHeap<Gain> {
             (0..self.cells.len())
-                .filter(|&r| self.cells[r][k].tr.is_none() && stages[r] < MAX_STAGES)
+                .filter(|&r| self.cells[r][k].tr.is_none() && stages[r] < self.caps[r])
                 .map(|r| Gain(gain(cur, k, r, stages[r]), r, stages[r]))
                 .collect()
         };
@@ -212,7 +217,7 @@ impl Rollup {
                 totals = sum_afresh(&cur);
                 summed.clone_from(&totals);
             }
-            if stages[r] < MAX_STAGES {
+            if stages[r] < self.caps[r] {
                 heap.push(Gain(gain(&cur, at, r, stages[r]), r, stages[r]));
             }
         }
