@@ -1306,3 +1306,51 @@ fn the_fix_plan_counts_width_and_respects_max_stages() {
         "{e}"
     );
 }
+
+/// The command names each problem by the file as the user gave it (a table from a link by
+/// its field, "design table"), with the line and the column.
+#[test]
+fn problems_are_named_by_the_file_given() {
+    let dir = std::env::temp_dir().join(format!("latchwise-named-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let file = dir.join("chip.csv");
+    std::fs::write(&file, "name,fclk,fdata,stages\nhot,1e300,1MHz,2\n").unwrap();
+    let out = Command::new(env!("CARGO_BIN_EXE_latchwise"))
+        .args([
+            "budget",
+            file.to_str().unwrap(),
+            "--tau",
+            "20ps",
+            "--tw",
+            "40ps",
+            "--tsu",
+            "30ps",
+            "--tcq",
+            "50ps",
+        ])
+        .output()
+        .unwrap();
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert_eq!(out.status.code(), Some(2));
+    assert!(
+        err.contains(&format!(
+            "latchwise budget: {}, line 2, column fclk: '1e300' is too large",
+            file.display()
+        )),
+        "{err}"
+    );
+    let out = Command::new(env!("CARGO_BIN_EXE_latchwise"))
+        .args([
+            "budget",
+            "--from-url",
+            "?design=name,fclk,fdata,stages%0Ahot,1e300,1MHz,2&tau=20ps&tw=40ps&tsu=30ps&tcq=50ps",
+        ])
+        .output()
+        .unwrap();
+    let err = String::from_utf8_lossy(&out.stderr);
+    assert!(
+        err.contains("latchwise budget: design table, line 2, column fclk"),
+        "{err}"
+    );
+    std::fs::remove_dir_all(&dir).ok();
+}

@@ -387,8 +387,8 @@ fn the_command_reads_files_and_standard_input() {
     );
     assert_eq!(code, 2);
     assert!(
-        err.contains("latchwise fit: data: line 2, column failures")
-            && err.contains("latchwise fit: data: line 3, column duration"),
+        err.contains("latchwise fit: standard input, line 2, column failures")
+            && err.contains("latchwise fit: standard input, line 3, column duration"),
         "{err}"
     );
     let (code, out, _) = cli(&["help", "fit"], None);

@@ -53,6 +53,8 @@ pub struct Parsed {
     pub results: Option<String>,
     /// `--all-rows`: the text report's table lists every row, not the largest 20.
     pub all_rows: bool,
+    /// Each table field given as a file, with the path as the user wrote it.
+    pub files: Vec<(String, String)>,
 }
 
 /// Parses `args` against `fields`, reading old names as `aliases` say.
@@ -80,6 +82,7 @@ pub fn parse(
             };
             let is_file = fields.iter().any(|f| f.name == *name && f.dim == Dim::Text);
             let value = if is_file {
+                out.files.push(((*name).to_string(), a.clone()));
                 read_file(a, &mut stamp)?
             } else {
                 feed(&mut stamp, b"operand", a.as_bytes());
@@ -139,6 +142,7 @@ pub fn parse(
                     let is_file = fields.iter().any(|f| f.name == name && f.dim == Dim::Text);
                     feed(&mut stamp, b"option", name.as_bytes());
                     let value = if is_file {
+                        out.files.push((name.to_string(), value.clone()));
                         read_file(&value, &mut stamp)?
                     } else {
                         feed(&mut stamp, b"value", value.as_bytes());

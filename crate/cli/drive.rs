@@ -90,8 +90,32 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
                 match &e.kind {
                     // A table's problems, one line each under the field's name.
                     ParamErrorKind::Table(problems) => {
+                        // Named by the file as the user gave it: "design.csv, line 3, ...".
+                        let file = parsed
+                            .files
+                            .iter()
+                            .rev()
+                            .find(|(f, _)| f == e.field)
+                            .map_or_else(
+                                // From a link: the table by its field's name.
+                                || format!("{} table", e.field),
+                                |(_, path)| {
+                                    if path == "-" {
+                                        "standard input".to_string()
+                                    } else {
+                                        path.clone()
+                                    }
+                                },
+                            );
                         for p in problems {
-                            complain(&format!("latchwise {name}: {}: {p}", e.field));
+                            let own = format!("{}, ", e.field);
+                            if let Some(rest) = p.strip_prefix(&own) {
+                                complain(&format!("latchwise {name}: {file}, {rest}"));
+                            } else if p.starts_with("line ") || p.starts_with("and ") {
+                                complain(&format!("latchwise {name}: {file}, {p}"));
+                            } else {
+                                complain(&format!("latchwise {name}: {}: {p}", e.field));
+                            }
                         }
                     }
                     _ => complain(&format!("latchwise {name}: {e}")),
