@@ -294,6 +294,18 @@
     }
   }
 
+  // The print-only element of class `cls` just after `el` (made on first use), which
+  // shows on paper what the control cannot.
+  function printedBeside(el, tag, cls) {
+    var shown = el.parentNode.querySelector(tag + '.' + cls);
+    if (!shown) {
+      shown = document.createElement(tag);
+      shown.className = 'print-only ' + cls;
+      el.parentNode.insertBefore(shown, el.nextSibling);
+    }
+    return shown;
+  }
+
   // The most lines of a data text area a printed report shows.
   var PRINT_MOST_LINES = 120;
 
@@ -629,27 +641,16 @@
         stamp.textContent = 'latchwise ' + wasm_bindgen.version() + ' · printed ' +
           new Date().toISOString().slice(0, 16).replace('T', ' ') + ' UTC · ' + here;
       }
-      // A drop-down list prints its choice as text (a select clips it on paper).
+      // A drop-down list prints its choice as text (a select clips it on paper): the
+      // value as the link holds it (short), or the option's words when it has none.
       each('select[name]', function (sel) {
-        var shown = sel.parentNode.querySelector('span.print-choice');
-        if (!shown) {
-          shown = document.createElement('span');
-          shown.className = 'print-only print-choice';
-          sel.parentNode.insertBefore(shown, sel.nextSibling);
-        }
-        // The value as the link holds it (short); the option's words when it has none.
         var opt = sel.options[sel.selectedIndex];
-        shown.textContent = sel.value !== '' ? sel.value : (opt ? opt.textContent : '');
+        printedBeside(sel, 'span', 'print-choice').textContent =
+          sel.value !== '' ? sel.value : (opt ? opt.textContent : '');
       });
       // Data text areas print as text: every line up to a page or so, then a count.
       each('textarea[name]', function (t) {
-        var pre = t.parentNode.querySelector('pre.print-text');
-        if (!pre) {
-          pre = document.createElement('pre');
-          pre.className = 'print-only print-text';
-          t.parentNode.insertBefore(pre, t.nextSibling);
-        }
-        pre.textContent = printText(t);
+        printedBeside(t, 'pre', 'print-text').textContent = printText(t);
       });
       var signoff = document.getElementById('signoff');
       if (signoff && window.LatchwiseSignoff) {
