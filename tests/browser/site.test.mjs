@@ -34,3 +34,18 @@ test('the navigation opens each calculator on its own last case, carrying nothin
   assert.equal(await page.inputValue('[name="fclk"]'), '1GHz', 'no slicer clock lands in the synchronizer');
   await context.close();
 });
+
+test('every page prints on A4 and Letter with no input value, result or note clipped', async () => {
+  for (const file of ['index.html', 'comparator.html', 'characterize.html', 'budget.html']) {
+    for (const [paper, width] of [['A4', 794 - 2 * 45], ['Letter', 816 - 2 * 45]]) {
+      const { context, page } = await open(env.browser, fileUrl(file), { width });
+      await page.pdf({ format: paper }); // runs the page's print preparation
+      await page.emulateMedia({ media: 'print' });
+      const clipped = await page.$$eval('input[name], output[name], .print-choice, .results dd, .results dt, #print-stamp', (els) => els
+        .filter((e) => e.offsetParent !== null && e.scrollWidth > e.clientWidth + 1)
+        .map((e) => `${e.tagName.toLowerCase()}[${e.getAttribute('name') || e.className || e.id}] ${e.scrollWidth} > ${e.clientWidth}: ${e.value || e.textContent}`));
+      assert.deepEqual(clipped, [], `${file} on ${paper}`);
+      await context.close();
+    }
+  }
+});
