@@ -522,3 +522,48 @@ fn csv_labels_say_what_they_hold_and_narrow_plots_thin_their_labels() {
         "{narrow} labels at 220 px, {wide} at 640 px"
     );
 }
+
+/// The FIT-per-crossing plot names its crossings on the axis: the largest 30, standing
+/// on end when they do not fit side by side, and the title counts the rest.
+#[test]
+fn the_largest_thirty_crossings_are_named_on_the_axis() {
+    use latchwise::budget::BudgetCalculator;
+    let mut design = String::from("name,fclk,fdata,stages\n");
+    for i in 0..40 {
+        design.push_str(&format!("crossing_{i:02},1GHz,{}MHz,2\n", 1 + i));
+    }
+    let raw = RawInputs::from_pairs([
+        ("design", design),
+        (
+            "corners",
+            "corner,tau,tw,tsu,tcq\nslow,20ps,30ps,30ps,50ps\n".to_string(),
+        ),
+    ]);
+    let case = BudgetCalculator::read(&raw).unwrap();
+    let report = BudgetCalculator::evaluate(&case);
+    let rows = BudgetCalculator::plots(&case, &report)
+        .into_iter()
+        .find(|p| p.id == "plot-rows")
+        .unwrap();
+    assert!(
+        rows.title.contains("the largest 30 of 40"),
+        "{}",
+        rows.title
+    );
+    let (out, drawn) = svg(&rows, None);
+    assert_eq!(drawn.points, 30);
+    let labels = texts(&out);
+    // The largest is the fastest data (crossing_39), the 30th crossing_10.
+    for name in ["crossing_39", "crossing_25", "crossing_10"] {
+        assert!(
+            labels.iter().any(|t| t == name),
+            "{name} not on the axis: {labels:?}"
+        );
+    }
+    assert!(
+        !labels.iter().any(|t| t == "crossing_09"),
+        "only the largest 30"
+    );
+    // Standing on end: rotated text in the SVG.
+    assert!(out.contains("rotate(90"), "names stand on end");
+}

@@ -744,9 +744,9 @@ impl BudgetReport {
 /// The most changed crossings the fix plan's sentence names; the JSON has them all.
 const MOST_FIXES_NAMED: usize = 12;
 
-/// The most crossings the per-row plot shows (the largest): more points are no more
-/// readable, and the CSV export of the design has them all.
-const MOST_ROWS_PLOTTED: usize = 500;
+/// The most crossings the per-row plot shows, the largest, each named on its axis; the
+/// title counts the rest, and the results CSV has them all.
+const MOST_ROWS_PLOTTED: usize = 30;
 
 /// The plots: each row's FIT at the worst corner, largest first, and each corner's total,
 /// with the budget line; the spread of the total under uncertainty when it is asked.

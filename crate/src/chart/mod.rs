@@ -8,6 +8,7 @@ use std::fmt;
 
 use plotters::coord::Shift;
 use plotters::prelude::*;
+use plotters::style::text_anchor::{HPos, Pos, VPos};
 
 use crate::units::{format_number, format_si};
 
@@ -144,22 +145,58 @@ fn to_axis_x(spacing: Spacing, x: f64) -> f64 {
 /// The most named categories an axis labels by name (more would overlap).
 const NAMES_ON_AXIS_MOST: usize = 8;
 
-/// How many characters of each category name fit under the axis at `css_width` pixels
-/// with type scaled by `k` (about 6.5 px a character at full size, 14 at most); `None`
-/// when not even a short name fits, and the axis shows numbers.
-fn names_fit(spec: &Plot, css_width: f64, k: f64) -> Option<usize> {
-    let n = spec.x_names.len();
-    if n == 0 || n > NAMES_ON_AXIS_MOST {
-        return None;
-    }
-    let room = ((css_width - 90.0) / n as f64 - 6.0) / (6.5 * k);
-    Some(room.floor().min(14.0) as usize).filter(|c| *c >= 4)
+/// The most named categories an axis stands on end (read upwards), one a tick.
+const NAMES_STANDING_MOST: usize = 30;
+
+/// How a category axis shows its names.
+#[derive(Debug, Clone, Copy, PartialEq)]
+enum Names {
+    /// Numbers only (no names, or no room for them).
+    None,
+    /// Level, each cut to this many characters.
+    Level(usize),
+    /// Standing on end, each cut to this many characters.
+    Standing(usize),
 }
 
-fn x_label_text(spec: &Plot, x: f64, named: Option<usize>) -> String {
+/// How the plot's category names fit under its axis at `css_width` pixels with type
+/// scaled by `k` (about 6.5 px a character at full size, 14 at most): level when a few
+/// short names fit side by side, else standing on end when each has a line of its own.
+fn names_fit(spec: &Plot, css_width: f64, k: f64) -> Names {
+    let n = spec.x_names.len();
+    if n == 0 {
+        return Names::None;
+    }
+    let per = (css_width - 90.0) / n as f64;
+    let level = ((per - 6.0) / (6.5 * k)).floor().min(14.0) as usize;
+    if n <= NAMES_ON_AXIS_MOST && level >= 4 {
+        let longest = spec
+            .x_names
+            .iter()
+            .map(|s| s.chars().count())
+            .max()
+            .unwrap_or(0);
+        if level >= longest.min(14) || n <= 3 {
+            return Names::Level(level);
+        }
+    }
+    if n <= NAMES_STANDING_MOST && per >= 13.0 * k {
+        return Names::Standing(14);
+    }
+    if level >= 4 && n <= NAMES_ON_AXIS_MOST {
+        return Names::Level(level);
+    }
+    Names::None
+}
+
+fn x_label_text(spec: &Plot, x: f64, named: Names) -> String {
+    let most = match named {
+        Names::Level(m) | Names::Standing(m) => Some(m),
+        Names::None => None,
+    };
     match spec.spacing {
-        Spacing::Integer if named.is_some() => {
-            let most = named.unwrap_or(14);
+        Spacing::Integer if most.is_some() => {
+            let most = most.unwrap_or(14);
             let i = (x.round() as usize).wrapping_sub(1);
             spec.x_names.get(i).map_or(String::new(), |n| {
                 if n.chars().count() <= most {
@@ -256,8 +293,26 @@ pub fn draw<DB: DrawingBackend>(
     // the plot keeps most of its area: full size from 420 CSS pixels wide.
     let css_width = f64::from(area.dim_in_pixel().0) / s;
     let k = (css_width / 420.0).clamp(0.72, 1.0);
-    // About one x label per 55 pixels of plot, so that labels never run together.
-    let xk = x_ticks_within(spec.spacing, xlo, xhi, (css_width - 80.0) / (55.0 * k));
+    // About one x label per 55 pixels of plot, so that labels never run together; names
+    // standing on end take a tick each.
+    let named = names_fit(spec, css_width, k);
+    let xk = match named {
+        Names::Standing(_) => (1..=spec.x_names.len()).map(|i| i as f64).collect(),
+        _ => x_ticks_within(spec.spacing, xlo, xhi, (css_width - 80.0) / (55.0 * k)),
+    };
+    // Standing names need the height of the longest below the axis.
+    let x_area = match named {
+        Names::Standing(m) => {
+            let longest = spec
+                .x_names
+                .iter()
+                .map(|s| s.chars().count().min(m))
+                .max()
+                .unwrap_or(4) as f64;
+            (24.0 + 6.2 * longest) * k
+        }
+        _ => 42.0 * k,
+    };
     let font = |size: f64| ("sans-serif", size * s * k).into_font().color(&AXIS);
     // Room for the longest decade label ("1e-399153" needs more than "1e40").
     let widest = y_ticks
@@ -275,7 +330,7 @@ pub fn draw<DB: DrawingBackend>(
         .margin(px(10.0))
         .margin_right(px(18.0))
         .caption(&spec.title, font(title_size))
-        .x_label_area_size(px(42.0 * k))
+        .x_label_area_size(px(x_area))
         .y_label_area_size(px((30.0 + 7.0 * widest) * k))
         .build_cartesian_2d(
             TickedAxis {
@@ -290,8 +345,16 @@ pub fn draw<DB: DrawingBackend>(
             },
         )
         .map_err(err)?;
-    let named = names_fit(spec, css_width, k);
-    let x_fmt = |x: &f64| x_label_text(spec, *x, named);
+    // Standing names are drawn below the axis after the mesh (the mesh would centre a
+    // turned label on its tick, half of it over the plot).
+    let standing = matches!(named, Names::Standing(_));
+    let x_fmt = |x: &f64| {
+        if standing {
+            String::new()
+        } else {
+            x_label_text(spec, *x, named)
+        }
+    };
     let y_fmt = |y: &f64| y_text(*y);
     chart
         .configure_mesh()
@@ -306,6 +369,19 @@ pub fn draw<DB: DrawingBackend>(
         .axis_style(AXIS.stroke_width(px(1.0).max(1)))
         .draw()
         .map_err(err)?;
+    if standing {
+        // Read downwards from just below each tick, anchored at the name's start.
+        let style = font(11.0)
+            .transform(FontTransform::Rotate90)
+            .pos(Pos::new(HPos::Left, VPos::Center));
+        for i in 1..=spec.x_names.len() {
+            let x = i as f64;
+            let (cx, cy) = chart.backend_coord(&(x, ylo));
+            let label = x_label_text(spec, x, named);
+            area.draw(&Text::new(label, (cx, cy + px(6.0) as i32), style.clone()))
+                .map_err(err)?;
+        }
+    }
     let mut points = 0;
     let mut legend = false;
     for (i, c) in spec.curves.iter().enumerate() {
