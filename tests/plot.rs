@@ -567,3 +567,30 @@ fn the_largest_thirty_crossings_are_named_on_the_axis() {
     // Standing on end: rotated text in the SVG.
     assert!(out.contains("rotate(90"), "names stand on end");
 }
+
+/// The corners plot keeps the worst corner and the budget in view: a corner of tau 1 fs
+/// (10^-1e6 FIT) leaves the plot instead of stretching its axis over a million decades.
+#[test]
+fn one_extreme_corner_cannot_flatten_the_corners_plot() {
+    use latchwise::budget::BudgetCalculator;
+    let raw = RawInputs::from_pairs([
+        ("design", "name,fclk,fdata,stages\na,1GHz,100MHz,2\n".to_string()),
+        ("corners", "corner,tau,tw,tsu,tcq\nslow,24ps,30ps,30ps,50ps\nmid,18ps,30ps,30ps,50ps\nodd,1fs,30ps,30ps,50ps\n".to_string()),
+        ("budget-fit", "1e-9".to_string()),
+    ]);
+    let case = BudgetCalculator::read(&raw).unwrap();
+    let report = BudgetCalculator::evaluate(&case);
+    assert!(report.corners[2].log10_total_fit < -1e5);
+    let corners = BudgetCalculator::plots(&case, &report)
+        .into_iter()
+        .find(|p| p.id == "plot-corners")
+        .unwrap();
+    let (_, drawn) = svg(&corners, Some(-9.0));
+    let (lo, hi) = drawn.y_range;
+    let worst = report.log10_total_fit;
+    assert!(hi - lo < 20.0, "{lo}..{hi}");
+    assert!(
+        lo < -9.0 && hi > worst && lo < report.corners[1].log10_total_fit,
+        "{lo}..{hi}, worst {worst}"
+    );
+}

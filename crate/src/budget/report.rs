@@ -807,7 +807,10 @@ pub fn plots(c: &BudgetCase, report: &BudgetReport) -> Vec<Plot> {
         "Total FIT at each corner",
         ("corner", "", Spacing::Integer),
     )
-    .y("log10_total_fit", "total FIT");
+    .y("log10_total_fit", "total FIT")
+    // The worst corner and the budget in view; a corner far below leaves the plot.
+    .clip_y(ROWS_SPAN_DECADES);
+    corners.y_keep_top = true;
     corners.x_names = report.corners.iter().map(|k| k.name.clone()).collect();
     corners.curves = vec![Curve {
         label: String::new(),

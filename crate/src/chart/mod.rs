@@ -64,14 +64,19 @@ fn y_range(spec: &Plot) -> (f64, f64) {
     for c in &spec.curves {
         c.points.iter().for_each(|p| see(p.1));
     }
-    let keys: Vec<f64> = spec
+    let mut keys: Vec<f64> = spec
         .hline
         .iter()
         .map(|h| h.0)
         .chain(spec.marker.map(|m| m.1))
         .filter(|y| y.is_finite())
         .collect();
+
     keys.iter().for_each(|y| see(*y));
+    // Where the largest value is the answer (the worst FIT), it stays in view too.
+    if spec.y_keep_top && hi.is_finite() {
+        keys.push(hi);
+    }
     if !lo.is_finite() {
         return (0.0, 1.0);
     }

@@ -59,6 +59,9 @@ pub struct Plot {
     pub y_log: bool,
     /// Unit symbol of a linear y axis.
     pub y_unit: &'static str,
+    /// Whether the largest y is part of the answer and stays in view when the axis is
+    /// limited (a plot of FIT, where the worst is what matters).
+    pub y_keep_top: bool,
     /// Names of the categories at x = 1, 2, ... (an integer axis of named things, such
     /// as corners): the axis shows them when they are few, and the CSV has them all.
     pub x_names: Vec<String>,
@@ -83,6 +86,7 @@ impl Plot {
             y_log: true,
             y_unit: "",
             x_names: Vec::new(),
+            y_keep_top: false,
         }
     }
 
