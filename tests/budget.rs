@@ -1354,3 +1354,55 @@ fn problems_are_named_by_the_file_given() {
     );
     std::fs::remove_dir_all(&dir).ok();
 }
+
+/// The demo's 95th percentiles against mpmath (tests/fixtures/budget_spread_reference.csv,
+/// scripts/gen_reference.py): as designed, and with the README's fix plan for 10 FIT,
+/// which the report's plan is; both to 1e-9 relative in FIT, the plan within the budget.
+#[test]
+fn the_demo_percentiles_and_plan_match_mpmath() {
+    let v = demo(&[
+        ("budget-fit", "10"),
+        ("tau-sigma", "0.05"),
+        ("tw-sigma", "0.3"),
+    ]);
+    let want: std::collections::HashMap<String, f64> =
+        table_rows(include_str!("fixtures/budget_spread_reference.csv"))
+            .iter()
+            .map(|l| {
+                let (k, x) = l.split_once(',').unwrap();
+                (k.to_string(), x.parse().unwrap())
+            })
+            .collect();
+    let tol = 1e-9 / std::f64::consts::LN_10;
+    let p95 = v["log10_total_fit_p95"].as_f64().unwrap();
+    assert!(
+        (p95 - want["as_designed"]).abs() < tol,
+        "{p95} against {}",
+        want["as_designed"]
+    );
+    let mut planned: Vec<&str> = v["fix"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|f| f["name"].as_str().unwrap())
+        .collect();
+    planned.sort_unstable();
+    let mut readme = vec![
+        "core_irq_sync",
+        "core_dbg_req",
+        "core_fifo_wptr",
+        "core_cfg_bus",
+        "core_pwr_ack",
+        "fabric_dma_ack",
+        "periph_timer_evt",
+    ];
+    readme.sort_unstable();
+    assert_eq!(planned, readme);
+    let after = v["log10_total_fit_p95_after_fix"].as_f64().unwrap();
+    assert!(
+        (after - want["fix_plan_10_fit"]).abs() < tol,
+        "{after} against {}",
+        want["fix_plan_10_fit"]
+    );
+    assert!(after < 1.0);
+}
