@@ -648,6 +648,10 @@
         printedBeside(sel, 'span', 'print-choice').textContent =
           sel.value !== '' ? sel.value : (opt ? opt.textContent : '');
       });
+      // A field prints its value as text, which wraps where a long value would be cut.
+      each('input[name]', function (inp) {
+        printedBeside(inp, 'span', 'print-value').textContent = inp.value;
+      });
       // Data text areas print as text: every line up to a page or so, then a count.
       each('textarea[name]', function (t) {
         printedBeside(t, 'pre', 'print-text').textContent = printText(t);
