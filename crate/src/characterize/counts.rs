@@ -7,7 +7,7 @@
 
 use std::f64::consts::LN_10;
 
-use crate::numeric::normal::ln_sum_exp;
+use crate::numeric::normal::{ln_sum_exp, ln_sum_exp_of};
 use crate::numeric::solve::illinois;
 use crate::numeric::special::chi2_sf;
 
@@ -120,14 +120,7 @@ fn log_lik(d: &Counts, o: &[f64], a: f64, b: f64) -> f64 {
 /// The best `a` for a given `b`: `a = ln(sum k / sum exp(-b t + o))`.
 fn best_a(d: &Counts, o: &[f64], b: f64) -> f64 {
     let total: f64 = d.failures.iter().sum();
-    let exponent = |(t, o): (&f64, &f64)| -b * t + o;
-    let max =
-        d.tr.iter()
-            .zip(o)
-            .map(exponent)
-            .fold(f64::NEG_INFINITY, f64::max);
-    let sum: f64 = d.tr.iter().zip(o).map(|r| (exponent(r) - max).exp()).sum();
-    total.ln() - (max + sum.ln())
+    total.ln() - ln_sum_exp_of(d.tr.iter().zip(o).map(|(t, o)| -b * t + o))
 }
 
 /// The best `b` for a given `a`: the root of `sum t exp(a - b t + o) = sum k t`, by

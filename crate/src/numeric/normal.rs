@@ -155,11 +155,17 @@ fn ln_diff(x: f64, y: f64) -> f64 {
 
 /// ln of a sum of exponentials, safe for any magnitudes.
 pub fn ln_sum_exp(terms: &[f64]) -> f64 {
-    let max = terms.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+    ln_sum_exp_of(terms.iter().copied())
+}
+
+/// [`ln_sum_exp`] of terms made on the fly (read twice: for their largest, then the sum),
+/// with no vector of them.
+pub fn ln_sum_exp_of(terms: impl Iterator<Item = f64> + Clone) -> f64 {
+    let max = terms.clone().fold(f64::NEG_INFINITY, f64::max);
     if !max.is_finite() {
         return max;
     }
-    max + terms.iter().map(|t| (t - max).exp()).sum::<f64>().ln()
+    max + terms.map(|t| (t - max).exp()).sum::<f64>().ln()
 }
 
 #[cfg(test)]
