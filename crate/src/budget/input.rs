@@ -307,7 +307,7 @@ impl BudgetCase {
                 None
             }
         };
-        let (Some(table), Some(corners)) = (table, corners) else {
+        let (Some(mut table), Some(corners)) = (table, corners) else {
             return Err(r.into_errors());
         };
         let names = table.text(0);
@@ -329,8 +329,8 @@ impl BudgetCase {
         for (i, line) in table.lines.iter().enumerate() {
             let here = |m: String| format!("design, line {line}, {m}");
             if let Some(name) = names.get(i).filter(|n| !n.is_empty()) {
-                if let Some(first) = first_line.insert(name.as_str(), *line) {
-                    first_line.insert(name.as_str(), first);
+                let first = *first_line.entry(name.as_str()).or_insert(*line);
+                if first != *line {
                     problems.push(here(format!(
                         "column name: '{}' names line {first} already: each crossing needs a name of its own",
                         crate::error::short(name)
@@ -431,7 +431,7 @@ impl BudgetCase {
             .iter()
             .map(|c| c.hours)
             .collect::<Option<Vec<f64>>>();
-        let notes = table.kept.clone();
+        let notes = std::mem::take(&mut table.kept);
         Ok(BudgetCase {
             rollup: Rollup {
                 cells,

@@ -168,7 +168,7 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
             flip_flops: if c.tr_given[i] {
                 0.0
             } else {
-                r.counts[i] * r.widths[i] * f64::from(r.stages[i])
+                r.flip_flops(i, r.stages[i])
             },
             stages: if c.tr_given[i] { 0 } else { r.stages[i] },
             log10_fit: *f,
@@ -200,9 +200,13 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
             at.percentiles(ts, ws, &[0.95])[0]
         })
     };
-    let fixed = budget.map(|b| {
+    // The plan's stages, with their 95th percentile when there are sigmas (computed once).
+    let planned: Option<Option<(Vec<u32>, Option<f64>)>> = budget.map(|b| {
         if !c.signoff_p95 {
-            return r.fix(b);
+            return r.fix(b).map(|stages| {
+                let p95 = p95_of(&stages);
+                (stages, p95)
+            });
         }
         // The plan meets the budget at the 95th percentile: plan to a nominal target
         // lowered by what the percentile still exceeds, until it is within the budget.
@@ -211,21 +215,22 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
             let stages = r.fix(target)?;
             let p95 = p95_of(&stages)?;
             if p95 <= b {
-                return Some(stages);
+                return Some((stages, Some(p95)));
             }
             target -= (p95 - b) + 1e-9 * b.abs().max(1.0);
         }
         None
     });
-    let fix = fixed.as_ref().map(|f| {
-        f.as_ref().map(|st| {
+    let fixed: Option<Option<&Vec<u32>>> = planned.as_ref().map(|p| p.as_ref().map(|p| &p.0));
+    let fix = fixed.map(|f| {
+        f.map(|st| {
             st.iter()
                 .enumerate()
                 .filter(|(i, s)| **s != r.stages[*i])
                 .map(|(i, s)| FixRow {
                     name: c.names[i].clone(),
                     stages: *s,
-                    added_flip_flops: f64::from(s - r.stages[i]) * r.counts[i] * r.widths[i],
+                    added_flip_flops: r.flip_flops_added(i, *s),
                 })
                 .collect::<Vec<_>>()
         })
@@ -269,13 +274,11 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
                 .fold(0.0, |a, b| a + b)
         })
     });
-    let after = fixed
-        .as_ref()
-        .map(|f| f.as_ref().map(|st| Rollup::worst(&r.totals(st, 1.0)).1));
+    let after = fixed.map(|f| f.map(|st| Rollup::worst(&r.totals(st, 1.0)).1));
     let p95_after = c
         .sigmas
-        .and(fixed.as_ref())
-        .map(|f| f.as_ref().and_then(|st| p95_of(st)));
+        .and(planned.as_ref())
+        .map(|p| p.as_ref().and_then(|p| p.1));
     if let Some(None) = p95_after {
         not_applicable.push((
             "log10_total_fit_p95_after_fix",
@@ -318,10 +321,13 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
         inputs.push(("tau-sigma", format_number(ts)));
         inputs.push(("tw-sigma", format_number(ws)));
     }
-    inputs.push((
-        "signoff",
-        if c.signoff_p95 { "p95" } else { "nominal" }.to_string(),
-    ));
+    let signoff = if c.signoff_p95 { "p95" } else { "nominal" };
+    // With a mission profile, the fleet with every hour at the worst corner beside it.
+    let worst_fleet = c
+        .fleet
+        .filter(|_| c.hours.is_some())
+        .map(|f| fleet_outcome(log10_total - FIT_PER_RATE.log10(), f));
+    inputs.push(("signoff", signoff.to_string()));
     BudgetReport {
         inputs,
         log10_total_fit: log10_total,
@@ -338,7 +344,7 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
             .collect(),
         rows,
         budget_fit: c.budget_fit,
-        signoff: if c.signoff_p95 { "p95" } else { "nominal" },
+        signoff,
         meets_budget: budget.map(|b| decided <= b),
         margin_decades: budget.map(|b| b - decided),
         meets_budget_nominal: budget.map(|b| log10_total <= b),
@@ -363,14 +369,8 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
             };
             fleet_outcome(rate - FIT_PER_RATE.log10(), f)
         }),
-        log10_expected_failures_worst: c
-            .fleet
-            .filter(|_| c.hours.is_some())
-            .map(|f| fleet_outcome(log10_total - FIT_PER_RATE.log10(), f).log10_expected_failures),
-        log10_p_any_failure_worst: c
-            .fleet
-            .filter(|_| c.hours.is_some())
-            .map(|f| fleet_outcome(log10_total - FIT_PER_RATE.log10(), f).log10_p_any_failure),
+        log10_expected_failures_worst: worst_fleet.map(|f| f.log10_expected_failures),
+        log10_p_any_failure_worst: worst_fleet.map(|f| f.log10_p_any_failure),
         log10_expected_failures_p95: c
             .fleet
             .zip(pcts.as_ref())
@@ -378,7 +378,7 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
         not_applicable,
         warnings,
         caution: CAUTION,
-        stages_after_fix: fixed.flatten(),
+        stages_after_fix: planned.and_then(|p| p.map(|p| p.0)),
     }
 }
 
@@ -388,17 +388,13 @@ pub fn text_table(report: &BudgetReport, most: Option<usize>) -> crate::calculat
     use crate::calculator::format_figure;
     let mut order: Vec<usize> = (0..report.rows.len()).collect();
     order.sort_by(|&a, &b| report.rows[b].share.total_cmp(&report.rows[a].share));
-    let after = |i: usize| {
-        let r = &report.rows[i];
-        match (&report.fix, r.stages) {
-            (_, 0) => "tr given".to_string(),
-            (Some(Some(fix)), s) => fix
-                .iter()
-                .find(|f| f.name == r.name)
-                .map_or(s, |f| f.stages)
-                .to_string(),
-            (_, s) => s.to_string(),
-        }
+    let after = |i: usize| match report.rows[i].stages {
+        0 => "tr given".to_string(),
+        s => report
+            .stages_after_fix
+            .as_ref()
+            .map_or(s, |a| a[i])
+            .to_string(),
     };
     let with_notes = report.rows.iter().any(|r| !r.notes.is_empty());
     let rows = order
@@ -487,7 +483,7 @@ pub fn results_csv(c: &BudgetCase, report: &BudgetReport) -> String {
                 (now.to_string(), later.to_string())
             };
             let added = match after {
-                Some(a) if !c.tr_given[i] => f64::from(a[i] - now) * r.counts[i] * r.widths[i],
+                Some(a) if !c.tr_given[i] => r.flip_flops_added(i, a[i]),
                 _ => 0.0,
             };
             let notes: String = c

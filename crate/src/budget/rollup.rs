@@ -77,6 +77,16 @@ pub fn log10_sum(logs: impl IntoIterator<Item = f64>) -> f64 {
 }
 
 impl Rollup {
+    /// Flip-flops of row `r` at `stages`: its instances times its width times the stages.
+    pub fn flip_flops(&self, r: usize, stages: u32) -> f64 {
+        self.counts[r] * self.widths[r] * f64::from(stages)
+    }
+
+    /// Flip-flops that taking row `r` from its stages to `stages` adds.
+    pub fn flip_flops_added(&self, r: usize, stages: u32) -> f64 {
+        self.flip_flops(r, stages) - self.flip_flops(r, self.stages[r])
+    }
+
     /// The number of corners.
     pub fn corners(&self) -> usize {
         self.cells.first().map_or(0, Vec::len)
