@@ -19,7 +19,7 @@ fn read_file(path: &str, stamp: &mut Sha256) -> Result<String, String> {
         .map_err(|e| format!("cannot read '{path}': {e}"))
         .and_then(|()| {
             feed(stamp, b"file", &bytes);
-            latchwise::table::decode(&bytes).map_err(|e| format!("cannot read '{path}': {e}"))
+            latchwise::table::decode(bytes).map_err(|e| format!("cannot read '{path}': {e}"))
         })
 }
 

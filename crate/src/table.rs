@@ -178,13 +178,12 @@ pub struct Layout {
 /// # Examples
 /// ```
 /// use latchwise::table::decode;
-/// assert_eq!(decode(b"\xef\xbb\xbfname\rrow\r\n").unwrap(), "name\nrow\n");
-/// assert_eq!(decode(b"\xff\xfea\0\r\0b\0").unwrap(), "a\nb");
-/// assert!(decode(b"a\xffb").unwrap_err().contains("byte 2"));
+/// assert_eq!(decode(b"\xef\xbb\xbfname\rrow\r\n".to_vec()).unwrap(), "name\nrow\n");
+/// assert_eq!(decode(b"\xff\xfea\0\r\0b\0".to_vec()).unwrap(), "a\nb");
+/// assert!(decode(b"a\xffb".to_vec()).unwrap_err().contains("byte 2"));
 /// ```
-pub fn decode(bytes: &[u8]) -> Result<String, String> {
-    let utf16 = |big: bool| -> Result<String, String> {
-        let body = &bytes[2..];
+pub fn decode(mut bytes: Vec<u8>) -> Result<String, String> {
+    let utf16 = |body: &[u8], big: bool| -> Result<String, String> {
         if body.len() % 2 == 1 {
             return Err("UTF-16 text cut short (an odd number of bytes)".to_string());
         }
@@ -207,21 +206,23 @@ pub fn decode(bytes: &[u8]) -> Result<String, String> {
             })
             .collect()
     };
-    let text = match bytes {
-        [0xff, 0xfe, ..] => utf16(false)?,
-        [0xfe, 0xff, ..] => utf16(true)?,
+    let text = match bytes.get(..2) {
+        Some([0xff, 0xfe]) => utf16(&bytes[2..], false)?,
+        Some([0xfe, 0xff]) => utf16(&bytes[2..], true)?,
         _ => {
-            let body = bytes.strip_prefix(b"\xef\xbb\xbf").unwrap_or(bytes);
-            String::from_utf8(body.to_vec()).map_err(|e| {
-                let at = e.utf8_error().valid_up_to() + 1 + bytes.len() - body.len();
+            // The byte-order mark is not text; the bytes become the string, no copy.
+            let mark = if bytes.starts_with(b"\xef\xbb\xbf") {
+                3
+            } else {
+                0
+            };
+            bytes.drain(..mark);
+            String::from_utf8(bytes).map_err(|e| {
+                let at = e.utf8_error().valid_up_to() + 1 + mark;
                 format!("not UTF-8 or UTF-16 text (byte {at}); save the file as UTF-8")
             })?
         }
     };
-    let text = text
-        .strip_prefix('\u{feff}')
-        .map(str::to_string)
-        .unwrap_or(text);
     Ok(if text.contains('\r') {
         text.replace("\r\n", "\n").replace('\r', "\n")
     } else {
