@@ -90,13 +90,8 @@ pub(super) fn linear_ticks(lo: f64, hi: f64) -> Vec<f64> {
     ladder(lo, hi, nice_step((hi - lo) / 6.0), MAX_TICKS)
 }
 
-/// Tick positions on an x axis of the given spacing (log axes in log10 units).
-#[cfg(test)]
-pub(super) fn x_ticks(spacing: Spacing, lo: f64, hi: f64) -> Vec<f64> {
-    x_ticks_within(spacing, lo, hi, 8.0)
-}
-
-/// As [`x_ticks`], aiming at about `most` labels (fewer on a narrow plot, whose labels
+/// Tick positions on an x axis of the given spacing (log axes in log10 units), aiming
+/// at about `most` labels (fewer on a narrow plot, whose labels
 /// would otherwise run into each other).
 pub(super) fn x_ticks_within(spacing: Spacing, lo: f64, hi: f64, most: f64) -> Vec<f64> {
     let most = most.clamp(2.0, 8.0);
@@ -166,7 +161,7 @@ mod tests {
             assert!(decade_ticks(lo, hi, 8).len() <= 9, "{lo} {hi}");
             for sp in [Spacing::Integer, Spacing::Log, Spacing::Linear] {
                 assert!(
-                    x_ticks(sp, lo, hi).len() <= 3 * MAX_TICKS,
+                    x_ticks_within(sp, lo, hi, 8.0).len() <= 3 * MAX_TICKS,
                     "{sp:?} {lo} {hi}"
                 );
             }

@@ -150,6 +150,9 @@ fn to_axis_x(spacing: Spacing, x: f64) -> f64 {
 /// The most named categories an axis labels by name (more would overlap).
 const NAMES_ON_AXIS_MOST: usize = 8;
 
+/// The most characters of a category name an axis shows.
+const NAME_CHARS_MOST: usize = 14;
+
 /// The most named categories an axis stands on end (read upwards), one a tick.
 const NAMES_STANDING_MOST: usize = 30;
 
@@ -160,8 +163,8 @@ enum Names {
     None,
     /// Level, each cut to this many characters.
     Level(usize),
-    /// Standing on end, each cut to this many characters.
-    Standing(usize),
+    /// Standing on end, each cut to [`NAME_CHARS_MOST`] characters.
+    Standing,
 }
 
 /// How the plot's category names fit under its axis at `css_width` pixels with type
@@ -173,7 +176,9 @@ fn names_fit(spec: &Plot, css_width: f64, k: f64) -> Names {
         return Names::None;
     }
     let per = (css_width - 90.0) / n as f64;
-    let level = ((per - 6.0) / (6.5 * k)).floor().min(14.0) as usize;
+    let level = ((per - 6.0) / (6.5 * k))
+        .floor()
+        .min(NAME_CHARS_MOST as f64) as usize;
     if n <= NAMES_ON_AXIS_MOST && level >= 4 {
         let longest = spec
             .x_names
@@ -181,12 +186,12 @@ fn names_fit(spec: &Plot, css_width: f64, k: f64) -> Names {
             .map(|s| s.chars().count())
             .max()
             .unwrap_or(0);
-        if level >= longest.min(14) || n <= 3 {
+        if level >= longest.min(NAME_CHARS_MOST) || n <= 3 {
             return Names::Level(level);
         }
     }
     if n <= NAMES_STANDING_MOST && per >= 13.0 * k {
-        return Names::Standing(14);
+        return Names::Standing;
     }
     if level >= 4 && n <= NAMES_ON_AXIS_MOST {
         return Names::Level(level);
@@ -196,12 +201,13 @@ fn names_fit(spec: &Plot, css_width: f64, k: f64) -> Names {
 
 fn x_label_text(spec: &Plot, x: f64, named: Names) -> String {
     let most = match named {
-        Names::Level(m) | Names::Standing(m) => Some(m),
+        Names::Level(m) => Some(m),
+        Names::Standing => Some(NAME_CHARS_MOST),
         Names::None => None,
     };
     match spec.spacing {
         Spacing::Integer if most.is_some() => {
-            let most = most.unwrap_or(14);
+            let most = most.unwrap_or(NAME_CHARS_MOST);
             let i = (x.round() as usize).wrapping_sub(1);
             spec.x_names.get(i).map_or(String::new(), |n| {
                 if n.chars().count() <= most {
@@ -302,16 +308,16 @@ pub fn draw<DB: DrawingBackend>(
     // standing on end take a tick each.
     let named = names_fit(spec, css_width, k);
     let xk = match named {
-        Names::Standing(_) => (1..=spec.x_names.len()).map(|i| i as f64).collect(),
+        Names::Standing => (1..=spec.x_names.len()).map(|i| i as f64).collect(),
         _ => x_ticks_within(spec.spacing, xlo, xhi, (css_width - 80.0) / (55.0 * k)),
     };
     // Standing names need the height of the longest below the axis.
     let x_area = match named {
-        Names::Standing(m) => {
+        Names::Standing => {
             let longest = spec
                 .x_names
                 .iter()
-                .map(|s| s.chars().count().min(m))
+                .map(|s| s.chars().count().min(NAME_CHARS_MOST))
                 .max()
                 .unwrap_or(4) as f64;
             (24.0 + 6.2 * longest) * k
@@ -352,7 +358,7 @@ pub fn draw<DB: DrawingBackend>(
         .map_err(err)?;
     // Standing names are drawn below the axis after the mesh (the mesh would centre a
     // turned label on its tick, half of it over the plot).
-    let standing = matches!(named, Names::Standing(_));
+    let standing = named == Names::Standing;
     let x_fmt = |x: &f64| {
         if standing {
             String::new()
