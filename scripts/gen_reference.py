@@ -11,6 +11,7 @@ tr = (stages-1)*(1/fclk - tsu - tcq) for the tw window and (stages-1)*(1/fclk - 
 for the t0 window (Ginosar, IEEE Design & Test 2011; Wakerly, "Digital Design").
 Run with --check to compare against the committed file instead of writing it.
 """
+import math
 import sys
 from pathlib import Path
 
@@ -370,24 +371,96 @@ def eng(cell):
     return mpf(m.group(1)) * mpf(PREFIX[m.group(2)])
 
 
+def csv_rows(path):
+    """The rows of a CSV file (comments skipped) as dicts, quoted cells read as quoted."""
+    import csv
+    lines = [l for l in path.read_text().splitlines() if l and not l.startswith("#")]
+    return list(csv.DictReader(lines))
+
+
+def row_log10_fit(r, c, stages=None, scale=1):
+    """log10 FIT of one design row at one corner with mpmath, from the domain notes'
+    models written out here: the row's own value, else its cell class's at the corner
+    (tau@CLASS...), else the corner's; fclk from the row's domain (fclk@DOMAIN) else the
+    row; fdata from the crossing kind (gray: the increments; handshake: twice the
+    transfers; signal: activity times the launching clock); resolution by hop over each
+    hop's tau (section 8.1), the master-slave bound (8.2), related clocks' K (8.3);
+    rate = count fdata fclk W K exp(-exponent), FIT = rate * 3.6e12. Every tau times
+    `scale`."""
+    g = lambda k: (r.get(k) or "").strip()
+    cls, dom, lau = g("cell").lower(), g("domain").lower(), g("launch_domain").lower()
+    at = lambda base, word: (c.get(f"{base}@{word}") or "").strip() if word else ""
+    fclk = eng(at("fclk", dom) or g("fclk"))
+    if g("tw") or g("t0"):
+        w, t0 = (eng(g("tw")), False) if g("tw") else (eng(g("t0")), True)
+    elif at("tw", cls) or at("t0", cls):
+        w, t0 = (eng(at("tw", cls)), False) if at("tw", cls) else (eng(at("t0", cls)), True)
+    else:
+        w, t0 = (eng(c["tw"]), False) if (c.get("tw") or "").strip() else (eng(c["t0"]), True)
+    tsu = eng(g("tsu") or at("tsu", cls) or c.get("tsu") or "0")
+    tcq = eng(g("tcq") or at("tcq", cls) or c.get("tcq") or "0")
+    kind = g("crossing").lower() or "data"
+    if kind == "gray":
+        fdata = eng(g("increments"))
+    elif kind == "handshake":
+        fdata = 2 * eng(g("transfers"))
+    elif kind == "signal":
+        fdata = mpf(g("activity")) * eng(at("flaunch", lau) or at("fclk", lau) or g("flaunch"))
+    else:
+        fdata = eng(g("fdata"))
+    n = stages or int(g("stages") or 1)
+    bound = bool(g("tw2"))
+    if g("tau-master"):
+        duty = mpf(g("duty") or "0.5")
+        taus = [1 / (duty / eng(g("tau-master")) + (1 - duty) / eng(g("tau-slave")))]
+    elif g("tau"):
+        taus = [eng(t) for t in g("tau").split(",")]
+    else:
+        taus = [eng(at("tau", cls) or c["tau"])]
+    taus = [t * scale for t in taus]
+    if g("tr"):
+        exponent = eng(g("tr")) / taus[0]
+    else:
+        hop = 1 / fclk if bound else 1 / fclk - tsu - (0 if t0 else tcq)
+        exponent = mp.fsum(hop / taus[min(k, len(taus) - 1)] for k in range(n - 1))
+        if bound and n > 2:
+            w = w * (eng(g("tw2")) / w) ** (n - 2)
+    lk = 0
+    if g("ratio"):
+        p_, q_ = (int(x) for x in g("ratio").split("/"))
+        p_ //= math.gcd(p_, q_)
+        lk = log10_k(p_, fclk, eng(g("jitter")), eng(g("phase")) if g("phase") else mpf(0))
+    count = int(g("count") or 1)
+    return log10(count * fdata * fclk * w * mpf("3.6e12")) + lk - exponent / mp.log(10)
+
+
 def budget_rows():
     """Totals of the demo chip at its corners, with mpmath: rates of independent
     crossings add; a row counts its instances; FIT = rate * 3.6e12."""
-    def rows_of(name):
-        lines = [l for l in (EXAMPLES / name).read_text().splitlines() if l and not l.startswith("#")]
-        head = lines[0].split(",")
-        return [dict(zip(head, l.split(","))) for l in lines[1:]]
     out = []
-    for c in rows_of("budget-corners.csv"):
-        total = mpf(0)
-        for r in rows_of("budget-design.csv"):
-            tau = eng(r["tau"]) if r.get("tau") else eng(c["tau"])
-            fclk, fdata = eng(r["fclk"]), eng(r["fdata"])
-            hop = 1 / fclk - eng(c["tsu"]) - eng(c["tcq"])
-            tr = (int(r["stages"]) - 1) * hop
-            count = int(r["count"]) if r.get("count") else 1
-            total += count * fdata * fclk * eng(c["tw"]) * mp.exp(-tr / tau) * mpf("3.6e12")
+    design = csv_rows(EXAMPLES / "budget-design.csv")
+    for c in csv_rows(EXAMPLES / "budget-corners.csv"):
+        total = mp.fsum(mpf(10) ** row_log10_fit(r, c) for r in design)
         out.append((c["corner"], log10(total)))
+    return out
+
+
+BUDGET_ROWS_OUT = FIXTURES / "budget_rows_reference.csv"
+# Each design (design file, corners file) whose every row at every corner the table holds.
+BUDGET_ROW_CASES = [
+    (EXAMPLES / "budget-design.csv", EXAMPLES / "budget-corners.csv"),
+    (FIXTURES / "budget_models_design.csv", FIXTURES / "budget_models_corners.csv"),
+]
+
+
+def budget_row_lines():
+    out = []
+    for design, corners in BUDGET_ROW_CASES:
+        rows = csv_rows(design)
+        for c in csv_rows(corners):
+            for r in rows:
+                out.append(f"{design.name},{r['name']},{c['corner']},"
+                           f"{mp.nstr(row_log10_fit(r, c), 25)}\n")
     return out
 
 
@@ -404,23 +477,15 @@ def budget_p95(plan, tau_sigma, tw_sigma):
     P(ln T <= x) = integral phi(z) Phi((x - ln G(exp(tau_sigma z))) / tw_sigma) dz, by the
     trapezoid rule in steps of 0.025 on [-9, 9] (exponentially convergent here), the 95 %
     point by bisection; G is the worst corner's total with every tau scaled."""
-    def rows_of(name):
-        lines = [l for l in (EXAMPLES / name).read_text().splitlines() if l and not l.startswith("#")]
-        head = lines[0].split(",")
-        return [dict(zip(head, l.split(","))) for l in lines[1:]]
-    corners, design = rows_of("budget-corners.csv"), rows_of("budget-design.csv")
+    corners = csv_rows(EXAMPLES / "budget-corners.csv")
+    design = csv_rows(EXAMPLES / "budget-design.csv")
     with mp.workdps(30):
         def ln_g(scale):
             worst = None
             for c in corners:
-                total = mpf(0)
-                for r in design:
-                    tau = (eng(r["tau"]) if r.get("tau") else eng(c["tau"])) * scale
-                    fclk, fdata = eng(r["fclk"]), eng(r["fdata"])
-                    hop = 1 / fclk - eng(c["tsu"]) - eng(c["tcq"])
-                    stages = 3 if r["name"] in plan else int(r["stages"])
-                    count = int(r["count"]) if r.get("count") else 1
-                    total += count * fdata * fclk * eng(c["tw"]) * mp.exp(-(stages - 1) * hop / tau) * mpf("3.6e12")
+                total = mp.fsum(
+                    mpf(10) ** row_log10_fit(r, c, 3 if r["name"] in plan else None, scale)
+                    for r in design)
                 worst = total if worst is None or total > worst else worst
             return mp.log(worst)
         h = mpf("0.025")
@@ -461,6 +526,12 @@ def main():
         "case,log10_total_fit_p95\n"
         f"as_designed,{mp.nstr(budget_p95([], mpf('0.05'), mpf('0.3')), 15)}\n"
         f"fix_plan_10_fit,{mp.nstr(budget_p95(PLAN_10_FIT, mpf('0.05'), mpf('0.3')), 15)}\n",
+        BUDGET_ROWS_OUT: "# Every row of two designs at every corner, computed with mpmath "
+        f"{mp.dps} digits by scripts/gen_reference.py from the domain notes' models written "
+        "out there (kinds, classes, domains, unequal hops, the master-slave bound, related "
+        "clocks): the demo chip (examples/budget-*.csv) and a design with a row of every "
+        "kind (tests/fixtures/budget_models_*.csv).\n"
+        "design,row,corner,log10_fit\n" + "".join(budget_row_lines()),
         FITS_OUT: FITS_HEADER
         + "".join(f"{n};{k};{f};{st};{key};{mp.nstr(v, 20)}\n" for n, k, f, st, key, v in fits_rows()),
         MODELS_OUT: MODELS_HEADER

@@ -2,6 +2,7 @@
 #![allow(clippy::unwrap_used, clippy::print_stdout)]
 
 mod budget;
+mod budget_rows;
 mod cli;
 mod comparator;
 mod fits;

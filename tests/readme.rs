@@ -214,7 +214,7 @@ fn budget_demo_numbers_hold() {
         ),
         ("60 % of it", format!("{:.0} % of it", 100.0 * top)),
         (
-            "here 68 flip-flops on seven crossings",
+            "here 72 flip-flops on seven crossings",
             format!(
                 "here {:.0} flip-flops on seven crossings",
                 v["added_flip_flops"].as_f64().unwrap()

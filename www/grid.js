@@ -9,6 +9,8 @@
 
   // One row's height in CSS pixels: the .grid-table row height in style.css.
   var ROW_PX = 30;
+  // The width of a figure column, rem: col.c-figure in style.css.
+  var FIGURE_REM = 8.4;
   // Rows drawn beyond each edge of the view, so that scrolling shows no gap.
   var OVERSCAN = 6;
   // The most text Undo keeps, in characters over all its snapshots: every edit of a
@@ -32,18 +34,27 @@
     return e;
   }
 
-  // Problems the core reported for this field, by 0-based line: "…, line N, column C: …".
-  function problemsByLine(message) {
+  // Problems the core reported for this field, by 0-based line, from its structured
+  // problems ({table, line, columns, message}): the message text is never parsed.
+  function problemsByLine(list, describe) {
     var out = {};
-    (message || '').split('\n').forEach(function (m) {
-      var hit = /\bline (\d+)(?:, columns? ([^:]+))?:/.exec(m);
-      if (!hit) return;
-      var line = Number(hit[1]) - 1;
+    (list || []).forEach(function (q) {
+      if (q.line === null || q.line === undefined) return;
+      var line = q.line - 1;
       var p = out[line] || (out[line] = { messages: [], columns: [] });
-      p.messages.push(m);
-      if (hit[2]) hit[2].split(',').forEach(function (c) { p.columns.push(c.trim()); });
+      p.messages.push(describe(q));
+      (q.columns || []).forEach(function (c) { p.columns.push(c); });
     });
     return out;
+  }
+
+  // A problem in words, as the core writes it: "line 3, column fdata: …".
+  function describeProblem(q) {
+    var place = [];
+    if (q.table) place.push(q.table);
+    if (q.line !== null && q.line !== undefined) place.push('line ' + q.line);
+    if (q.columns && q.columns.length) place.push((q.columns.length > 1 ? 'columns ' : 'column ') + q.columns.join(', '));
+    return place.length ? place.join(', ') + ': ' + q.message : q.message;
   }
 
   function Grid(area, hooks) {
@@ -173,12 +184,20 @@
         if (bad && bad.columns.indexOf(h.toLowerCase()) >= 0) th.className = 'bad';
         tr.appendChild(th);
       });
-      figureColumns().forEach(function (c) {
+      figureColumns().forEach(function (c, k) {
         colgroup.appendChild(el('col', { class: 'c-figure' }));
-        tr.appendChild(el('th', { scope: 'col', class: 'figure' }, c.label));
+        var th = el('th', { scope: 'col', class: 'figure' }, c.label);
+        th.style.right = stickyRight(k);
+        tr.appendChild(th);
       });
       thead.appendChild(tr);
       if (bad) thead.title = bad.messages.join('\n'); else thead.removeAttribute('title');
+    }
+
+    // The figures stay in view at the right of a wide design (each a fixed width, see
+    // col.c-figure in style.css), as the line and the name stay at the left.
+    function stickyRight(k) {
+      return (FIGURE_REM * (figureColumns().length - 1 - k)) + 'rem';
     }
 
     function figureText(c, r) {
@@ -224,7 +243,8 @@
       });
       figureColumns().forEach(function (c, k) {
         var td = tr.children[1 + header.length + k];
-        td.className = 'figure';
+        td.className = k === 0 ? 'figure first-figure' : 'figure';
+        td.style.right = stickyRight(k);
         td.textContent = figureText(c, r);
       });
     }
@@ -516,7 +536,7 @@
           })
         } : null);
         var f = (state.fields || []).filter(function (x) { return x.name === field; })[0];
-        problems = problemsByLine(f && f.error);
+        problems = problemsByLine(f && f.problems, describeProblem);
       }
       // Changed from outside the table (typed in the text view, a file, the demo, a
       // link): that text wins over any write still waiting.

@@ -90,32 +90,35 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
                 match &e.kind {
                     // A table's problems, one line each under the field's name.
                     ParamErrorKind::Table(problems) => {
-                        // Named by the file as the user gave it: "design.csv, line 3, ...".
-                        let file = parsed
-                            .files
-                            .iter()
-                            .rev()
-                            .find(|(f, _)| f == e.field)
-                            .map_or_else(
-                                // From a link: the table by its field's name.
-                                || format!("{} table", e.field),
-                                |(_, path)| {
-                                    if path == "-" {
-                                        "standard input".to_string()
-                                    } else {
-                                        path.clone()
-                                    }
-                                },
-                            );
                         for p in problems {
-                            let own = format!("{}, ", e.field);
-                            if let Some(rest) = p.strip_prefix(&own) {
-                                complain(&format!("latchwise {name}: {file}, {rest}"));
-                            } else if p.starts_with("line ") || p.starts_with("and ") {
-                                complain(&format!("latchwise {name}: {file}, {p}"));
+                            // Named by the file as the user gave it: "design.csv, line 3,
+                            // column fdata: ..."; from a link, "design table, ...".
+                            let table = if p.table.is_empty() { e.field } else { p.table };
+                            let file = parsed
+                                .files
+                                .iter()
+                                .rev()
+                                .find(|(f, _)| f == table)
+                                .map_or_else(
+                                    || format!("{table} table"),
+                                    |(_, path)| {
+                                        if path == "-" {
+                                            "standard input".to_string()
+                                        } else {
+                                            path.clone()
+                                        }
+                                    },
+                                );
+                            let rest = latchwise::error::TableProblem {
+                                table: "",
+                                ..p.clone()
+                            };
+                            let sep = if rest.line.is_none() && rest.columns.is_empty() {
+                                ": "
                             } else {
-                                complain(&format!("latchwise {name}: {}: {p}", e.field));
-                            }
+                                ", "
+                            };
+                            complain(&format!("latchwise {name}: {file}{sep}{rest}"));
                         }
                     }
                     _ => complain(&format!("latchwise {name}: {e}")),

@@ -112,7 +112,7 @@ pub struct FigureColumn {
     /// Its heading.
     pub label: String,
     /// How a value reads: `log10` (a number given by its log10), `fraction` (shown as a
-    /// percentage) or `count`.
+    /// percentage), `hz` (a frequency) or `count`.
     pub kind: &'static str,
     /// Whether the table may sort by it, largest first.
     pub sorts: bool,
@@ -136,6 +136,7 @@ pub fn format_figure(kind: &str, value: f64) -> String {
         "fraction" if value * 100.0 >= 0.001 => format!("{:.3} %", value * 100.0),
         "fraction" => "< 0.001 %".into(),
         "log10" => crate::units::format_log10(value, 4),
+        "hz" => crate::units::format_si(value, "Hz"),
         _ => crate::units::format_number(value),
     }
 }

@@ -85,8 +85,8 @@ pub enum ParamErrorKind {
     },
     /// A packed value in a link that cannot be unpacked, and why.
     Damaged(String),
-    /// Problems in a table of data, each with its line and column.
-    Table(Vec<String>),
+    /// Problems in a table of data, each with its table, line and columns.
+    Table(Vec<TableProblem>),
     /// Data that cannot give the fit asked of it, and why.
     Unfittable(String),
     /// A ratio that is not two positive whole numbers `P/Q`.
@@ -103,15 +103,75 @@ pub enum ParamErrorKind {
 impl ParamErrorKind {
     /// A table's problems, one line each: at most [`TABLE_LINES_MOST`], then one line
     /// that counts the rest (100,000 bad rows must not make a 100,000-line message).
-    pub fn table(mut problems: Vec<String>) -> ParamErrorKind {
+    pub fn table(mut problems: Vec<TableProblem>) -> ParamErrorKind {
         if problems.len() > TABLE_LINES_MOST {
             let rest = problems.len() - TABLE_LINES_MOST;
             problems.truncate(TABLE_LINES_MOST);
-            problems.push(format!(
-                "and {rest} more problems (the first {TABLE_LINES_MOST} are listed)"
-            ));
+            problems.push(TableProblem {
+                table: "",
+                line: None,
+                columns: Vec::new(),
+                message: format!(
+                    "and {rest} more problems (the first {TABLE_LINES_MOST} are listed)"
+                ),
+            });
         }
         ParamErrorKind::Table(problems)
+    }
+}
+
+/// One problem of a table, as data: which table, line and columns, and what is wrong.
+/// The page marks cells from these, the command line names the file from `table`; its
+/// text reads "design, line 3, column fdata: ...".
+#[derive(Debug, Clone, PartialEq, serde::Serialize)]
+pub struct TableProblem {
+    /// The table as its case names it (`design`, `corners`), or empty for a field's one
+    /// table (a fit's data).
+    pub table: &'static str,
+    /// The line in the table's text, 1-based, when the problem has one.
+    pub line: Option<usize>,
+    /// The columns concerned, by their header names.
+    pub columns: Vec<String>,
+    /// What is wrong.
+    pub message: String,
+}
+
+impl TableProblem {
+    /// A problem of `table` at `line` in `columns`.
+    pub fn at(
+        table: &'static str,
+        line: Option<usize>,
+        columns: &[&str],
+        message: impl Into<String>,
+    ) -> TableProblem {
+        TableProblem {
+            table,
+            line,
+            columns: columns.iter().map(|c| (*c).to_string()).collect(),
+            message: message.into(),
+        }
+    }
+}
+
+impl fmt::Display for TableProblem {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        let mut place: Vec<String> = Vec::new();
+        if !self.table.is_empty() {
+            place.push(self.table.to_string());
+        }
+        if let Some(l) = self.line {
+            place.push(format!("line {l}"));
+        }
+        match self.columns.len() {
+            0 => {}
+            1 => place.push(format!("column {}", self.columns[0])),
+            _ => place.push(format!("columns {}", self.columns.join(", "))),
+        }
+        if place.is_empty() {
+            write!(f, "{}", self.message)
+        } else {
+            write!(f, "{}: {}", place.join(", "), self.message)
+        }
     }
 }
 
@@ -227,7 +287,15 @@ impl fmt::Display for ParamError {
                 "the packed value in the link cannot be read: {why}; ask for a fresh link \
                  or the CSV file"
             ),
-            Table(problems) => write!(f, "{}", problems.join("\n")),
+            Table(problems) => {
+                for (i, p) in problems.iter().enumerate() {
+                    if i > 0 {
+                        writeln!(f)?;
+                    }
+                    write!(f, "{p}")?;
+                }
+                Ok(())
+            }
             Unfittable(why) => write!(f, "{why}"),
             BadRatio(t) => write!(
                 f,

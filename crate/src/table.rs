@@ -98,6 +98,19 @@ pub struct CellError {
     pub message: String,
 }
 
+impl CellError {
+    /// This problem as one of `table`'s (`design`, `corners`; empty for a field's one
+    /// table).
+    pub fn in_table(&self, table: &'static str) -> crate::error::TableProblem {
+        crate::error::TableProblem {
+            table,
+            line: Some(self.line),
+            columns: self.column.iter().cloned().collect(),
+            message: self.message.clone(),
+        }
+    }
+}
+
 impl fmt::Display for CellError {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         match &self.column {
@@ -372,7 +385,7 @@ type Parsed = Result<Vec<RowCell>, Vec<(Option<&'static str>, String)>>;
 /// own tables): the keys are the user's own text, so resistance to crafted collisions,
 /// which the standard hash buys with speed, is not needed here.
 #[derive(Default, Clone, Copy)]
-struct LineHasher(u64);
+pub struct LineHasher(u64);
 
 impl std::hash::Hasher for LineHasher {
     fn write(&mut self, bytes: &[u8]) {
@@ -388,6 +401,9 @@ impl std::hash::Hasher for LineHasher {
         self.0
     }
 }
+
+/// A map keyed by the user's own text, with [`LineHasher`].
+pub type TextMap<K, V> = HashMap<K, V, std::hash::BuildHasherDefault<LineHasher>>;
 
 /// Remembered lines of one table.
 type Lines = HashMap<String, Parsed, std::hash::BuildHasherDefault<LineHasher>>;

@@ -46,6 +46,10 @@ struct FieldState {
     #[serde(flatten)]
     echo: FieldEcho,
     error: Option<String>,
+    /// A table's problems as data (line, columns, message): the page marks cells from
+    /// these, never by reading the message's text.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    problems: Vec<crate::error::TableProblem>,
 }
 
 #[derive(Serialize)]
@@ -162,12 +166,16 @@ impl Visit for Page<'_> {
         };
         let fields = echo_fields(raw, C::FIELDS)
             .into_iter()
-            .map(|echo| FieldState {
-                error: errors
-                    .iter()
-                    .find(|e| e.field == echo.name)
-                    .map(|e| e.to_string()),
-                echo,
+            .map(|echo| {
+                let mine = errors.iter().find(|e| e.field == echo.name);
+                FieldState {
+                    error: mine.map(ToString::to_string),
+                    problems: match mine.map(|e| &e.kind) {
+                        Some(crate::error::ParamErrorKind::Table(p)) => p.clone(),
+                        _ => Vec::new(),
+                    },
+                    echo,
+                }
             })
             .collect();
         let (ignored, ignored_total) = raw.unknown_keys(C::FIELDS, MOST_IGNORED_NAMED);

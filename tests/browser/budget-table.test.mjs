@@ -39,7 +39,7 @@ test('a cell edited in the table changes its line of the CSV and the results, as
   await fill(page, cell(0, 4), '160');
   const after = await designText(page);
   const changed = before.split('\n').map((l, i) => [l, after.split('\n')[i]]).filter(([a, b]) => a !== b);
-  assert.deepEqual(changed, [['core_irq_sync,1.2GHz,2MHz,2,16,', 'core_irq_sync,1.2GHz,2MHz,2,160,']]);
+  assert.deepEqual(changed, [['core_irq_sync,1.2GHz,2MHz,2,16,1,,,,,,,,,', 'core_irq_sync,1.2GHz,2MHz,2,160,1,,,,,,,,,']]);
   const want = cliFor(after);
   assert.equal(await total(page), want.log10_total_fit);
   // Its figures beside it: FIT and share at the worst corner, as the report has them.
@@ -48,7 +48,7 @@ test('a cell edited in the table changes its line of the CSV and the results, as
   assert.equal(figs[1], `${(100 * row.share).toFixed(1)} %`);
   // A bad cell is flagged in the table and beside the field, the rest of the page lives.
   await fill(page, cell(0, 1), 'fast');
-  assert.match(await page.textContent('#m-design'), /line 5, column fclk: 'fast' is not a number/);
+  assert.match(await page.textContent('#m-design'), /line 7, column fclk: 'fast' is not a number/);
   assert.equal(await page.getAttribute('#grid-design tr[data-row="0"] td:nth-child(3)', 'class'), 'bad');
   assert.match(await page.getAttribute('#grid-design tr[data-row="0"]', 'class'), /bad/);
   await fill(page, cell(0, 1), '1.2GHz');
@@ -77,12 +77,12 @@ test('rows are added, duplicated, deleted and undone; the table sorts by share',
   await settle(page);
   assert.equal(await rows(), '25 rows');
   assert.equal(await page.inputValue(cell(3, 0)), 'new-25');
-  assert.match(await page.textContent('#m-design'), /line 8, column fclk: the cell is empty/);
+  assert.match(await page.textContent('#m-design'), /line 10, column fclk: a value is required/);
   await fill(page, cell(3, 1), '1.2GHz');
   await fill(page, cell(3, 2), '50MHz');
   await fill(page, cell(3, 3), '2');
   await fill(page, cell(3, 4), '4');
-  assert.equal((await designText(page)).split('\n')[7], 'new-25,1.2GHz,50MHz,2,4,');
+  assert.equal((await designText(page)).split('\n')[9], 'new-25,1.2GHz,50MHz,2,4,,,,,,,,,,');
   assert.equal(await total(page), cliFor(await designText(page)).log10_total_fit);
   // Duplicate, then delete the copy.
   await page.click('#grid-design [data-act="duplicate"]');
@@ -104,11 +104,11 @@ test('rows are added, duplicated, deleted and undone; the table sorts by share',
   const want = cliFor(demo).rows.slice().sort((a, b) => b.share - a.share).slice(0, 5).map((r) => r.name);
   const shown = await page.$$eval('#grid-design tbody tr[data-row] td:nth-child(2) input', (i) => i.slice(0, 5).map((x) => x.value));
   assert.deepEqual(shown, want);
-  // The largest row edited down to nothing holds its place while its cell has the focus,
-  // then takes its new place when the focus leaves the table.
+  // The largest row edited down to nothing (six stages) holds its place while its cell
+  // has the focus, then takes its new place when the focus leaves the table.
   const first = () => page.$eval('#grid-design tbody tr[data-row]', (t) => t.querySelector('input').value);
   const topRow = await page.$eval('#grid-design tbody tr[data-row]', (t) => t.dataset.row);
-  await fill(page, cell(topRow, 2), '1Hz');
+  await fill(page, cell(topRow, 3), '6');
   assert.equal(await first(), want[0]);
   await page.click('#results-h');
   await settle(page);
@@ -209,7 +209,7 @@ test('the printed report is a sign-off: verdict, inputs, corners, offenders, fix
   assert.match(text, /NOT within the budget/);
   const headings = await page.$$eval('#signoff h3', (h) => h.map((x) => x.textContent.replace(/ \(.*/, '')));
   assert.deepEqual(headings, ['Verdict', 'Inputs as understood', 'Corners and their totals', 'Largest shares at the worst corner',
-    'Fix plan', 'Uncertainty', 'Fleet', 'Cautions', 'The design as given']);
+    'Fix plan', 'Uncertainty', 'Fleet', 'Warnings', 'Cautions', 'The design as given']);
   // The largest share first, as the report has it, and every change of the fix plan.
   const top = want.rows.slice().sort((a, b) => b.share - a.share)[0].name;
   const firstOffender = await page.$$eval('#signoff h3', (h) => {
@@ -234,7 +234,7 @@ test('an edit still waiting to be written reaches Save CSV and the link, and giv
   await fill(page, cell(0, 4), '99');
   // Saved at once, before typing pauses: the file has the edit.
   const [saved] = await Promise.all([page.waitForEvent('download'), page.click('[data-save="design"]')]);
-  assert.match(fs.readFileSync(await saved.path(), 'utf8'), /^core_irq_sync,1\.2GHz,2MHz,2,99,$/m);
+  assert.match(fs.readFileSync(await saved.path(), 'utf8'), /^core_irq_sync,1\.2GHz,2MHz,2,99,1,,,,,,,,,$/m);
   await fill(page, cell(0, 4), '77');
   assert.ok(await page.$('#grid-design[data-pending]'), 'the write waits for a pause');
   // The link and the results already have it.
@@ -308,4 +308,38 @@ test('where undo history was let go, the table says where it ends', async () => 
   assert.match(await page.textContent('#grid-design .grid-count'), /undo history ends here: \d+ older changes were let go/);
   assert.equal(await page.$eval('#grid-design [data-act="undo"]', (b) => b.dataset.cut), 'yes');
   await context.close();
+});
+
+test('a design of crossing kinds shows its implied rates, clock factors and flip-flops; a plain one does not; cells are marked from the structured problems', async () => {
+  for (const url of [fileUrl('budget.html'), env.server.url + 'budget.html']) {
+    const { context, page, problems } = await open(env.browser, url);
+    const heads = () => page.$$eval('#grid-design thead th.figure', (t) => t.map((x) => x.textContent));
+    assert.deepEqual(await heads(), ['FIT at low_v_cold', 'share', 'fdata (implied)', 'clock factor K', 'flip-flops', 'fix: stages']);
+    // The Gray write pointer (row 2): its increments are its rate; five flip-flops a stage.
+    const want = cliFor(await designText(page)).rows.find((r) => r.name === 'core_fifo_wptr');
+    assert.equal(want.fdata_hz, 200e6);
+    assert.equal(want.flip_flops, 10);
+    const figs = await page.$$eval('#grid-design tr[data-row="2"] td.figure', (t) => t.map((x) => x.textContent));
+    assert.deepEqual([figs[2], figs[4]], ['200 MHz', '10']);
+    // The related crossing's K, as the report has it.
+    const spi = cliFor(await designText(page)).rows.find((r) => r.name === 'periph_spi_ack');
+    const spiRow = await page.$$eval('#grid-design tbody tr[data-row]', (t) => t.find((r) => r.querySelector('input').value === 'periph_spi_ack').dataset.row);
+    const k = await page.$eval(`#grid-design tr[data-row="${spiRow}"] td.figure:nth-last-child(3)`, (t) => t.textContent);
+    assert.ok(Math.abs(Number(k) - spi.clock_factor) <= 1e-3 * spi.clock_factor, `${k} against ${spi.clock_factor}`);
+    // A kind without its rate: the core names the row's increments cell, and the table
+    // marks that cell (column 7 of the demo's header) from the structured problem.
+    await fill(page, cell(0, 6), 'gray');
+    assert.match(await page.textContent('#m-design'), /design, line 7, column increments: a value is required/);
+    assert.equal(await page.getAttribute('#grid-design tr[data-row="0"] td:nth-child(9)', 'class'), 'bad');
+    assert.equal(await page.getAttribute('#grid-design tr[data-row="0"] td:nth-child(8)', 'class'), '');
+    await fill(page, cell(0, 6), '');
+    // A plain design: none of those columns.
+    await page.click('#grid-design [data-view="text"]');
+    await fill(page, '[name="design"]', 'name,fclk,fdata,stages,count\nrx,1.2GHz,80MHz,2,32\ntx,400MHz,1kHz,3,1\n');
+    await page.click('#grid-design [data-view="table"]');
+    await settle(page);
+    assert.deepEqual(await heads(), ['FIT at low_v_cold', 'share', 'fix: stages']);
+    assert.deepEqual(problems, []);
+    await context.close();
+  }
 });

@@ -1,36 +1,35 @@
 //! Reading a design and its corners into a roll-up: every row checked against every
-//! corner, every problem reported with its file, line and column.
+//! corner, every problem reported with its file, line and column. A row at a corner is
+//! one synchronizer case (see [`super::row`]).
 
-use crate::error::{ParamError, ParamErrorKind, ParamErrors};
+use std::collections::{BTreeSet, HashMap};
+use std::sync::Arc;
+
+use crate::error::{ParamError, ParamErrorKind, ParamErrors, TableProblem};
 use crate::params::{positive_number, whole, FieldReader, RawInputs};
 use crate::quantity::Time;
 use crate::reliability::Fleet;
 use crate::synchronizer::fields as sync;
-use crate::table::{read, read_keeping, Column};
-use crate::units::{format_si, Dim};
+use crate::table::{read_keeping, Column};
+use crate::units::Dim;
 
 use super::fields::{
     BUDGET_FIT, CORNERS, DESIGN, DEVICES, SERVICE_YEARS, SIGNOFF, T0, TAU, TAU_SIGMA, TCQ, TSU, TW,
     TW_SIGMA,
 };
 use super::rollup::{Cell, Rollup, MAX_STAGES};
-
-/// A window and whether it counts from the clock edge (t0) or beyond tcq (tw).
-#[derive(Debug, Clone, Copy, PartialEq)]
-struct Win {
-    value: f64,
-    t0: bool,
-}
+use super::row::{lent_error, Lent, RowReader, ROW_FIELDS};
 
 /// A named corner.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Corner {
     /// Its name.
     pub name: String,
-    tau: Option<f64>,
-    window: Option<Win>,
-    tsu: Option<f64>,
-    tcq: Option<f64>,
+    /// Its plain values, lent to rows of no class (and to classes without columns).
+    plain: Lent,
+    /// Its per-class and per-domain values (`tau@fast`, `fclk@core`), by column name;
+    /// a blank cell is absent.
+    at: HashMap<String, f64>,
     hours: Option<f64>,
 }
 
@@ -60,24 +59,28 @@ pub struct BudgetCase {
     pub hours: Option<Vec<f64>>,
     /// The design's note columns: each its name and one text per row.
     pub notes: Vec<(String, Vec<String>)>,
+    /// Each row's cell class and clock domain as written (blank when none).
+    pub classes: Vec<String>,
+    /// Each row's sampling clock domain as written (blank when none).
+    pub domains: Vec<String>,
+    /// Each row's warnings, as `latchwise sync` gives them for the row's own inputs,
+    /// and the row's inputs its case does not use.
+    pub row_warnings: Vec<Vec<String>>,
+    /// Whether each row gives its rate by a crossing kind (so its fdata is implied).
+    pub kind_given: Vec<bool>,
+    /// Warnings on the design as a whole: classes that take the corners' plain values,
+    /// rows fixed at every corner, corner columns no row uses.
+    pub design_warnings: Vec<String>,
 }
 
-/// The design's columns: each a synchronizer field, with that field's limits.
-const DESIGN_COLUMNS: [Column; 13] = [
+/// The design's own columns; after them, every synchronizer input (see [`ROW_FIELDS`]),
+/// as text for the synchronizer's reader.
+const OWN_COLUMNS: [Column; 7] = [
     Column::any("name", Dim::Text),
-    Column::of(sync::FCLK).positive(),
-    Column::of(sync::FDATA).positive(),
-    Column::of(sync::STAGES).positive().optional(),
-    Column::of(sync::TR).non_negative().optional(),
     Column::any("count", Dim::Count)
         .within(1.0, MAX_COUNT)
         .positive()
         .optional(),
-    Column::of(sync::TAU).positive().optional(),
-    Column::of(sync::TW).positive().optional(),
-    Column::of(sync::T0).positive().optional(),
-    Column::of(sync::TSU).non_negative().optional(),
-    Column::of(sync::TCQ).non_negative().optional(),
     // Flip-flops per stage of one instance (a 5-bit Gray pointer: 5): the fix plan's cost.
     Column::any("width", Dim::Count)
         .within(1.0, 1e6)
@@ -88,7 +91,24 @@ const DESIGN_COLUMNS: [Column; 13] = [
         .renamed("max_stages")
         .positive()
         .optional(),
+    // The row's cell class: `tau@CLASS` and its kin in the corners.
+    Column::any("cell", Dim::Text).optional(),
+    // The sampling clock's domain: `fclk@DOMAIN` in the corners.
+    Column::any("domain", Dim::Text).optional(),
+    // The launching clock's domain (crossing=signal): `flaunch@DOMAIN` or `fclk@DOMAIN`.
+    Column::any("launch_domain", Dim::Text).optional(),
 ];
+
+/// The design's columns: its own, then every synchronizer input by the same name.
+fn design_columns() -> Vec<Column> {
+    let mut v = OWN_COLUMNS.to_vec();
+    v.extend(
+        ROW_FIELDS
+            .iter()
+            .map(|f| Column::any(f.name, Dim::Text).optional()),
+    );
+    v
+}
 
 /// Which of a design's own columns are kept: `note` and `note:WORD` (an owner, a waiver,
 /// a ticket) travel with their rows into every export; any other is refused, with how to
@@ -122,30 +142,94 @@ const CORNER_COLUMNS: [Column; 7] = [
         .optional(),
 ];
 
+/// The values a corner may give per cell class (`tau@CLASS`...) and per clock domain
+/// (`fclk@DOMAIN`, `flaunch@DOMAIN`): each with the synchronizer field whose limits hold.
+const PER_CLASS: [(&str, Column); 5] = [
+    ("tau", Column::of(sync::TAU).positive()),
+    ("tw", Column::of(sync::TW).positive()),
+    ("t0", Column::of(sync::T0).positive()),
+    ("tsu", Column::of(sync::TSU).non_negative()),
+    ("tcq", Column::of(sync::TCQ).non_negative()),
+];
+const PER_DOMAIN: [(&str, Column); 2] = [
+    ("fclk", Column::of(sync::FCLK).positive()),
+    ("flaunch", Column::of(sync::FLAUNCH).positive()),
+];
+
+/// The column of a per-class or per-domain value, by its base name.
+fn at_column(base: &str) -> Option<Column> {
+    PER_CLASS
+        .iter()
+        .chain(&PER_DOMAIN)
+        .find(|(n, _)| *n == base)
+        .map(|(_, c)| *c)
+}
+
+/// Which of the corners' own columns are kept: `VALUE@NAME` for a cell class or a clock
+/// domain.
+fn corner_column(name: &str) -> Option<Result<(), &'static str>> {
+    Some(match name.split_once('@') {
+        Some((base, word)) if at_column(base).is_some() && !word.trim().is_empty() => Ok(()),
+        _ => Err(
+            "per cell class give tau@CLASS, tw@CLASS, t0@CLASS, tsu@CLASS or tcq@CLASS; \
+             per clock domain fclk@DOMAIN or flaunch@DOMAIN",
+        ),
+    })
+}
+
 /// How far the corners' `hours` may sum from 1.
 pub const HOURS_SUM_TOLERANCE: f64 = 1e-9;
 
-fn window(tw: Option<f64>, t0: Option<f64>) -> Result<Option<Win>, &'static str> {
+fn window(tw: Option<f64>, t0: Option<f64>) -> Result<Option<(f64, bool)>, &'static str> {
     match (tw, t0) {
         (Some(_), Some(_)) => Err("give tw or t0, not both"),
-        (Some(v), None) => Ok(Some(Win {
-            value: v,
-            t0: false,
-        })),
-        (None, Some(v)) => Ok(Some(Win { value: v, t0: true })),
+        (Some(v), None) => Ok(Some((v, false))),
+        (None, Some(v)) => Ok(Some((v, true))),
         (None, None) => Ok(None),
+    }
+}
+
+/// One cell of a kept column, held to its column's limits.
+fn kept_cell(col: &Column, text: &str) -> Result<Option<f64>, String> {
+    let text = text.trim();
+    if text.is_empty() {
+        return Ok(None);
+    }
+    let spec = crate::params::FieldSpec {
+        name: col.name,
+        dim: col.dim,
+        help: "",
+        limits: col.limits,
+        usual: (0.0, f64::MAX),
+    };
+    match spec.parse(text) {
+        Ok(v) if col.non_negative && v < 0.0 => {
+            Err(format!("'{}' is negative", crate::error::short(text)))
+        }
+        Ok(v) if col.positive && v <= 0.0 => Err("must be above zero".to_string()),
+        Ok(v) => Ok(Some(v)),
+        Err(e) => Err(message_of(&e)),
+    }
+}
+
+/// An error's message without its field's name in front (the place names the column).
+fn message_of(e: &ParamError) -> String {
+    let s = e.to_string();
+    match s.strip_prefix(&format!("{}: ", e.field)) {
+        Some(m) => m.to_string(),
+        None => s,
     }
 }
 
 /// The corners from the corners file, or the one corner `given` by options.
 fn read_corners(r: &mut FieldReader) -> Option<Vec<Corner>> {
     if let Some(text) = r.text(&CORNERS) {
-        let table = match read(text, &CORNER_COLUMNS) {
+        let table = match read_keeping(text, &CORNER_COLUMNS, corner_column) {
             Ok(t) => t,
             Err(p) => {
                 r.push(ParamError::new(
                     CORNERS.name,
-                    ParamErrorKind::table(p.iter().map(|e| format!("corners, {e}")).collect()),
+                    ParamErrorKind::table(p.iter().map(|e| e.in_table("corners")).collect()),
                 ));
                 return None;
             }
@@ -164,45 +248,94 @@ fn read_corners(r: &mut FieldReader) -> Option<Vec<Corner>> {
         for (i, line) in table.lines.iter().enumerate() {
             let name = names[i].clone();
             if name.is_empty() {
-                problems.push(format!(
-                    "corners, line {line}, column corner: the corner needs a name"
+                problems.push(TableProblem::at(
+                    "corners",
+                    Some(*line),
+                    &["corner"],
+                    "the corner needs a name",
                 ));
             } else if out.iter().any(|c| c.name == name) {
-                problems.push(format!(
-                    "corners, line {line}, column corner: '{name}' is named twice"
+                problems.push(TableProblem::at(
+                    "corners",
+                    Some(*line),
+                    &["corner"],
+                    format!("'{}' is named twice", crate::error::short(&name)),
                 ));
             }
             let w = match window(tw.get(i).copied().flatten(), t0.get(i).copied().flatten()) {
-                Ok(w) => w,
+                Ok(Some(w)) => Some(w),
+                Ok(None) => {
+                    problems.push(TableProblem::at(
+                        "corners",
+                        Some(*line),
+                        &[],
+                        "the corner needs tw or t0",
+                    ));
+                    None
+                }
                 Err(m) => {
-                    problems.push(format!("corners, line {line}: {m}"));
+                    problems.push(TableProblem::at("corners", Some(*line), &["tw", "t0"], m));
                     None
                 }
             };
-            if w.is_none() {
-                problems.push(format!("corners, line {line}: the corner needs tw or t0"));
-            }
             let h = hours.get(i).copied().flatten();
             if table.has(6) && h.is_none() {
-                problems.push(format!(
-                    "corners, line {line}, column hours: give every corner its share of the \
-                     service time (0 for none)"
+                problems.push(TableProblem::at(
+                    "corners",
+                    Some(*line),
+                    &["hours"],
+                    "give every corner its share of the service time (0 for none)",
                 ));
+            }
+            let mut at = HashMap::new();
+            for (col, cells) in &table.kept {
+                let base = col.split_once('@').map_or("", |(b, _)| b);
+                let Some(spec) = at_column(base) else {
+                    continue;
+                };
+                match kept_cell(&spec, &cells[i]) {
+                    Ok(Some(v)) => {
+                        at.insert(col.clone(), v);
+                    }
+                    Ok(None) => {}
+                    Err(m) => problems.push(TableProblem::at("corners", Some(*line), &[col], m)),
+                }
+            }
+            for (col, _) in &table.kept {
+                if let Some(class) = col.strip_prefix("tw@") {
+                    let other = format!("t0@{class}");
+                    if at.contains_key(col) && at.contains_key(&other) {
+                        problems.push(TableProblem::at(
+                            "corners",
+                            Some(*line),
+                            &[col, &other],
+                            "give tw or t0, not both",
+                        ));
+                    }
+                }
             }
             out.push(Corner {
                 name,
-                tau: tau[i],
-                window: w,
-                tsu: tsu[i],
-                tcq: tcq.get(i).copied().flatten(),
+                plain: Lent {
+                    tau: tau[i],
+                    window: w,
+                    tsu: tsu[i],
+                    tcq: tcq.get(i).copied().flatten(),
+                    fclk: None,
+                    flaunch: None,
+                },
+                at,
                 hours: h,
             });
         }
         if table.has(6) && problems.is_empty() {
             let sum: f64 = out.iter().filter_map(|c| c.hours).sum();
             if (sum - 1.0).abs() > HOURS_SUM_TOLERANCE {
-                problems.push(format!(
-                    "corners, column hours: the shares of service time sum to {sum}, not 1"
+                problems.push(TableProblem::at(
+                    "corners",
+                    None,
+                    &["hours"],
+                    format!("the shares of service time sum to {sum}, not 1"),
                 ));
             }
         }
@@ -226,12 +359,45 @@ fn read_corners(r: &mut FieldReader) -> Option<Vec<Corner>> {
     let tcq = r.optional(&TCQ, Time::non_negative).map(Time::get);
     Some(vec![Corner {
         name: "given".into(),
-        tau,
-        window: window(tw, t0).ok().flatten(),
-        tsu,
-        tcq,
+        plain: Lent {
+            tau,
+            window: window(tw, t0).ok().flatten(),
+            tsu,
+            tcq,
+            fclk: None,
+            flaunch: None,
+        },
+        at: HashMap::new(),
         hours: None,
     }])
+}
+
+/// The names of the corners' per-class or per-domain columns for `base` and `word`.
+fn at_key(base: &str, word: &str) -> String {
+    format!("{base}@{}", word.trim().to_ascii_lowercase())
+}
+
+/// What corner `c` lends a row of class `class` in domains `domain` and `launch`.
+fn lent_at(c: &Corner, class: &str, domain: &str, launch: &str) -> Lent {
+    let get = |base: &str, word: &str| {
+        (!word.trim().is_empty())
+            .then(|| c.at.get(&at_key(base, word)).copied())
+            .flatten()
+    };
+    let p = &c.plain;
+    let window = match (get("tw", class), get("t0", class)) {
+        (Some(w), _) => Some((w, false)),
+        (None, Some(w)) => Some((w, true)),
+        (None, None) => p.window,
+    };
+    Lent {
+        tau: get("tau", class).or(p.tau),
+        window,
+        tsu: get("tsu", class).or(p.tsu),
+        tcq: get("tcq", class).or(p.tcq),
+        fclk: get("fclk", domain),
+        flaunch: get("flaunch", launch).or(get("fclk", launch)),
+    }
 }
 
 impl BudgetCase {
@@ -297,12 +463,12 @@ impl BudgetCase {
             r.push(ParamError::new(DESIGN.name, ParamErrorKind::Missing));
             return Err(r.into_errors());
         };
-        let table = match read_keeping(text, &DESIGN_COLUMNS, note_column) {
+        let table = match read_keeping(text, &design_columns(), note_column) {
             Ok(t) => Some(t),
             Err(p) => {
                 r.push(ParamError::new(
                     DESIGN.name,
-                    ParamErrorKind::table(p.iter().map(|e| format!("design, {e}")).collect()),
+                    ParamErrorKind::table(p.iter().map(|e| e.in_table("design")).collect()),
                 ));
                 None
             }
@@ -311,112 +477,179 @@ impl BudgetCase {
             return Err(r.into_errors());
         };
         let names = table.text(0);
-        let col = |i| table.optional(i);
-        let (fclk, fdata, stages, tr, count) = (col(1), col(2), col(3), col(4), col(5));
-        let (tau, tw, t0, tsu, tcq) = (col(6), col(7), col(8), col(9), col(10));
-        let (width, cap) = (col(11), col(12));
+        let (count, width, cap) = (table.optional(1), table.optional(2), table.optional(3));
+        let (classes, domains, launches) = (table.text(4), table.text(5), table.text(6));
+        let own_texts: Vec<(&'static str, Vec<String>)> = ROW_FIELDS
+            .iter()
+            .enumerate()
+            .filter(|(k, _)| table.has(OWN_COLUMNS.len() + k))
+            .map(|(k, f)| (f.name, table.text(OWN_COLUMNS.len() + k)))
+            .collect();
         let at = |v: &Vec<Option<f64>>, i: usize| v.get(i).copied().flatten();
-        let mut problems: Vec<String> = Vec::new();
-        let mut cells = Vec::with_capacity(table.len());
-        let mut row_stages = Vec::with_capacity(table.len());
-        let mut counts = Vec::with_capacity(table.len());
-        let mut widths = Vec::with_capacity(table.len());
-        let mut caps = Vec::with_capacity(table.len());
-        let mut tr_given = Vec::with_capacity(table.len());
+        fn word(v: &[String], i: usize) -> &str {
+            v.get(i).map_or("", |s| s.trim())
+        }
+        let mut problems: Vec<TableProblem> = Vec::new();
+        let n_rows = table.len();
+        let mut cells = Vec::with_capacity(n_rows);
+        let mut row_stages = Vec::with_capacity(n_rows);
+        let mut counts = Vec::with_capacity(n_rows);
+        let mut widths = Vec::with_capacity(n_rows);
+        let mut caps = Vec::with_capacity(n_rows);
+        let mut tr_given = Vec::with_capacity(n_rows);
+        let mut row_warnings = Vec::with_capacity(n_rows);
+        let mut kind_given = Vec::with_capacity(n_rows);
+        let mut fixed: Vec<String> = Vec::new();
+        let mut reader = RowReader::default();
         // Each crossing by its own name: the fix plan and the results name rows.
-        let mut first_line: std::collections::HashMap<&str, usize> =
-            std::collections::HashMap::with_capacity(table.len());
+        let mut first_line: crate::table::TextMap<&str, usize> =
+            crate::table::TextMap::with_capacity_and_hasher(n_rows, Default::default());
         for (i, line) in table.lines.iter().enumerate() {
-            let here = |m: String| format!("design, line {line}, {m}");
+            let here =
+                |columns: &[&str], m: String| TableProblem::at("design", Some(*line), columns, m);
             if let Some(name) = names.get(i).filter(|n| !n.is_empty()) {
                 let first = *first_line.entry(name.as_str()).or_insert(*line);
                 if first != *line {
-                    problems.push(here(format!(
-                        "column name: '{}' names line {first} already: each crossing needs a name of its own",
-                        crate::error::short(name)
-                    )));
+                    problems.push(here(
+                        &["name"],
+                        format!(
+                            "'{}' names line {first} already: each crossing needs a name of its own",
+                            crate::error::short(name)
+                        ),
+                    ));
                 }
             }
-            let (Some(fc), Some(fd)) = (at(&fclk, i), at(&fdata, i)) else {
-                continue;
-            };
+            let own: Vec<(&'static str, &str)> = own_texts
+                .iter()
+                .filter_map(|(k, v)| {
+                    v.get(i)
+                        .map(|t| t.trim())
+                        .filter(|t| !t.is_empty())
+                        .map(|t| (*k, t))
+                })
+                .collect();
             let n = at(&count, i).unwrap_or(1.0);
             let wd = at(&width, i).unwrap_or(1.0);
             if wd.fract() != 0.0 {
-                problems.push(here(format!("column width: '{wd}' is not a whole number")));
+                problems.push(here(&["width"], format!("'{wd}' is not a whole number")));
             }
+            if n.fract() != 0.0 {
+                problems.push(here(&["count"], format!("'{n}' is not a whole number")));
+            }
+            let (class, domain, launch) =
+                (word(&classes, i), word(&domains, i), word(&launches, i));
+            let has = |f: &str| own.iter().any(|(k, _)| *k == f);
+            // A named domain must give the clock, or the row its own.
+            let missing = |base: &str, dom: &str| {
+                !dom.is_empty()
+                    && !corners
+                        .iter()
+                        .any(|c| c.at.contains_key(&at_key(base, dom)))
+            };
+            if missing("fclk", domain) && !has(sync::FCLK.name) {
+                problems.push(here(
+                    &["domain"],
+                    format!(
+                        "no corner gives fclk@{}, and the row gives no fclk",
+                        crate::error::short(&domain.to_ascii_lowercase())
+                    ),
+                ));
+                continue;
+            }
+            let signal = own
+                .iter()
+                .any(|(k, t)| *k == sync::CROSSING.name && t.eq_ignore_ascii_case("signal"));
+            if signal
+                && missing("flaunch", launch)
+                && missing("fclk", launch)
+                && !has(sync::FLAUNCH.name)
+            {
+                problems.push(here(
+                    &["launch_domain"],
+                    format!(
+                        "no corner gives flaunch@{0} or fclk@{0}, and the row gives no flaunch",
+                        crate::error::short(&launch.to_ascii_lowercase())
+                    ),
+                ));
+                continue;
+            }
+            let mut row = Vec::with_capacity(corners.len());
+            let mut warnings: Vec<String> = Vec::new();
+            let mut failed = false;
+            for c in &corners {
+                let lent = lent_at(c, class, domain, launch);
+                match reader.read(&own, &lent) {
+                    Ok(case) => {
+                        for w in &case.warnings {
+                            if !warnings.contains(w) {
+                                warnings.push(w.clone());
+                            }
+                        }
+                        row.push(Cell::of(Arc::clone(&case.sync), n));
+                    }
+                    Err(errors) => {
+                        for e in &errors.0 {
+                            let lendable = [sync::TAU.name, sync::TW.name, sync::TSU.name];
+                            let m = if e.kind == ParamErrorKind::Missing
+                                && lendable.contains(&e.field)
+                            {
+                                "a value is required, in the row or the corner".to_string()
+                            } else {
+                                message_of(e)
+                            };
+                            problems.push(if lent_error(e, &own, &lent) {
+                                here(
+                                    &[e.field],
+                                    format!("at corner {}, with the corner's value: {m}", c.name),
+                                )
+                            } else {
+                                here(&[e.field], m)
+                            });
+                        }
+                        failed = true;
+                        break;
+                    }
+                }
+            }
+            if failed {
+                continue;
+            }
+            let sync0 = &row[0].sync;
+            let st = sync0.stages();
+            let trv = sync0.tr().is_some();
             let most = at(&cap, i);
             if let Some(m) = most {
                 if m.fract() != 0.0 {
-                    problems.push(here(format!(
-                        "column max_stages: '{m}' is not a whole number from 1 to 1000"
-                    )));
-                } else if m < at(&stages, i).unwrap_or(1.0) {
-                    problems.push(here(format!(
-                        "column max_stages: {m} is below the row's stages, {}",
-                        at(&stages, i).unwrap_or(1.0)
-                    )));
+                    problems.push(here(
+                        &["max_stages"],
+                        format!("'{m}' is not a whole number from 1 to 1000"),
+                    ));
+                } else if m < f64::from(st) {
+                    problems.push(here(
+                        &["max_stages"],
+                        format!("{m} is below the row's stages, {st}"),
+                    ));
                 }
             }
-            if n.fract() != 0.0 {
-                problems.push(here(format!("column count: '{n}' is not a whole number")));
-            }
-            let st = at(&stages, i);
-            if let Some(s) = st {
-                if s.fract() != 0.0 || s > f64::from(MAX_STAGES) {
-                    problems.push(here(format!(
-                        "column stages: '{s}' is not a whole number from 1 to 1000"
-                    )));
-                }
-            }
-            let trv = at(&tr, i);
-            if st.is_none() == trv.is_none() {
-                problems.push(here("columns stages, tr: give one of the two".into()));
-                continue;
-            }
-            let row_w = match window(at(&tw, i), at(&t0, i)) {
-                Ok(w) => w,
-                Err(m) => {
-                    problems.push(here(format!("columns tw, t0: {m}")));
-                    continue;
-                }
-            };
-            let mut row = Vec::with_capacity(corners.len());
-            for c in &corners {
-                let tau_v = at(&tau, i).or(c.tau);
-                let w = row_w.or(c.window);
-                let (Some(tau_v), Some(w)) = (tau_v, w) else {
-                    problems.push(here(format!(
-                        "corner {}: no tau or window, in the row or the corner",
-                        c.name
-                    )));
-                    break;
-                };
-                let tsu_v = at(&tsu, i).or(c.tsu).unwrap_or(0.0);
-                let tcq_v = if w.t0 {
-                    0.0
-                } else {
-                    at(&tcq, i).or(c.tcq).unwrap_or(0.0)
-                };
-                let hop = 1.0 / fc - tsu_v - tcq_v;
-                // As the synchronizer: even one flip-flop needs tsu + tcq within a period.
-                if trv.is_none() && hop <= 0.0 {
-                    problems.push(here(format!(
-                        "corner {}: the clock period {} is not longer than tsu + tcq = {}",
-                        c.name,
-                        format_si(1.0 / fc, "s"),
-                        format_si(tsu_v + tcq_v, "s")
-                    )));
-                    break;
-                }
-                row.push(Cell::new(n, fd, fc, w.value, hop.max(0.0), trv, tau_v));
+            if has(sync::TAU.name)
+                || has(sync::TAU_MASTER.name)
+                || has(sync::TAU_SLAVE.name)
+                || has(sync::TW.name)
+                || has(sync::T0.name)
+            {
+                fixed.push(names[i].clone());
             }
             cells.push(row);
-            row_stages.push(st.unwrap_or(1.0) as u32);
+            row_stages.push(st);
             counts.push(n);
             widths.push(wd);
             caps.push(most.map_or(MAX_STAGES, |m| m as u32));
-            tr_given.push(trv.is_some());
+            tr_given.push(trv);
+            row_warnings.push(warnings);
+            kind_given.push(
+                own.iter()
+                    .any(|(k, t)| *k == sync::CROSSING.name && !t.eq_ignore_ascii_case("data")),
+            );
         }
         if !problems.is_empty() {
             r.push(ParamError::new(
@@ -432,6 +665,15 @@ impl BudgetCase {
             .map(|c| c.hours)
             .collect::<Option<Vec<f64>>>();
         let notes = std::mem::take(&mut table.kept);
+        let design_warnings = design_warnings(&corners, &classes, &domains, &launches, &fixed);
+        let (classes, domains) = (
+            (0..names.len())
+                .map(|i| word(&classes, i).to_string())
+                .collect::<Vec<_>>(),
+            (0..names.len())
+                .map(|i| word(&domains, i).to_string())
+                .collect::<Vec<_>>(),
+        );
         Ok(BudgetCase {
             rollup: Rollup {
                 cells,
@@ -450,6 +692,97 @@ impl BudgetCase {
             fleet,
             sigmas,
             signoff_p95,
+            classes,
+            domains,
+            row_warnings,
+            kind_given,
+            design_warnings,
         })
     }
+}
+
+/// The most names a design warning lists before counting the rest.
+const NAMES_MOST: usize = 10;
+
+fn listed(names: &[String]) -> String {
+    if names.len() <= NAMES_MOST {
+        names.join(", ")
+    } else {
+        format!(
+            "{} and {} more",
+            names[..NAMES_MOST].join(", "),
+            names.len() - NAMES_MOST
+        )
+    }
+}
+
+/// What the report says once for the design: each class that takes the corners' plain
+/// values for some of its own, rows that hold their own tau or window at every corner,
+/// and corner columns that no row's class or domain uses.
+fn design_warnings(
+    corners: &[Corner],
+    classes: &[String],
+    domains: &[String],
+    launches: &[String],
+    fixed: &[String],
+) -> Vec<String> {
+    let mut out = Vec::new();
+    let columns: BTreeSet<&String> = corners.iter().flat_map(|c| c.at.keys()).collect();
+    let used: BTreeSet<String> = classes
+        .iter()
+        .filter(|c| !c.is_empty())
+        .map(|c| c.to_ascii_lowercase())
+        .collect();
+    for class in &used {
+        let plain: Vec<&str> = ["tau", "tsu", "tcq"]
+            .into_iter()
+            .filter(|b| !columns.contains(&at_key(b, class)))
+            .chain(
+                (!columns.contains(&at_key("tw", class))
+                    && !columns.contains(&at_key("t0", class)))
+                .then_some("tw or t0"),
+            )
+            .collect();
+        if !plain.is_empty() {
+            out.push(format!(
+                "Cell class {}: no corner column of its own for {}, so it takes the corners' \
+                 plain value there.",
+                crate::error::short(class),
+                plain.join(", ")
+            ));
+        }
+    }
+    let words: BTreeSet<String> = domains
+        .iter()
+        .chain(launches)
+        .filter(|c| !c.is_empty())
+        .map(|c| c.to_ascii_lowercase())
+        .collect();
+    let unused: Vec<String> = columns
+        .iter()
+        .filter(|col| {
+            let (base, word) = col.split_once('@').unwrap_or(("", ""));
+            let by = if PER_DOMAIN.iter().any(|(b, _)| *b == base) {
+                &words
+            } else {
+                &used
+            };
+            !by.contains(word)
+        })
+        .map(|c| c.to_string())
+        .collect();
+    if !unused.is_empty() {
+        out.push(format!(
+            "Corner columns that no row's cell or domain names (check the spelling): {}.",
+            listed(&unused)
+        ));
+    }
+    if !fixed.is_empty() {
+        out.push(format!(
+            "Fixed at every corner (the row gives its own tau or window, which no corner \
+             changes): {}.",
+            listed(fixed)
+        ));
+    }
+    out
 }

@@ -9,6 +9,7 @@ pub mod fields;
 pub mod input;
 pub mod report;
 pub mod rollup;
+pub mod row;
 
 use crate::calculator::{Calculator, Outcome, RowFigures, TextTable};
 use crate::chart::Plot;

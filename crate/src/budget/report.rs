@@ -18,6 +18,9 @@ use super::input::BudgetCase;
 /// three suffice, as the percentile's offset from the nominal total changes little).
 const FIX_ROUNDS_MOST: usize = 30;
 
+/// The most rows whose own warnings the report lists (the JSON has each row's).
+const ROW_WARNINGS_MOST: usize = 20;
+
 /// The most decades the FIT-per-crossing plot shows below the higher of the largest row
 /// and the budget.
 const ROWS_SPAN_DECADES: f64 = 12.0;
@@ -32,19 +35,73 @@ pub struct CornerTotal {
     pub log10_total_fit: f64,
 }
 
+/// A whole number as a JSON integer when it is one that JSON readers hold exactly (below
+/// 2^53), else as a number.
+fn whole_number<S: serde::Serializer>(v: &f64, s: S) -> Result<S::Ok, S::Error> {
+    if v.fract() == 0.0 && v.abs() < 9_007_199_254_740_992.0 {
+        s.serialize_i64(*v as i64)
+    } else {
+        s.serialize_f64(*v)
+    }
+}
+
+fn whole_number_opt<S: serde::Serializer>(
+    v: &Option<Option<f64>>,
+    s: S,
+) -> Result<S::Ok, S::Error> {
+    match v {
+        Some(Some(x)) => whole_number(x, s),
+        _ => s.serialize_none(),
+    }
+}
+
+/// One row at one corner.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct RowCorner {
+    /// The corner.
+    pub name: String,
+    /// log10 of the row's FIT there, count included.
+    pub log10_fit: f64,
+}
+
 /// One row at the worst corner.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct RowFit {
     /// The crossing.
     pub name: String,
     /// Its instances.
+    #[serde(serialize_with = "whole_number")]
     pub count: f64,
     /// Flip-flops per stage of one instance.
+    #[serde(serialize_with = "whole_number")]
     pub width: f64,
     /// Its flip-flops: count x width x stages (0 when tr is given).
+    #[serde(serialize_with = "whole_number")]
     pub flip_flops: f64,
     /// Its stages (0 when tr is given).
     pub stages: u32,
+    /// The data rate its case implies at the worst corner (from the crossing kind, when
+    /// given), Hz.
+    pub fdata_hz: f64,
+    /// With related clocks: the clock factor K at the worst corner, and its log10 (which
+    /// carries it when K is too small for a number).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub clock_factor: Option<f64>,
+    /// log10 of K, with related clocks.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub log10_clock_factor: Option<f64>,
+    /// Its cell class, when it names one.
+    #[serde(skip_serializing_if = "String::is_empty")]
+    pub cell: String,
+    /// Its sampling clock's domain, when it names one.
+    #[serde(skip_serializing_if = "String::is_empty")]
+    pub domain: String,
+    /// The row at every corner, in the corners' order.
+    pub corners: Vec<RowCorner>,
+    /// What `latchwise sync` would warn of for the row's own inputs, and its inputs that
+    /// its case does not use.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub warnings: Vec<String>,
     /// log10 of its FIT, count included.
     pub log10_fit: f64,
     /// Its share of the worst corner's total.
@@ -61,7 +118,8 @@ pub struct FixRow {
     pub name: String,
     /// Its new stage count.
     pub stages: u32,
-    /// The flip-flops the change adds: its count times the added stages.
+    /// The flip-flops the change adds: its count times its width times the added stages.
+    #[serde(serialize_with = "whole_number")]
     pub added_flip_flops: f64,
 }
 
@@ -102,8 +160,11 @@ pub struct BudgetReport {
     /// The rows the fix plan changes (null: the budget cannot be met by adding stages).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub fix: Option<Option<Vec<FixRow>>>,
-    /// Flip-flops the fix plan adds (count times added stages).
-    #[serde(skip_serializing_if = "Option::is_none")]
+    /// Flip-flops the fix plan adds (count times width times added stages).
+    #[serde(
+        skip_serializing_if = "Option::is_none",
+        serialize_with = "whole_number_opt"
+    )]
     pub added_flip_flops: Option<Option<f64>>,
     /// log10 of the worst total after the fix.
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -158,6 +219,11 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
     let top = fits.iter().copied().fold(f64::NEG_INFINITY, f64::max);
     let rel: Vec<f64> = fits.iter().map(|f| exp10(f - top)).collect();
     let sum: f64 = rel.iter().sum();
+    // The clock factor K of row i at the worst corner, with related clocks.
+    let log10_k = |i: usize| {
+        let s = &r.cells[i][worst].sync;
+        s.related().map(|_| s.log10_clock_factor_at(s.fclk().get()))
+    };
     let rows: Vec<RowFit> = fits
         .iter()
         .enumerate()
@@ -171,6 +237,21 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
                 r.flip_flops(i, r.stages[i])
             },
             stages: if c.tr_given[i] { 0 } else { r.stages[i] },
+            fdata_hz: r.cells[i][worst].sync.fdata().get(),
+            clock_factor: log10_k(i).map(exp10).filter(|k| *k > 0.0),
+            log10_clock_factor: log10_k(i),
+            cell: c.classes[i].clone(),
+            domain: c.domains[i].clone(),
+            corners: c
+                .corners
+                .iter()
+                .enumerate()
+                .map(|(k, name)| RowCorner {
+                    name: name.clone(),
+                    log10_fit: r.cells[i][k].log10_fit(r.stages[i], 1.0),
+                })
+                .collect(),
+            warnings: c.row_warnings[i].clone(),
             log10_fit: *f,
             share: rel[i] / sum,
             notes: c
@@ -292,7 +373,19 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
         (Some(p), true) => p[1],
         _ => log10_total,
     };
-    let mut warnings = Vec::new();
+    let mut warnings = c.design_warnings.clone();
+    let warned: Vec<usize> = (0..rows.len())
+        .filter(|&i| !c.row_warnings[i].is_empty())
+        .collect();
+    for &i in warned.iter().take(ROW_WARNINGS_MOST) {
+        warnings.push(format!("{}: {}", c.names[i], c.row_warnings[i].join(" ")));
+    }
+    if warned.len() > ROW_WARNINGS_MOST {
+        warnings.push(format!(
+            "And {} more rows with warnings (each row's are in the JSON's rows[].warnings).",
+            warned.len() - ROW_WARNINGS_MOST
+        ));
+    }
     if let Some(b) = budget {
         if meets_p95 == Some(false) && log10_total <= b {
             warnings.push(if c.signoff_p95 {
@@ -522,6 +615,43 @@ pub fn figures(c: &BudgetCase, report: &BudgetReport) -> Vec<RowFigures> {
             values: report.rows.iter().map(|r| Some(r.share)).collect(),
         },
     ];
+    // The columns a design of kinds, related clocks or widths needs, and only then.
+    if c.kind_given.iter().any(|k| *k) {
+        design.push(FigureColumn {
+            key: "fdata_hz",
+            label: "fdata (implied)".into(),
+            kind: "hz",
+            sorts: false,
+            values: report
+                .rows
+                .iter()
+                .zip(&c.kind_given)
+                .map(|(r, k)| k.then_some(r.fdata_hz))
+                .collect(),
+        });
+    }
+    if report.rows.iter().any(|r| r.log10_clock_factor.is_some()) {
+        design.push(FigureColumn {
+            key: "log10_clock_factor",
+            label: "clock factor K".into(),
+            kind: "log10",
+            sorts: false,
+            values: report.rows.iter().map(|r| r.log10_clock_factor).collect(),
+        });
+    }
+    if report.rows.iter().any(|r| r.width != 1.0) {
+        design.push(FigureColumn {
+            key: "flip_flops",
+            label: "flip-flops".into(),
+            kind: "count",
+            sorts: true,
+            values: report
+                .rows
+                .iter()
+                .map(|r| (r.stages > 0).then_some(r.flip_flops))
+                .collect(),
+        });
+    }
     if let Some(after) = &report.stages_after_fix {
         design.push(FigureColumn {
             key: "fix",

@@ -6,52 +6,65 @@ use std::cmp::Ordering;
 use std::collections::BinaryHeap;
 use std::f64::consts::{LN_10, PI};
 
+use std::sync::Arc;
+
 use crate::numeric::exp10;
 use crate::numeric::normal::{ln_q, ln_sum_exp};
 use crate::numeric::solve::{bisect_last, illinois};
 use crate::reliability::FIT_PER_RATE;
+use crate::synchronizer::Synchronizer;
 
 /// The longest chain the fix plan builds.
 pub const MAX_STAGES: u32 = 1000;
 
-/// One crossing at one corner, reduced to what its FIT needs.
-#[derive(Debug, Clone, Copy, PartialEq)]
+/// One crossing at one corner: its synchronizer case (the synchronizer's own model) and
+/// its instances, with the two terms of its rate law at its own stages kept for sums at
+/// many tau scales.
+#[derive(Debug, Clone, PartialEq)]
 pub struct Cell {
-    /// log10 FIT of the row at zero resolution time: count fdata fclk w 3.6e12.
+    /// The row's synchronizer at this corner (shared by equal rows).
+    pub sync: Arc<Synchronizer>,
+    /// log10 of the instances.
+    log10_count: f64,
+    /// log10 FIT of the row at its own stages before resolution: count, the rate law's
+    /// fdata fclk window K, and 3.6e12.
     pub log10_fit0: f64,
-    /// Resolution time per added stage, s (the hop; 0 when tr is given).
-    pub hop: f64,
-    /// The resolution time given directly, s, if any.
-    pub tr: Option<f64>,
-    /// The corner's (or the row's) tau, s.
-    pub tau: f64,
+    /// The resolution exponent at its own stages, in decades, at unit tau scale.
+    pub decades: f64,
 }
 
 impl Cell {
-    /// log10 FIT with `stages` flip-flops and every tau times `scale`.
-    pub fn log10_fit(&self, stages: u32, scale: f64) -> f64 {
-        let tr = self
-            .tr
-            .unwrap_or(f64::from(stages.saturating_sub(1)) * self.hop);
-        self.log10_fit0 - tr / (self.tau * scale * LN_10)
+    /// The cell of `count` instances of `sync`.
+    pub fn of(sync: Arc<Synchronizer>, count: f64) -> Cell {
+        let log10_count = count.log10();
+        let (pre, decades) = sync.log10_rate_terms(sync.stages());
+        Cell {
+            sync,
+            log10_count,
+            log10_fit0: pre + log10_count + FIT_PER_RATE.log10(),
+            decades,
+        }
     }
 
-    /// log10 of the FIT at `stages` from the parts, for the cell of a row.
-    pub fn new(
-        count: f64,
-        fdata: f64,
-        fclk: f64,
-        window: f64,
-        hop: f64,
-        tr: Option<f64>,
-        tau: f64,
-    ) -> Cell {
-        Cell {
-            log10_fit0: (count * fdata * fclk * window).log10() + FIT_PER_RATE.log10(),
-            hop,
-            tr,
-            tau,
+    /// Whether the row gives its resolution time directly (no chain to deepen).
+    pub fn tr_given(&self) -> bool {
+        self.sync.tr().is_some()
+    }
+
+    /// The two terms of log10 FIT with `stages` flip-flops: before resolution, and the
+    /// resolution exponent in decades at unit tau scale (which a tau scale divides).
+    pub fn terms(&self, stages: u32) -> (f64, f64) {
+        if stages == self.sync.stages() {
+            return (self.log10_fit0, self.decades);
         }
+        let (pre, decades) = self.sync.log10_rate_terms(stages);
+        (pre + self.log10_count + FIT_PER_RATE.log10(), decades)
+    }
+
+    /// log10 FIT with `stages` flip-flops and every tau times `scale`.
+    pub fn log10_fit(&self, stages: u32, scale: f64) -> f64 {
+        let (fit0, decades) = self.terms(stages);
+        fit0 - decades / scale
     }
 }
 
@@ -180,7 +193,7 @@ impl Rollup {
         };
         let candidates = |cur: &[f64], k: usize, stages: &[u32]| -> BinaryHeap<Gain> {
             (0..self.cells.len())
-                .filter(|&r| self.cells[r][k].tr.is_none() && stages[r] < self.caps[r])
+                .filter(|&r| !self.cells[r][k].tr_given() && stages[r] < self.caps[r])
                 .map(|r| Gain(gain(cur, k, r, stages[r]), r, stages[r]))
                 .collect()
         };
@@ -250,10 +263,7 @@ impl Rollup {
                         .cells
                         .iter()
                         .zip(&self.stages)
-                        .map(|(c, s)| {
-                            let c = &c[k];
-                            (c.log10_fit0, c.log10_fit0 - c.log10_fit(*s, 1.0))
-                        })
+                        .map(|(c, s)| c[k].terms(*s))
                         .collect();
                     t.sort_unstable_by(|a, b| a.1.total_cmp(&b.1));
                     let mut merged: Vec<(f64, f64)> = Vec::new();

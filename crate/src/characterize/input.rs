@@ -1,6 +1,6 @@
 //! Reading the fit's raw inputs: the experiment, its table of data and its settings.
 
-use crate::error::{ParamError, ParamErrorKind, ParamErrors};
+use crate::error::{ParamError, ParamErrorKind, ParamErrors, TableProblem};
 use crate::params::{FieldReader, RawInputs};
 use crate::quantity::{Frequency, Time};
 use crate::table::{read, Column, Table};
@@ -81,14 +81,14 @@ fn table(r: &mut FieldReader, columns: &[Column]) -> Option<Table> {
         Err(problems) => {
             r.push(ParamError::new(
                 DATA.name,
-                ParamErrorKind::table(problems.iter().map(ToString::to_string).collect()),
+                ParamErrorKind::table(problems.iter().map(|e| e.in_table("")).collect()),
             ));
             None
         }
     }
 }
 
-fn table_problem(r: &mut FieldReader, problems: Vec<String>) {
+fn table_problem(r: &mut FieldReader, problems: Vec<TableProblem>) {
     r.push(ParamError::new(DATA.name, ParamErrorKind::table(problems)));
 }
 
@@ -129,13 +129,18 @@ impl FitCase {
                 );
                 let t = t.and_then(|t| {
                     let failures = t.column(1);
-                    let problems: Vec<String> = t
+                    let problems: Vec<TableProblem> = t
                         .lines
                         .iter()
                         .zip(&failures)
                         .filter(|(_, k)| k.fract() != 0.0)
                         .map(|(line, k)| {
-                            format!("line {line}, column failures: '{k}' is not a whole number")
+                            TableProblem::at(
+                                "",
+                                Some(*line),
+                                &["failures"],
+                                format!("'{k}' is not a whole number"),
+                            )
                         })
                         .collect();
                     if problems.is_empty() {

@@ -422,6 +422,18 @@ impl Synchronizer {
             + self.log10_clock_factor_at(fclk)
     }
 
+    /// The rate law in two terms, for a chain of `stages` at the synchronizer's clock:
+    /// log10 of the rate before resolution (`fdata fclk window K`) and the resolution
+    /// exponent in decades at unit tau scale. With every tau times `s`, log10 rate is
+    /// the first less the second over `s`; the design budget sums its rows by these.
+    pub fn log10_rate_terms(&self, stages: u32) -> (f64, f64) {
+        let f = self.fclk.get();
+        (
+            self.log10_rate_pre(stages, f),
+            self.exponent(stages, f, 1.0) / LN_10,
+        )
+    }
+
     /// log10 of the failure rate of a chain of `stages` at `fclk`, taus times `scale`.
     fn log10_rate_at(&self, stages: u32, fclk: f64, scale: f64) -> f64 {
         self.log10_rate_pre(stages, fclk) - self.exponent(stages, fclk, scale) / LN_10

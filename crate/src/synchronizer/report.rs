@@ -266,7 +266,9 @@ pub fn evaluate(case: &SyncCase) -> SyncReport {
     }
 }
 
-fn warnings(case: &SyncCase, log10_p: f64) -> Vec<String> {
+/// The warnings on a case: values far outside their usual range, and what the model
+/// cannot see (a data rate above the clock, a single flip-flop, related clocks...).
+pub fn warnings(case: &SyncCase, log10_p: f64) -> Vec<String> {
     let s = &case.sync;
     let mut w = case.notes.clone();
     if s.fdata().get() < s.fclk().get() * 1e-9 {

@@ -1,0 +1,207 @@
+//! One design row at one corner is one synchronizer case: the row's own cells, with the
+//! corner's values (the row's cell class's, the row's clock domain's) where the row gives
+//! none, read by the synchronizer's own field reader into its own model.
+
+use std::sync::Arc;
+
+use crate::error::{ParamError, ParamErrors};
+use crate::params::{FieldSpec, RawInputs};
+use crate::synchronizer::fields as sync;
+use crate::synchronizer::{SyncCase, Synchronizer};
+use crate::table::TextMap;
+
+/// The synchronizer's inputs a design row may give: every input of `latchwise sync` but
+/// the target and the fleet, which belong to the whole design.
+pub const ROW_FIELDS: [FieldSpec; 21] = [
+    sync::TAU,
+    sync::TW,
+    sync::T0,
+    sync::TSU,
+    sync::TCQ,
+    sync::FCLK,
+    sync::FDATA,
+    sync::STAGES,
+    sync::TR,
+    sync::CROSSING,
+    sync::FLAUNCH,
+    sync::ACTIVITY,
+    sync::INCREMENTS,
+    sync::TRANSFERS,
+    sync::RATIO,
+    sync::JITTER,
+    sync::PHASE,
+    sync::TAU_MASTER,
+    sync::TAU_SLAVE,
+    sync::DUTY,
+    sync::TW2,
+];
+
+/// The values a corner lends a row that gives none of its own, each by its field name
+/// (`tau`, `tw`, `t0`, `tsu`, `tcq`, `fclk`, `flaunch`), in seconds or hertz.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct Lent {
+    /// tau.
+    pub tau: Option<f64>,
+    /// The window: its value and whether it is t0.
+    pub window: Option<(f64, bool)>,
+    /// Setup time.
+    pub tsu: Option<f64>,
+    /// Clock-to-output delay.
+    pub tcq: Option<f64>,
+    /// The sampling clock (from the row's domain).
+    pub fclk: Option<f64>,
+    /// The launching clock (from the row's launch domain).
+    pub flaunch: Option<f64>,
+}
+
+/// A row read at one corner: its synchronizer and what the synchronizer's reader said.
+#[derive(Debug, Clone, PartialEq)]
+pub struct RowCase {
+    /// The synchronizer (shared by equal rows at the same corner).
+    pub sync: Arc<Synchronizer>,
+    /// The warnings `latchwise sync` gives for the same inputs, less those about values
+    /// the corner lent (which the corners table answers for), and the row's own inputs
+    /// that this case does not use.
+    pub warnings: Vec<String>,
+}
+
+/// A number as text that reads back as the same number (Rust prints the shortest such).
+fn exact(v: f64) -> String {
+    format!("{v:e}")
+}
+
+/// The inputs of one row at one corner: the row's own cells, then what the corner lends
+/// where the row gives nothing. Only values the case uses are lent, so that the "not
+/// used" list names the row's own cells only.
+pub fn inputs(own: &[(&'static str, &str)], lent: &Lent) -> Vec<(&'static str, String)> {
+    let has = |n: &str| own.iter().any(|(k, _)| *k == n);
+    let mut v: Vec<(&'static str, String)> =
+        own.iter().map(|(k, t)| (*k, (*t).to_string())).collect();
+    let latch_given =
+        has(sync::TAU.name) || has(sync::TAU_MASTER.name) || has(sync::TAU_SLAVE.name);
+    if !latch_given {
+        if let Some(t) = lent.tau {
+            v.push((sync::TAU.name, exact(t)));
+        }
+    }
+    let t0 = if has(sync::TW.name) || has(sync::T0.name) {
+        has(sync::T0.name) && !has(sync::TW.name)
+    } else {
+        match lent.window {
+            Some((w, true)) => {
+                v.push((sync::T0.name, exact(w)));
+                true
+            }
+            Some((w, false)) => {
+                v.push((sync::TW.name, exact(w)));
+                false
+            }
+            None => false,
+        }
+    };
+    // The chain's times apply without tr; tcq only with tw; neither under the
+    // master-slave bound (tw2), which counts whole periods.
+    let chain = !has(sync::TR.name) && !has(sync::TW2.name);
+    if chain && !has(sync::TSU.name) {
+        v.push((sync::TSU.name, exact(lent.tsu.unwrap_or(0.0))));
+    }
+    if chain && !t0 && !has(sync::TCQ.name) {
+        v.push((sync::TCQ.name, exact(lent.tcq.unwrap_or(0.0))));
+    }
+    if let Some(f) = lent.fclk {
+        v.retain(|(k, _)| *k != sync::FCLK.name);
+        v.push((sync::FCLK.name, exact(f)));
+    }
+    let signal = own
+        .iter()
+        .any(|(k, t)| *k == sync::CROSSING.name && t.trim().eq_ignore_ascii_case("signal"));
+    if let (Some(f), true) = (lent.flaunch, signal) {
+        v.retain(|(k, _)| *k != sync::FLAUNCH.name);
+        v.push((sync::FLAUNCH.name, exact(f)));
+    }
+    v
+}
+
+/// Reads rows into synchronizer cases, once per distinct set of inputs (a design's rows
+/// mostly repeat a few clocks, rates and depths).
+#[derive(Debug, Default)]
+pub struct RowReader {
+    seen: TextMap<Vec<u8>, Result<Arc<RowCase>, ParamErrors>>,
+    key: Vec<u8>,
+}
+
+impl RowReader {
+    /// The case of one row at one corner, by the synchronizer's reader and model.
+    ///
+    /// # Errors
+    /// The synchronizer's errors for these inputs, each naming its field.
+    pub fn read(
+        &mut self,
+        own: &[(&'static str, &str)],
+        lent: &Lent,
+    ) -> Result<Arc<RowCase>, ParamErrors> {
+        let key = &mut self.key;
+        key.clear();
+        for (k, t) in own {
+            key.extend_from_slice(k.as_bytes());
+            key.push(0);
+            key.extend_from_slice(t.as_bytes());
+            key.push(0);
+        }
+        let (w, t0) = lent.window.map_or((None, false), |(w, t0)| (Some(w), t0));
+        for v in [lent.tau, w, lent.tsu, lent.tcq, lent.fclk, lent.flaunch] {
+            key.extend_from_slice(&v.map_or(u64::MAX, f64::to_bits).to_le_bytes());
+        }
+        key.push(u8::from(t0));
+        if let Some(done) = self.seen.get(key.as_slice()) {
+            return done.clone();
+        }
+        let out = read_afresh(own, lent);
+        self.seen.insert(self.key.clone(), out.clone());
+        out
+    }
+}
+
+/// The case of one row at one corner, read afresh.
+fn read_afresh(own: &[(&'static str, &str)], lent: &Lent) -> Result<Arc<RowCase>, ParamErrors> {
+    let pairs = inputs(own, lent);
+    let raw = RawInputs::from_pairs(pairs.iter().map(|(k, t)| (*k, t.as_str())));
+    let given = |n: &str| own.iter().any(|(k, _)| *k == n);
+    SyncCase::from_inputs(&raw).map(|case| {
+        let lent_names: Vec<&str> = pairs
+            .iter()
+            .map(|(k, _)| *k)
+            .filter(|k| !given(k))
+            .chain(lent.fclk.map(|_| sync::FCLK.name))
+            .chain(lent.flaunch.map(|_| sync::FLAUNCH.name))
+            .collect();
+        let warnings = crate::synchronizer::report::warnings(&case, case.sync.log10_p_fail())
+            .into_iter()
+            .filter(|w| !lent_names.iter().any(|n| w.starts_with(&format!("{n} = "))))
+            // Said once for the design, not per row.
+            .filter(|w| !w.starts_with("Window counted from the clock edge"))
+            .chain(
+                case.unused
+                    .iter()
+                    .map(|u| format!("{u} is not used by this row's case.")),
+            )
+            .collect();
+        Arc::new(RowCase {
+            sync: Arc::new(case.sync),
+            warnings,
+        })
+    })
+}
+
+/// Whether an error of the synchronizer's reader concerns a value the corner lent (its
+/// own, its class's or its domain's), rather than one of the row's cells or a value no
+/// one gave.
+pub fn lent_error(e: &ParamError, own: &[(&'static str, &str)], lent: &Lent) -> bool {
+    match e.field {
+        f if f == sync::FCLK.name => lent.fclk.is_some(),
+        f if f == sync::FLAUNCH.name => lent.flaunch.is_some(),
+        f => inputs(own, lent)
+            .iter()
+            .any(|(k, _)| *k == f && !own.iter().any(|(o, _)| *o == f)),
+    }
+}

@@ -1,0 +1,289 @@
+//! A design row is a synchronizer case: every row of every kind, at every corner, against
+//! `latchwise sync` given the same inputs (a property test), and against the mpmath table
+//! of `scripts/gen_reference.py` (`tests/fixtures/budget_rows_reference.csv`).
+
+use latchwise::budget::BudgetCalculator;
+use latchwise::calculator::Calculator;
+use latchwise::params::RawInputs;
+use latchwise::synchronizer::SyncCalculator;
+use proptest::prelude::*;
+use serde_json::Value;
+
+use crate::tolerance::{assert_log10, table_rows};
+
+fn budget(design: &str, corners: &str) -> Result<Value, String> {
+    let raw = RawInputs::from_pairs([("design", design), ("corners", corners)]);
+    BudgetCalculator::read(&raw)
+        .map(|c| serde_json::to_value(BudgetCalculator::evaluate(&c)).unwrap())
+        .map_err(|e| e.to_string())
+}
+
+/// Each row's log10 FIT at each corner, by row name and corner name.
+fn row_fits(v: &Value) -> Vec<(String, String, f64)> {
+    v["rows"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .flat_map(|r| {
+            r["corners"].as_array().unwrap().iter().map(move |c| {
+                (
+                    r["name"].as_str().unwrap().to_string(),
+                    c["name"].as_str().unwrap().to_string(),
+                    c["log10_fit"].as_f64().unwrap(),
+                )
+            })
+        })
+        .collect()
+}
+
+#[test]
+fn every_row_at_every_corner_matches_mpmath() {
+    // tests/fixtures/budget_rows_reference.csv: mpmath at 50 digits, from the models
+    // written out in scripts/gen_reference.py (kinds, classes, domains, unequal hops, the
+    // master-slave bound, related clocks).
+    let root = env!("CARGO_MANIFEST_DIR");
+    let files = [
+        (
+            "budget-design.csv",
+            "examples/budget-design.csv",
+            "examples/budget-corners.csv",
+        ),
+        (
+            "budget_models_design.csv",
+            "tests/fixtures/budget_models_design.csv",
+            "tests/fixtures/budget_models_corners.csv",
+        ),
+    ];
+    let table = table_rows(include_str!("fixtures/budget_rows_reference.csv"));
+    let mut checked = 0;
+    for (key, design, corners) in files {
+        let read = |p: &str| std::fs::read_to_string(format!("{root}/{p}")).unwrap();
+        let v = budget(&read(design), &read(corners)).unwrap();
+        let got = row_fits(&v);
+        for line in table.iter().filter(|l| l.starts_with(&format!("{key},"))) {
+            let f: Vec<&str> = line.split(',').collect();
+            let (row, corner, want) = (f[1], f[2], f[3].parse::<f64>().unwrap());
+            let (_, _, g) = got
+                .iter()
+                .find(|(r, c, _)| r == row && c == corner)
+                .unwrap_or_else(|| panic!("{row} at {corner} not in the report"));
+            assert_log10(&format!("{key} {row} at {corner}"), *g, want);
+            checked += 1;
+        }
+        assert_eq!(
+            got.len(),
+            table
+                .iter()
+                .filter(|l| l.starts_with(&format!("{key},")))
+                .count(),
+            "{key}: every row at every corner is in the table"
+        );
+    }
+    assert_eq!(checked, 24 * 3 + 12 * 2);
+}
+
+/// The corners of the property test: plain values, a class `fast`, domains `a`, `b`
+/// (sampling clocks) and `io` (a launch clock).
+const CORNERS: [[&str; 10]; 2] = [
+    [
+        "typ", "12ps", "20ps", "25ps", "40ps", "9ps", "15ps", "1.2GHz", "400MHz", "50MHz",
+    ],
+    [
+        "slow", "20ps", "28ps", "35ps", "60ps", "14ps", "22ps", "1GHz", "350MHz", "40MHz",
+    ],
+];
+const CORNER_HEAD: &str = "corner,tau,tw,tsu,tcq,tau@fast,tw@fast,fclk@a,fclk@b,flaunch@io";
+
+/// A random design row: (its cells by column name).
+fn a_row() -> impl Strategy<Value = Vec<(&'static str, String)>> {
+    (
+        0..4usize,                                               // kind
+        prop::option::of((1u32..6, 1u32..6, 1u32..40, 0u32..9)), // related: P, Q, jitter ps, phase tenths
+        0..5usize,                   // latch: corner, own tau, per hop, master-slave, bound
+        prop::option::of(0..3usize), // class / domain choices
+        1u32..5,                     // stages
+        prop::bool::weighted(0.15),  // tr given
+        1u32..64,                    // count
+        prop::bool::ANY,             // own t0 window
+    )
+        .prop_map(|(kind, related, latch, place, stages, tr, count, t0)| {
+            let mut c: Vec<(&'static str, String)> = Vec::new();
+            match place {
+                Some(0) => c.push(("domain", "a".into())),
+                Some(1) => {
+                    c.push(("domain", "b".into()));
+                    c.push(("cell", "fast".into()));
+                }
+                _ => c.push(("fclk", "800MHz".into())),
+            }
+            match kind {
+                0 => c.push(("fdata", "20MHz".into())),
+                1 => {
+                    c.push(("crossing", "signal".into()));
+                    c.push(("activity", "0.3".into()));
+                    c.push((
+                        "launch_domain",
+                        if count % 2 == 0 { "io" } else { "b" }.into(),
+                    ));
+                }
+                2 => {
+                    c.push(("crossing", "gray".into()));
+                    c.push(("increments", "150MHz".into()));
+                    c.push(("width", "5".into()));
+                }
+                _ => {
+                    c.push(("crossing", "handshake".into()));
+                    c.push(("transfers", "3MHz".into()));
+                }
+            }
+            if let Some((p, q, jitter, phase)) = related {
+                c.push(("ratio", format!("{p}/{q}")));
+                c.push(("jitter", format!("{jitter}ps")));
+                if phase > 0 {
+                    // A tenth of a picosecond at most nine tenths: within any spacing here.
+                    c.push(("phase", format!("{}ps", f64::from(phase) / 10.0)));
+                }
+            }
+            let stages = if latch >= 2 { stages.max(2) } else { stages };
+            match latch {
+                1 => c.push(("tau", "17ps".into())),
+                2 => c.push((
+                    "tau",
+                    (0..stages - 1)
+                        .map(|k| format!("{}ps", 10 + 3 * k))
+                        .collect::<Vec<_>>()
+                        .join(","),
+                )),
+                3 | 4 => {
+                    c.push(("tau-master", "20ps".into()));
+                    c.push(("tau-slave", "30ps".into()));
+                    c.push(("duty", "0.4".into()));
+                    if latch == 4 {
+                        c.push(("tw2", "35ps".into()));
+                    }
+                }
+                _ => {}
+            }
+            if t0 && latch != 4 {
+                c.push(("t0", "150ps".into()));
+            }
+            if tr && latch != 2 {
+                c.push(("tr", "700ps".into()));
+            } else {
+                c.push(("stages", stages.to_string()));
+            }
+            c.push(("count", count.to_string()));
+            c
+        })
+}
+
+/// The synchronizer's inputs for `row` at corner `k`, as the budget's rule states them:
+/// the row's own cells; what it lacks from its class's corner columns, then the corner's
+/// plain ones; its clock from its domain's column; a signal's launch clock from its
+/// launch domain's.
+fn sync_inputs(row: &[(&'static str, String)], k: usize) -> Vec<(String, String)> {
+    let corner = &CORNERS[k];
+    let get = |n: &str| row.iter().find(|(c, _)| *c == n).map(|(_, v)| v.clone());
+    let design_only = ["count", "width", "cell", "domain", "launch_domain"];
+    let mut v: Vec<(String, String)> = row
+        .iter()
+        .filter(|(c, _)| !design_only.contains(c))
+        .map(|(c, t)| (c.to_string(), t.clone()))
+        .collect();
+    let fast = get("cell").is_some();
+    if get("tau").is_none() && get("tau-master").is_none() {
+        v.push((
+            "tau".into(),
+            (if fast { corner[5] } else { corner[1] }).into(),
+        ));
+    }
+    let t0 = get("t0").is_some();
+    if !t0 {
+        v.push((
+            "tw".into(),
+            (if fast { corner[6] } else { corner[2] }).into(),
+        ));
+    }
+    let chain = get("tr").is_none() && get("tw2").is_none();
+    if chain {
+        v.push(("tsu".into(), corner[3].into()));
+        if !t0 {
+            v.push(("tcq".into(), corner[4].into()));
+        }
+    }
+    match get("domain").as_deref() {
+        Some("a") => v.push(("fclk".into(), corner[7].into())),
+        Some("b") => v.push(("fclk".into(), corner[8].into())),
+        _ => {}
+    }
+    match get("launch_domain").as_deref() {
+        Some("io") => v.push(("flaunch".into(), corner[9].into())),
+        Some("b") => v.push(("flaunch".into(), corner[8].into())),
+        _ => {}
+    }
+    v
+}
+
+fn csv_of(rows: &[Vec<(&'static str, String)>]) -> String {
+    let mut cols: Vec<&str> = vec!["name"];
+    for r in rows {
+        for (c, _) in r {
+            if !cols.contains(c) {
+                cols.push(c);
+            }
+        }
+    }
+    let mut out = cols.join(",") + "\n";
+    for (i, r) in rows.iter().enumerate() {
+        let cells: Vec<String> = cols
+            .iter()
+            .map(|c| match *c {
+                "name" => format!("r{i}"),
+                c => r
+                    .iter()
+                    .find(|(k, _)| *k == c)
+                    .map_or(String::new(), |(_, v)| format!("\"{v}\"")),
+            })
+            .collect();
+        out += &(cells.join(",") + "\n");
+    }
+    out
+}
+
+proptest! {
+    #![proptest_config(crate::seeded::config(48))]
+
+    /// Each row at each corner equals `latchwise sync` for the same inputs, times its
+    /// count, to 1e-12 relative in FIT.
+    #[test]
+    fn a_row_at_a_corner_is_what_sync_gives(rows in prop::collection::vec(a_row(), 1..8)) {
+        let corners = format!(
+            "{CORNER_HEAD}\n{}\n{}\n",
+            CORNERS[0].join(","),
+            CORNERS[1].join(",")
+        );
+        let design = csv_of(&rows);
+        let v = budget(&design, &corners).map_err(|e| TestCaseError::fail(format!("{design}\n{e}")))?;
+        let got = row_fits(&v);
+        for (i, row) in rows.iter().enumerate() {
+            for (k, corner) in CORNERS.iter().enumerate() {
+                let raw = RawInputs::from_pairs(sync_inputs(row, k));
+                let case = SyncCalculator::read(&raw)
+                    .map_err(|e| TestCaseError::fail(format!("{raw:?}: {e}")))?;
+                let sync = serde_json::to_value(SyncCalculator::evaluate(&case)).unwrap();
+                let count: f64 = row.iter().find(|(c, _)| *c == "count").unwrap().1.parse().unwrap();
+                let want = sync["log10_fit"].as_f64().unwrap() + count.log10();
+                let (_, _, g) = got
+                    .iter()
+                    .find(|(r, c, _)| *r == format!("r{i}") && c == corner[0])
+                    .unwrap();
+                // 1e-12 relative in FIT is 4.3e-13 in log10, at any magnitude.
+                prop_assert!(
+                    (g - want).abs() <= 4.3e-13,
+                    "r{} at {}: budget {} sync {} ({:?})\n{}",
+                    i, corner[0], g, want, raw, design
+                );
+            }
+        }
+    }
+}
