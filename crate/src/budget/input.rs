@@ -5,11 +5,11 @@
 use std::collections::{BTreeSet, HashMap};
 use std::sync::Arc;
 
+use crate::crossing::fields as sync;
 use crate::error::{ParamError, ParamErrorKind, ParamErrors, TableProblem};
 use crate::params::{positive_number, whole, FieldReader, RawInputs};
 use crate::quantity::Time;
 use crate::reliability::Fleet;
-use crate::synchronizer::fields as sync;
 use crate::table::{read_keeping, Column};
 use crate::units::Dim;
 

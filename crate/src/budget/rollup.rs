@@ -8,11 +8,11 @@ use std::f64::consts::{LN_10, PI};
 
 use std::sync::Arc;
 
+use crate::crossing::Synchronizer;
 use crate::numeric::exp10;
 use crate::numeric::normal::{ln_q, ln_sum_exp};
 use crate::numeric::solve::{bisect_last, illinois};
 use crate::reliability::FIT_PER_RATE;
-use crate::synchronizer::Synchronizer;
 
 /// The longest chain the fix plan builds.
 pub const MAX_STAGES: u32 = 1000;

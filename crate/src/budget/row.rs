@@ -4,10 +4,10 @@
 
 use std::sync::Arc;
 
+use crate::crossing::fields as sync;
+use crate::crossing::{SyncCase, Synchronizer};
 use crate::error::{ParamError, ParamErrors};
 use crate::params::{FieldSpec, RawInputs};
-use crate::synchronizer::fields as sync;
-use crate::synchronizer::{SyncCase, Synchronizer};
 use crate::table::TextMap;
 
 /// The synchronizer's inputs a design row may give: every input of `latchwise sync` but
@@ -175,7 +175,7 @@ fn read_afresh(own: &[(&'static str, &str)], lent: &Lent) -> Result<Arc<RowCase>
             .chain(lent.fclk.map(|_| sync::FCLK.name))
             .chain(lent.flaunch.map(|_| sync::FLAUNCH.name))
             .collect();
-        let warnings = crate::synchronizer::report::warnings(&case, case.sync.log10_p_fail())
+        let warnings = crate::crossing::warnings(&case, case.sync.log10_p_fail())
             .into_iter()
             .filter(|w| !lent_names.iter().any(|n| w.starts_with(&format!("{n} = "))))
             // Said once for the design, not per row.

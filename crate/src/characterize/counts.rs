@@ -391,5 +391,6 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
 
 /// log10 of the failure probability per data edge the fit gives at `tr`: `fclk w e^(-tr/tau)`.
 pub fn log10_per_edge(fit: &CountsFit, fclk: f64, tr: f64) -> f64 {
-    (fclk * fit.window).log10() - tr / (fit.tau * LN_10)
+    // The rate law per data edge: one edge per second.
+    crate::crossing::log10_rate(1.0, fclk, fit.window.log10(), 0.0, tr / (fit.tau * LN_10))
 }

@@ -1,12 +1,10 @@
 //! Flip-flop synchronizer MTBF and FIT, target solvers and fleet statistics.
 //!
-//! `fields` names the inputs, `input` reads them into a case, `model` holds the physics
-//! and the solvers, `report` the results, readouts and plots, `sweep` the curves plotted.
+//! The crossing itself (its fields, its reading, its model) is [`crate::crossing`], which
+//! the design budget shares; here are `report` (the results, readouts and plots) and
+//! `sweep` (the curves plotted).
 
-pub mod clocks;
-pub mod fields;
-pub mod input;
-pub mod model;
+pub use crate::crossing::{clocks, fields, input, model};
 pub mod report;
 pub mod sweep;
 

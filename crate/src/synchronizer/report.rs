@@ -10,10 +10,9 @@ use crate::reliability::{fleet_outcome, FleetOutcome, Target, CAUTION, YEAR_DAYS
 use crate::units::{format_duration_log10, format_log10, format_si};
 
 use super::input::{Crossing, SyncCase};
-use super::model::{
-    ClockLimit, Latch, StagesNeeded, TauLimit, Window, MAX_STAGES, MAX_STAGES_ANSWER,
-};
+use super::model::{ClockLimit, Latch, StagesNeeded, TauLimit, MAX_STAGES, MAX_STAGES_ANSWER};
 use super::sweep::{mtbf_vs_duty, mtbf_vs_fclk, mtbf_vs_phase, mtbf_vs_stages, mtbf_vs_tau};
+use crate::crossing::input::warnings;
 
 /// Everything a synchronizer case yields, ready to print or to serialise.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -264,66 +263,6 @@ pub fn evaluate(case: &SyncCase) -> SyncReport {
         warnings: warnings(case, log10_p),
         caution: CAUTION,
     }
-}
-
-/// The warnings on a case: values far outside their usual range, and what the model
-/// cannot see (a data rate above the clock, a single flip-flop, related clocks...).
-pub fn warnings(case: &SyncCase, log10_p: f64) -> Vec<String> {
-    let s = &case.sync;
-    let mut w = case.notes.clone();
-    if s.fdata().get() < s.fclk().get() * 1e-9 {
-        w.push(format!(
-            "fdata = {} on a {} clock is an unusually low data rate: fdata counts data \
-             edges per second, not a clock.",
-            s.fdata().display(),
-            s.fclk().display()
-        ));
-    }
-    if s.fdata().get() > s.fclk().get() {
-        w.push(format!(
-            "fdata ({}) exceeds fclk ({}): a plain synchronizer cannot pass every value; \
-             a handshake or an asynchronous FIFO is the usual remedy.",
-            s.fdata().display(),
-            s.fclk().display()
-        ));
-    }
-    if log10_p > 0.0 {
-        w.push(
-            "The failure probability per transition comes out above 1: the resolution time \
-             is too short for this first-order model, which then only says 'fails often'."
-                .into(),
-        );
-    }
-    if s.tr().is_none() && s.stages() == 1 {
-        w.push(
-            "stages = 1 leaves no resolution time: the sampled value goes straight into logic."
-                .into(),
-        );
-    }
-    if let (Window::T0(_), None) = (s.window(), s.tr()) {
-        w.push(
-            "Window counted from the clock edge (t0): tcq is not used; resolution time is \
-             (stages - 1) * (1/fclk - tsu)."
-                .into(),
-        );
-    }
-    if let Some(c) = s.related() {
-        if c.phase.is_none() {
-            w.push(
-                "Related clocks with no phase given: signed off at the worst phase (edges \
-                 centred on the sampling edge); the best phase is shown beside it."
-                    .into(),
-            );
-        }
-    }
-    if s.window().seconds() > 1e-9 && matches!(s.window(), Window::Tw(_)) {
-        w.push(format!(
-            "tw = {} is unusually wide for a CMOS flip-flop (tens of ps is typical); \
-             if it is counted from the clock edge, enter it as t0.",
-            format_si(s.window().seconds(), "s")
-        ));
-    }
-    w
 }
 
 impl SyncReport {

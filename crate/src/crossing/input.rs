@@ -433,3 +433,63 @@ fn read_rate(r: &mut FieldReader, unused: &mut Vec<&'static str>) -> Option<(Fre
 fn stages_field(field: &'static str, v: f64) -> Result<u32, ParamError> {
     whole(field, v, 1, 1000, "1 to 1000").map(|n| n as u32)
 }
+
+/// The warnings on a case: values far outside their usual range, and what the model
+/// cannot see (a data rate above the clock, a single flip-flop, related clocks...).
+pub fn warnings(case: &SyncCase, log10_p: f64) -> Vec<String> {
+    let s = &case.sync;
+    let mut w = case.notes.clone();
+    if s.fdata().get() < s.fclk().get() * 1e-9 {
+        w.push(format!(
+            "fdata = {} on a {} clock is an unusually low data rate: fdata counts data \
+             edges per second, not a clock.",
+            s.fdata().display(),
+            s.fclk().display()
+        ));
+    }
+    if s.fdata().get() > s.fclk().get() {
+        w.push(format!(
+            "fdata ({}) exceeds fclk ({}): a plain synchronizer cannot pass every value; \
+             a handshake or an asynchronous FIFO is the usual remedy.",
+            s.fdata().display(),
+            s.fclk().display()
+        ));
+    }
+    if log10_p > 0.0 {
+        w.push(
+            "The failure probability per transition comes out above 1: the resolution time \
+             is too short for this first-order model, which then only says 'fails often'."
+                .into(),
+        );
+    }
+    if s.tr().is_none() && s.stages() == 1 {
+        w.push(
+            "stages = 1 leaves no resolution time: the sampled value goes straight into logic."
+                .into(),
+        );
+    }
+    if let (Window::T0(_), None) = (s.window(), s.tr()) {
+        w.push(
+            "Window counted from the clock edge (t0): tcq is not used; resolution time is \
+             (stages - 1) * (1/fclk - tsu)."
+                .into(),
+        );
+    }
+    if let Some(c) = s.related() {
+        if c.phase.is_none() {
+            w.push(
+                "Related clocks with no phase given: signed off at the worst phase (edges \
+                 centred on the sampling edge); the best phase is shown beside it."
+                    .into(),
+            );
+        }
+    }
+    if s.window().seconds() > 1e-9 && matches!(s.window(), Window::Tw(_)) {
+        w.push(format!(
+            "tw = {} is unusually wide for a CMOS flip-flop (tens of ps is typical); \
+             if it is counted from the clock edge, enter it as t0.",
+            format_si(s.window().seconds(), "s")
+        ));
+    }
+    w
+}

@@ -27,6 +27,29 @@ pub const MAX_STAGES: u32 = 1000;
 /// for any chain to be the answer.
 pub const MAX_STAGES_ANSWER: u64 = 1_000_000;
 
+/// The rate law, once for the whole core: log10 of the failure rate of `fdata` data edges
+/// per second sampled at `fclk` through a window of `10^log10_window` seconds, with the
+/// clock factor `10^log10_k` (0 for unrelated clocks), after `decades` of resolution
+/// (the resolution exponent over ln 10). The synchronizer, the design budget (through
+/// [`Synchronizer::log10_rate_terms`]) and the fits' per-edge figures call it.
+///
+/// # Formula
+/// `rate = fdata fclk W K exp(-exponent)`.
+///
+/// # Examples
+/// ```
+/// use latchwise::crossing::log10_rate;
+/// // 100 MHz into 1 GHz, 40 ps, 45 ns / 20 ps of resolution: 4e6 e^-45 per second.
+/// let l = log10_rate(1e8, 1e9, 40e-12f64.log10(), 0.0, 45.0 / std::f64::consts::LN_10);
+/// assert!((l - (4e6f64.log10() - 45.0 / std::f64::consts::LN_10)).abs() < 1e-12);
+/// ```
+///
+/// # References
+/// Veendrick, IEEE JSSC 15(2), 1980; Ginosar, IEEE Design & Test, 2011.
+pub fn log10_rate(fdata: f64, fclk: f64, log10_window: f64, log10_k: f64, decades: f64) -> f64 {
+    fdata.log10() + fclk.log10() + log10_window + log10_k - decades
+}
+
 /// Which published convention the metastability window follows.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 #[serde(rename_all = "lowercase")]
@@ -416,10 +439,13 @@ impl Synchronizer {
 
     /// log10 of the failure rate before the resolution exponent.
     fn log10_rate_pre(&self, stages: u32, fclk: f64) -> f64 {
-        self.fdata.get().log10()
-            + fclk.log10()
-            + self.log10_window(stages)
-            + self.log10_clock_factor_at(fclk)
+        log10_rate(
+            self.fdata.get(),
+            fclk,
+            self.log10_window(stages),
+            self.log10_clock_factor_at(fclk),
+            0.0,
+        )
     }
 
     /// The rate law in two terms, for a chain of `stages` at the synchronizer's clock:
