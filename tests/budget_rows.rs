@@ -287,3 +287,118 @@ proptest! {
         }
     }
 }
+
+/// A greedy fix plan written out plainly: at the worst corner, one stage on the row that
+/// removes the most FIT per added flip-flop (count x width), rows at their max_stages left
+/// alone, until every corner is within the budget. Rows are plain (fclk, fdata at the
+/// corners' tau, tw, tsu, tcq).
+fn greedy(
+    rows: &[(f64, f64, u32, f64, f64, u32)],
+    corners: &[(f64, f64, f64, f64)],
+    budget: f64,
+) -> Option<Vec<u32>> {
+    let fit = |r: &(f64, f64, u32, f64, f64, u32), c: &(f64, f64, f64, f64), s: u32| {
+        let (fclk, fdata, _, count, _, _) = *r;
+        let (tau, tw, tsu, tcq) = *c;
+        let hop = 1.0 / fclk - tsu - tcq;
+        count * fdata * fclk * tw * (-(f64::from(s) - 1.0) * hop / tau).exp() * 3.6e12
+    };
+    // What one added stage costs: count x width flip-flops.
+    let cost = |r: &(f64, f64, u32, f64, f64, u32)| r.3 * r.4;
+    let mut stages: Vec<u32> = rows.iter().map(|r| r.2).collect();
+    for _ in 0..10_000 {
+        let totals: Vec<f64> = corners
+            .iter()
+            .map(|c| rows.iter().zip(&stages).map(|(r, s)| fit(r, c, *s)).sum())
+            .collect();
+        let (k, worst) = totals
+            .iter()
+            .copied()
+            .enumerate()
+            .fold((0, f64::MIN), |b, (k, t)| if t > b.1 { (k, t) } else { b });
+        if worst <= budget * (1.0 + 1e-12) {
+            return Some(stages);
+        }
+        let best = (0..rows.len())
+            .filter(|&i| stages[i] < rows[i].5)
+            .map(|i| {
+                let c = &corners[k];
+                let gain = (fit(&rows[i], c, stages[i]) - fit(&rows[i], c, stages[i] + 1))
+                    / cost(&rows[i]);
+                (i, gain)
+            })
+            .fold(None, |b: Option<(usize, f64)>, x| match b {
+                Some(b) if b.1 >= x.1 => Some(b),
+                _ => Some(x),
+            })?;
+        stages[best.0] += 1;
+    }
+    None
+}
+
+proptest! {
+    #![proptest_config(crate::seeded::config(48))]
+
+    /// The budget's fix plan is the plain greedy plan: the same stages, the same
+    /// flip-flops counted by width, and no row past its max_stages.
+    #[test]
+    fn the_fix_plan_is_the_greedy_plan_counting_width(
+        rows in prop::collection::vec(
+            (
+                // Fast clocks: a stage removes one to three decades, so which row
+                // is deepened first (the cheapest per flip-flop) matters.
+                prop::sample::select(vec![6e9, 5e9, 4e9, 3e9]),
+                10f64..200.0,  // fdata, MHz
+                2u32..4,       // stages
+                1u32..40,      // count
+                1u32..9,       // width
+                0u32..7,       // room above the stages
+            ),
+            1..6,
+        ),
+        down in 0.3f64..5.0,
+    ) {
+        let rows: Vec<(f64, f64, u32, f64, f64, u32)> = rows
+            .iter()
+            .map(|&(fclk, fdata, s, n, w, room)| (fclk, fdata * 1e6, s, f64::from(n), f64::from(w), s + room))
+            .collect();
+        let corners = [(12e-12, 20e-12, 25e-12, 40e-12), (24e-12, 30e-12, 40e-12, 70e-12)];
+        let corners_csv = "corner,tau,tw,tsu,tcq\ntyp,12ps,20ps,25ps,40ps\nslow,24ps,30ps,40ps,70ps\n";
+        let mut design = String::from("name,fclk,fdata,stages,count,width,max_stages\n");
+        for (i, r) in rows.iter().enumerate() {
+            design += &format!("r{i},{:e},{:e},{},{},{},{}\n", r.0, r.1, r.2, r.3, r.4, r.5);
+        }
+        let v = budget(&design, corners_csv).unwrap();
+        let total = 10f64.powf(v["log10_total_fit"].as_f64().unwrap());
+        let fit_budget = total * 10f64.powf(-down);
+        let raw = RawInputs::from_pairs([
+            ("design", design.clone()),
+            ("corners", corners_csv.to_string()),
+            ("budget-fit", format!("{fit_budget:e}")),
+        ]);
+        let case = BudgetCalculator::read(&raw).unwrap();
+        let v = serde_json::to_value(BudgetCalculator::evaluate(&case)).unwrap();
+        let want = greedy(&rows, &corners, fit_budget);
+        match (&want, v["fix"].as_array()) {
+            (None, None) => {}
+            (Some(stages), Some(fix)) => {
+                let mut got: Vec<u32> = rows.iter().map(|r| r.2).collect();
+                for f in fix {
+                    let i: usize = f["name"].as_str().unwrap()[1..].parse().unwrap();
+                    got[i] = f["stages"].as_u64().unwrap() as u32;
+                }
+                prop_assert_eq!(&got, stages, "{}", design);
+                let added: f64 = rows
+                    .iter()
+                    .zip(stages)
+                    .map(|(r, s)| r.3 * r.4 * f64::from(s - r.2))
+                    .sum();
+                prop_assert_eq!(v["added_flip_flops"].as_f64().unwrap(), added);
+                for (r, s) in rows.iter().zip(stages) {
+                    prop_assert!(*s <= r.5);
+                }
+            }
+            _ => prop_assert!(false, "plan {:?} against greedy {:?}\n{}", v["fix"], want, design),
+        }
+    }
+}

@@ -17,8 +17,9 @@ const fn time(name: &'static str, help: &'static str) -> FieldSpec {
 pub const DESIGN: FieldSpec = FieldSpec {
     name: "design",
     dim: Dim::Text,
-    help: "the crossings, CSV: name, fclk, fdata, stages or tr, count; optional width, \
-           max_stages, tau, tw or t0, tsu, tcq per row, and note or note:WORD columns",
+    help: "the crossings, CSV, one synchronizer case per row: name, count, width, \
+           max_stages, cell, domain, launch_domain, every input of the synchronizer by \
+           its name (fclk, fdata or a crossing kind, stages or tr, tau...), note columns",
     limits: (0.0, 0.0),
     usual: (0.0, 0.0),
 };
@@ -27,7 +28,8 @@ pub const CORNERS: FieldSpec = FieldSpec {
     name: "corners",
     dim: Dim::Text,
     help: "the corners, CSV: corner, tau, tw or t0, tsu, tcq, optional hours (shares of \
-           service time, summing to 1); instead of --tau, --tw ...",
+           service time, summing to 1), tau@CLASS and its kin per cell class, \
+           fclk@DOMAIN and flaunch@DOMAIN per clock domain; instead of --tau, --tw ...",
     limits: (0.0, 0.0),
     usual: (0.0, 0.0),
 };

@@ -36,16 +36,26 @@ Usage: latchwise budget DESIGN.csv [--corners FILE | --tau T --tw W|--t0 W --tsu
                         [--tau-sigma S --tw-sigma S] [--signoff p95|nominal]
                         [--results FILE.csv] [--all-rows] [--json]
 
-DESIGN.csv: one row per crossing: name, fclk, fdata, stages or tr, count (instances,
-default 1: a 32-bit bus synchronized bit by bit counts 32); optional width (flip-flops
-per stage of one instance: a 5-bit Gray pointer is count 1, width 5; a stage then costs
-count x width flip-flops in the fix plan) and max_stages (the plan never passes it);
-optional tau, tw or t0, tsu,
-tcq, which hold for that row at every corner; and columns of your own named note or
-note:WORD (note:owner, note:waiver), kept with each row in every export. The corners file: corner, tau, tw or t0,
-tsu, tcq, one row per named corner, and optionally hours, each corner's share of service
-time (summing to 1), which weights the fleet figures; without it the options give one
-corner, 'given'.
+DESIGN.csv: one row per crossing, and each row is a synchronizer case: every input of
+'latchwise sync' is a column by the same name (tau (one, or one per hop: \"14ps,22ps\"),
+tw or t0, tsu, tcq, fclk, fdata, stages or tr, crossing with flaunch/activity,
+increments or transfers, ratio, jitter, phase, tau-master, tau-slave, duty, tw2), held
+to the same limits and read by the same model. The design's own columns: name (unique),
+count (identical instances, default 1: it multiplies the rate and the flip-flops), width
+(flip-flops per stage of one instance: a 5-bit Gray pointer is crossing gray, width 5;
+a stage costs count x width flip-flops in the fix plan), max_stages (the plan never
+passes it), cell (a cell class), domain (the sampling clock's domain), launch_domain
+(a signal's launching clock's domain), and columns of your own named note or note:WORD
+(note:owner, note:waiver), kept with each row in every export.
+
+The corners file: corner, tau, tw or t0, tsu, tcq, one row per named corner; optionally
+hours (each corner's share of service time, summing to 1, weighting the fleet figures);
+per cell class tau@CLASS, tw@CLASS, t0@CLASS, tsu@CLASS, tcq@CLASS; per clock domain
+fclk@DOMAIN and flaunch@DOMAIN. At each corner a row takes what it does not give itself
+from its class's columns, else the corner's; its fclk from its domain's column; a
+signal's launch clock from flaunch@ (else fclk@) of its launch domain. A row's own tau or
+window holds at every corner (the report lists such rows). Without a corners file the
+options give one corner, 'given'.
 Comma, semicolon or tab separated, # comments, cells in engineering notation; every
 problem is reported with its file, line and column.
 
@@ -58,9 +68,12 @@ total by quadrature, and the 95th percentile then decides the verdict, the exit 
 and the fix plan (--signoff nominal: the nominal total decides instead).
 
 The text report lists the 20 largest crossings at the worst corner (--all-rows: every
-one). --results FILE.csv writes every crossing at every corner: name, corner, log10_fit, fit,
-share (of that corner's total), stages, stages_after_fix, flip_flops_added. The JSON
-opens with version and input_sha256 (a digest of the arguments and the files' bytes).
+one), and each row's warnings as 'latchwise sync' gives them for its own inputs.
+--results FILE.csv writes every crossing at every corner: name, notes, corner, log10_fit,
+fit, share (of that corner's total), stages, stages_after_fix, flip_flops_added. The JSON
+opens with version and input_sha256 (a digest of the arguments and the files' bytes);
+its rows carry width, flip_flops, fdata_hz, clock_factor, cell, domain, notes, warnings
+and the row at every corner.
 
 Example:
   latchwise budget examples/budget-design.csv --corners examples/budget-corners.csv \\
