@@ -402,3 +402,74 @@ proptest! {
         }
     }
 }
+
+/// Classes and domains: bad corner columns and rows whose clock nothing gives are refused
+/// naming the table, line and column; a class without columns of its own and a corner
+/// column that no row uses are said once; a row's own inputs its case does not use are
+/// named per row.
+#[test]
+fn classes_and_domains_refuse_what_they_cannot_resolve() {
+    let corners = "corner,tau,tw,tsu,tcq,tau@fast,fclk@core,t0@fast,tw@fast\n\
+                   typ,12ps,20ps,25ps,40ps,fast,1e300,10ps,12ps\n";
+    let design = "name,fclk,fdata,stages\na,1GHz,1MHz,2\n";
+    let e = budget(design, corners).unwrap_err();
+    for want in [
+        "corners, line 2, column tau@fast: 'fast' is not a number",
+        "corners, line 2, column fclk@core: '1e300' is too large",
+        "corners, line 2, columns tw@fast, t0@fast: give tw or t0, not both",
+    ] {
+        assert!(e.contains(want), "{want}: {e}");
+    }
+    let e = budget(
+        design,
+        "corner,tau,tw,tsu,tcq,tau#fast\ntyp,12ps,20ps,25ps,40ps,3ps\n",
+    )
+    .unwrap_err();
+    assert!(e.contains("column tau#fast: unknown column"), "{e}");
+    assert!(e.contains("per clock domain fclk@DOMAIN"), "{e}");
+    let corners = "corner,tau,tw,tsu,tcq,tau@fast,fclk@core\n\
+                   typ,12ps,20ps,25ps,40ps,8ps,1.1GHz\n\
+                   slow,20ps,30ps,35ps,60ps,14ps,\n";
+    let design = "name,fclk,fdata,stages,domain,crossing,activity,launch_domain\n\
+                  a,,1MHz,2,nowhere,,,\n\
+                  b,,1MHz,2,core,,,\n\
+                  c,1GHz,,2,,signal,0.2,ghost\n\
+                  d,1GHz,,2,,signal,0.2,\n";
+    let e = budget(design, corners).unwrap_err();
+    for want in [
+        "design, line 2, column domain: no corner gives fclk@nowhere, and the row gives no fclk",
+        "design, line 3, column domain: corner slow leaves fclk@core blank, and the row gives no fclk",
+        "design, line 4, column launch_domain: no corner gives flaunch@ghost or fclk@ghost",
+        "design, line 5, column flaunch: a value is required",
+    ] {
+        assert!(e.contains(want), "{want}: {e}");
+    }
+    let v = budget(
+        "name,fclk,fdata,stages,cell,crossing,transfers\nh,1GHz,5MHz,2,slowcell,handshake,1MHz\n",
+        "corner,tau,tw,tsu,tcq,tau@fast\ntyp,12ps,20ps,25ps,40ps,8ps\n",
+    )
+    .unwrap();
+    let warnings: Vec<&str> = v["warnings"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|w| w.as_str().unwrap())
+        .collect();
+    assert!(
+        warnings.iter().any(|w| w.starts_with(
+            "Cell class slowcell: no corner column of its own for tau, tsu, tcq, tw or t0"
+        )),
+        "{warnings:?}"
+    );
+    assert!(
+        warnings
+            .iter()
+            .any(|w| w.contains("no row's cell or domain names") && w.contains("tau@fast")),
+        "{warnings:?}"
+    );
+    assert_eq!(
+        v["rows"][0]["warnings"][0],
+        "fdata is not used by this row's case."
+    );
+    assert_eq!(v["rows"][0]["fdata_hz"], 2e6);
+}

@@ -578,6 +578,18 @@ impl BudgetCase {
             let mut failed = false;
             for c in &corners {
                 let lent = lent_at(c, class, domain, launch);
+                if !domain.is_empty() && lent.fclk.is_none() && !has(sync::FCLK.name) {
+                    problems.push(here(
+                        &["domain"],
+                        format!(
+                            "corner {} leaves fclk@{} blank, and the row gives no fclk",
+                            c.name,
+                            crate::error::short(&domain.to_ascii_lowercase())
+                        ),
+                    ));
+                    failed = true;
+                    break;
+                }
                 match reader.read(&own, &lent) {
                     Ok(case) => {
                         for w in &case.warnings {
