@@ -233,6 +233,55 @@ proptest! {
         prop_assert!(p.is_empty(), "{:?}\n{:?}", p, pairs);
     }
 
+    /// Rows of every crossing kind, related clocks and master-slave chains, their cells
+    /// across the synchronizer's limits.
+    #[test]
+    fn no_crossing_kind_reaches_the_budget_as_inf_nan_or_a_bare_null(
+        rows in proptest::collection::vec(
+            (0usize..6, proptest::collection::vec((0.0..1.0f64, any::<u8>()), 8), 1u32..6),
+            1..6,
+        ),
+    ) {
+        let mut design = String::from(
+            "name,fclk,crossing,fdata,increments,transfers,flaunch,activity,ratio,jitter,tau-master,tau-slave,tw2,stages,count,width\n",
+        );
+        for (i, (kind, u, st)) in rows.iter().enumerate() {
+            let at = |k: usize, lo: f64, hi: f64| across(lo, hi, u[k].0, u[k].1);
+            let fclk = at(0, 1e-9, 1e18);
+            let rate = at(1, 1e-9, 1e18);
+            let (crossing, fdata, inc, tr, fl, act) = match kind {
+                0 => ("", format!("{rate:e}"), String::new(), String::new(), String::new(), String::new()),
+                1 => ("gray", String::new(), format!("{rate:e}"), String::new(), String::new(), String::new()),
+                2 => ("handshake", String::new(), String::new(), format!("{rate:e}"), String::new(), String::new()),
+                _ => ("signal", String::new(), String::new(), String::new(), format!("{rate:e}"), format!("{:e}", at(2, 1e-12, 1e6))),
+            };
+            let related = if *kind == 4 {
+                format!("{}/{},{:e}", 1 + u[3].1 % 9, 1 + u[4].1 % 7, at(3, 1e-21, 1e6))
+            } else {
+                ",".to_string()
+            };
+            let ms = if *kind == 5 {
+                format!("{:e},{:e},{:e}", at(5, 1e-21, 1e6), at(6, 1e-21, 1e6), at(7, 1e-21, 1e6))
+            } else {
+                ",,".to_string()
+            };
+            design.push_str(&format!(
+                "r{i},{fclk:e},{crossing},{fdata},{inc},{tr},{fl},{act},{related},{ms},{st},{},{}\n",
+                1 + u[4].1 % 40,
+                1 + u[5].1 % 9
+            ));
+        }
+        let pairs = vec![
+            ("design".to_string(), design),
+            ("corners".to_string(), example("budget-corners.csv")),
+            ("budget-fit".to_string(), "1".to_string()),
+            ("tau-sigma".to_string(), "0.1".to_string()),
+            ("tw-sigma".to_string(), "0.5".to_string()),
+        ];
+        let p = dispatch("budget", Check(RawInputs::from_pairs(pairs.clone()))).unwrap();
+        prop_assert!(p.is_empty(), "{:?}\n{:?}", p, pairs);
+    }
+
     /// Lab data across the readers' limits, for each kind of fit.
     #[test]
     fn no_lab_value_reaches_a_fit_as_inf_nan_or_a_bare_null(

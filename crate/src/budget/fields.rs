@@ -1,17 +1,9 @@
 //! The budget's input fields: one vocabulary for the URL, the CLI options and JSON.
 
+use crate::crossing::fields as sync;
 use crate::params::FieldSpec;
 use crate::units::Dim;
 
-const fn time(name: &'static str, help: &'static str) -> FieldSpec {
-    FieldSpec {
-        name,
-        dim: Dim::Time,
-        help,
-        limits: (1e-21, 1e6),
-        usual: (1e-14, 1e-8),
-    }
-}
 
 /// The design: one row per crossing.
 pub const DESIGN: FieldSpec = FieldSpec {
@@ -33,16 +25,31 @@ pub const CORNERS: FieldSpec = FieldSpec {
     limits: (0.0, 0.0),
     usual: (0.0, 0.0),
 };
-/// tau of the one corner given by options.
-pub const TAU: FieldSpec = time("tau", "without corners: tau of the one corner 'given'");
+/// tau of the one corner given by options: the crossing's field, with its limits.
+pub const TAU: FieldSpec = FieldSpec {
+    help: "without corners: tau of the one corner 'given'",
+    ..sync::TAU
+};
 /// tw of the one corner given by options.
-pub const TW: FieldSpec = time("tw", "without corners: the window tw");
+pub const TW: FieldSpec = FieldSpec {
+    help: "without corners: the window tw",
+    ..sync::TW
+};
 /// t0 of the one corner given by options.
-pub const T0: FieldSpec = time("t0", "without corners: the window t0 (instead of tw)");
+pub const T0: FieldSpec = FieldSpec {
+    help: "without corners: the window t0 (instead of tw)",
+    ..sync::T0
+};
 /// tsu of the one corner given by options.
-pub const TSU: FieldSpec = time("tsu", "without corners: setup time");
+pub const TSU: FieldSpec = FieldSpec {
+    help: "without corners: setup time",
+    ..sync::TSU
+};
 /// tcq of the one corner given by options.
-pub const TCQ: FieldSpec = time("tcq", "without corners: clock-to-output delay");
+pub const TCQ: FieldSpec = FieldSpec {
+    help: "without corners: clock-to-output delay",
+    ..sync::TCQ
+};
 /// The FIT budget.
 pub const BUDGET_FIT: FieldSpec = FieldSpec {
     name: "budget-fit",
