@@ -8,7 +8,7 @@ use latchwise::units::Dim;
 
 /// The text of a file operand (`-`: standard input), decoded as the page decodes a file:
 /// UTF-8 or UTF-16 with a byte-order mark, any line ends. Its bytes go into `stamp`.
-fn read_file(path: &str, stamp: &mut Sha256) -> Result<String, String> {
+fn read_file(path: &str, stamp: &mut Option<Sha256>) -> Result<String, String> {
     let mut bytes = Vec::new();
     let result = if path == "-" {
         std::io::stdin().read_to_end(&mut bytes).map(|_| ())
@@ -25,10 +25,12 @@ fn read_file(path: &str, stamp: &mut Sha256) -> Result<String, String> {
 
 /// One piece of the audit stamp: a tag, the length and the bytes (so that no two
 /// different sequences of pieces run together into the same bytes).
-fn feed(stamp: &mut Sha256, tag: &[u8], bytes: &[u8]) {
-    stamp.update(tag);
-    stamp.update(&(bytes.len() as u64).to_be_bytes());
-    stamp.update(bytes);
+fn feed(stamp: &mut Option<Sha256>, tag: &[u8], bytes: &[u8]) {
+    if let Some(stamp) = stamp {
+        stamp.update(tag);
+        stamp.update(&(bytes.len() as u64).to_be_bytes());
+        stamp.update(bytes);
+    }
 }
 
 /// The most unknown link parameters named in a note; the rest are counted.
@@ -47,7 +49,8 @@ pub struct Parsed {
     pub ignored: Vec<String>,
     /// How many distinct unknown keys `--from-url` had in all.
     pub ignored_total: usize,
-    /// SHA-256 of the arguments as written, each file's bytes in place of its path.
+    /// SHA-256 of the arguments as written, each file's bytes in place of its path (with
+    /// --json only; empty otherwise).
     pub input_sha256: String,
     /// `--results FILE`: where to write the results row by row (CSV).
     pub results: Option<String>,
@@ -71,7 +74,9 @@ pub fn parse(
     let mut url: Option<RawInputs> = None;
     let mut explicit: Vec<(String, String)> = Vec::new();
     let mut positional = operands.iter();
-    let mut stamp = Sha256::default();
+    // The stamp is only written with --json (the text report has none): only then is
+    // every input's digest taken.
+    let mut stamp = args.iter().any(|a| a == "--json").then(Sha256::default);
     let mut i = 0;
     while i < args.len() {
         let a = &args[i];
@@ -174,7 +179,7 @@ pub fn parse(
     }
     pairs.extend(explicit);
     out.raw = RawInputs::from_pairs(pairs);
-    out.input_sha256 = stamp.hex();
+    out.input_sha256 = stamp.map(|s| s.hex()).unwrap_or_default();
     Ok(out)
 }
 

@@ -124,6 +124,23 @@ pub fn parse(field: &'static str, text: &str, dim: Dim) -> Result<f64, ParamErro
     if t.is_empty() {
         return Err(err(ParamErrorKind::Missing));
     }
+    // A plain decimal number (the usual cell of a file written by a script): read as it
+    // is, the same nearest double the general path below gives.
+    if t.bytes()
+        .all(|c| c.is_ascii_digit() || matches!(c, b'.' | b'e' | b'E' | b'+' | b'-'))
+    {
+        if let Ok(v) = t.parse::<f64>() {
+            if v.is_normal()
+                || (v == 0.0
+                    && !t
+                        .bytes()
+                        .take_while(|c| !matches!(c, b'e' | b'E'))
+                        .any(|c| (b'1'..=b'9').contains(&c)))
+            {
+                return Ok(v);
+            }
+        }
+    }
     let unsigned = t.trim_start_matches(['+', '-']);
     if ["inf", "infinity", "nan"]
         .iter()

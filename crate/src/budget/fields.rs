@@ -4,7 +4,6 @@ use crate::crossing::fields as sync;
 use crate::params::FieldSpec;
 use crate::units::Dim;
 
-
 /// The design: one row per crossing.
 pub const DESIGN: FieldSpec = FieldSpec {
     name: "design",

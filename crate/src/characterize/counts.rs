@@ -8,7 +8,6 @@
 use std::f64::consts::LN_10;
 
 use crate::numeric::normal::{ln_sum_exp, ln_sum_exp_of};
-use crate::numeric::solve::illinois;
 use crate::numeric::special::chi2_sf;
 
 /// Half the 95 % point of chi-squared with one degree of freedom: the drop of the log
@@ -123,71 +122,79 @@ fn best_a(d: &Counts, o: &[f64], b: f64) -> f64 {
     total.ln() - ln_sum_exp_of(d.tr.iter().zip(o).map(|(t, o)| -b * t + o))
 }
 
-/// The best `b` for a given `a`: the root of `sum t exp(a - b t + o) = sum k t`, by
-/// Newton's method on its logarithm `h(b) = ln sum t exp(a - b t + o) - ln sum k t`, from
-/// `b0` (the fit's own b: the root moves little as a moves). `h` falls and is convex
-/// (its slope is minus the weighted mean of t, which falls with b), so every step after
-/// the first approaches the root from below without passing it.
-fn best_b(d: &Counts, o: &[f64], ln_t: &[f64], a: f64, b0: f64) -> f64 {
-    let target: f64 = d.tr.iter().zip(&d.failures).map(|(t, k)| t * k).sum();
-    let ln_target = target.ln();
-    let mut b = b0;
-    for _ in 0..100 {
-        // ln sum t w and ln sum t^2 w, w = exp(a - b t + o), in logs.
-        let (m1, m2) = log_moments(d, o, ln_t, a, b);
-        let h = m1 - ln_target;
-        let slope = -(m2 - m1).exp();
-        let step = h / slope;
-        if !step.is_finite() {
-            break;
-        }
-        b -= step;
-        if step.abs() <= 4.0 * f64::EPSILON * b.abs() {
-            break;
-        }
-    }
-    b
+/// The sums of one pass over the (grouped) rows at `b`, scaled by `exp(-max)`:
+/// `S_j = sum t^j exp(-b t + o - max)` for j = 0, 1, 2, with `max` the largest exponent.
+struct Sums {
+    max: f64,
+    s0: f64,
+    s1: f64,
+    s2: f64,
 }
 
-/// `ln sum t w` and `ln sum t^2 w` over the rows with t > 0, w = exp(a - b t + o), given
-/// `ln_t` (ln t of each row, -inf at t = 0).
-fn log_moments(d: &Counts, o: &[f64], ln_t: &[f64], a: f64, b: f64) -> (f64, f64) {
-    let exponent = |(t, (o, l)): (&f64, (&f64, &f64))| l + a - b * t + o;
-    let rows = || d.tr.iter().zip(o.iter().zip(ln_t));
-    let max = rows().map(exponent).fold(f64::NEG_INFINITY, f64::max);
-    let (mut s1, mut s2) = (0.0, 0.0);
-    for row in rows() {
-        let w = (exponent(row) - max).exp();
-        s1 += w;
-        s2 += w * row.0;
+fn sums(d: &Counts, o: &[f64], b: f64) -> Sums {
+    let max =
+        d.tr.iter()
+            .zip(o)
+            .map(|(t, o)| -b * t + o)
+            .fold(f64::NEG_INFINITY, f64::max);
+    let (mut s0, mut s1, mut s2) = (0.0, 0.0, 0.0);
+    for (t, o) in d.tr.iter().zip(o) {
+        let w = (-b * t + o - max).exp();
+        s0 += w;
+        s1 += w * t;
+        s2 += w * t * t;
     }
-    (max + s1.ln(), max + s2.ln())
+    Sums { max, s0, s1, s2 }
 }
 
-/// Where a rising `f` (negative at `lo`) crosses zero in `[lo, hi]`: the low end of the
-/// bracket at full precision (`None` when `f` never reaches zero there). The search
-/// starts at `lo + step` (a guess of the distance, from the curvature at the peak) and
-/// doubles the step until it passes the root, so the root finder works on a bracket a
-/// few guesses wide rather than the whole range.
-fn crossing(lo: f64, hi: f64, step: f64, f: impl Fn(f64) -> f64) -> Option<f64> {
-    let mut step = if step.is_finite() && step > 0.0 {
+/// Where a rising `f` (negative at `lo`) crosses zero in `[lo, hi]`, `f` giving its value
+/// and slope: first a bracket (from `lo + step`, a guess of the
+/// distance from the curvature at the peak, doubling the step until it passes the root),
+/// then Newton's method kept inside the bracket (bisecting
+/// where a step would leave it), which needs a few evaluations where the Illinois method
+/// needs a dozen; each evaluation is a pass over every row.
+fn crossing_newton(lo: f64, hi: f64, step: f64, f: impl Fn(f64) -> (f64, f64)) -> Option<f64> {
+    let step = if step.is_finite() && step > 0.0 {
         step
     } else {
         hi - lo
     };
-    let (mut from, mut to) = (lo, (lo + step).min(hi));
-    while f(to) <= 0.0 {
-        if to >= hi {
-            return None;
+    // The bracket: f < 0 at `from`; f > 0 at `to` once one is found (until then `to` is
+    // `hi`, not yet evaluated).
+    let (mut from, mut to, mut found) = (lo, hi, false);
+    let mut x = (lo + step).min(hi);
+    for _ in 0..200 {
+        let (v, slope) = f(x);
+        if v > 0.0 {
+            to = x;
+            found = true;
+        } else {
+            from = x;
+            if x >= hi {
+                return None;
+            }
         }
-        from = to;
-        step *= 2.0;
-        to = (to + step).min(hi);
+        let tol = 1e-10 * from.abs().max(to.abs());
+        if v == 0.0 || (found && to - from <= tol) {
+            return Some(x);
+        }
+        let newton = x - v / slope;
+        let next = if newton > from && newton < to && newton.is_finite() {
+            newton
+        } else if found {
+            0.5 * (from + to)
+        } else {
+            // No root seen yet and Newton points past the end: try further out.
+            (x + 2.0 * (x - lo).max(step)).min(hi)
+        };
+        // As the Illinois form did: 1e-10 relative, far inside the intervals' own
+        // precision (the likelihood is flat there).
+        if (next - x).abs() <= tol && found {
+            return Some(next);
+        }
+        x = next;
     }
-    // 1e-10 relative: far inside the intervals' own precision (the likelihood is flat
-    // there, see the fit tests' tolerance) at half the evaluations of full precision.
-    let tol = 1e-10 * from.abs().max(to.abs());
-    Some(illinois(from, to, tol, 200, &f))
+    found.then_some(x)
 }
 
 /// The rows merged by resolution time: for each distinct tr (ascending), the failures
@@ -269,39 +276,39 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
     }
     // The mean and variance of tr under weights exp(-b tr + o), in logs.
     let w_moments = |b: f64| {
-        let max =
-            d.tr.iter()
-                .zip(&o)
-                .map(|(t, o)| -b * t + o)
-                .fold(f64::NEG_INFINITY, f64::max);
-        let (mut s0, mut s1, mut s2) = (0.0, 0.0, 0.0);
-        for (t, o) in d.tr.iter().zip(&o) {
-            let w = (-b * t + o - max).exp();
-            s0 += w;
-            s1 += w * t;
-            s2 += w * t * t;
-        }
-        let mean = s1 / s0;
-        (mean, (s2 / s0 - mean * mean).max(0.0))
+        let m = sums(d, &o, b);
+        let mean = m.s1 / m.s0;
+        (mean, (m.s2 / m.s0 - mean * mean).max(0.0))
     };
     if w_moments(0.0).0 <= k_mean {
         return Err(CountsProblem::NotFalling);
     }
-    // The weighted mean falls with b (its slope is minus the weighted variance): find
-    // where it meets the failure-weighted mean by Newton's method kept inside a bracket
-    // that every step narrows (bisecting where a Newton step would leave it).
+    // The weighted mean falls with b (its slope is minus the weighted variance) towards
+    // the shortest tr, roughly as 1/b once the weights are steep: so Newton's method works
+    // on g = ln(mean - tmin) - ln(k_mean - tmin) in x = ln b, nearly a straight line there
+    // (dg/dx = -b var / (mean - tmin)), kept inside a bracket that every step narrows
+    // (bisecting where a step would leave it).
     let (mut lo, mut hi) = (0.0, 1e4 / span);
     let mut b = 1.0 / span;
+    let ln_target = (k_mean - tmin).ln();
     for _ in 0..300 {
         let (mean, var) = w_moments(b);
-        let f = mean - k_mean;
-        if f > 0.0 {
+        if mean > k_mean {
             lo = b;
         } else {
             hi = b;
         }
-        let newton = b + f / var;
-        let next = if newton > lo && newton < hi && var > 0.0 {
+        let above = mean - tmin;
+        let g = above.ln() - ln_target;
+        let slope = -b * var / above;
+        let newton = b * (-g / slope).exp();
+        // Converged: the step is at rounding (it may fall either side of the bracket's
+        // end that b itself is).
+        if (newton - b).abs() <= 4.0 * f64::EPSILON * b {
+            b = newton;
+            break;
+        }
+        let next = if newton > lo && newton < hi && var > 0.0 && newton.is_finite() {
             newton
         } else {
             0.5 * (lo + hi)
@@ -315,19 +322,41 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
     }
     let a = best_a(d, &o, b);
     let peak = log_lik(d, &o, a, b);
-    let profile_b = |bb: f64| log_lik(d, &o, best_a(d, &o, bb), bb);
-    let ln_t: Vec<f64> = d.tr.iter().map(|t| t.ln()).collect();
-    // Each best b starts from the last one found (the crossing's steps are near).
-    let last_b = std::cell::Cell::new(b);
-    let profile_a = |aa: f64| {
-        let bb = best_b(d, &o, &ln_t, aa, last_b.get());
-        if bb.is_finite() {
-            last_b.set(bb);
-        }
-        log_lik(d, &o, aa, bb)
+    // The profile in b in one pass over the rows: at the best a the expected counts sum
+    // to the failures, so log_lik = K a - b sum k t + sum k o - K, a = ln K - ln S0; its
+    // slope in b is K S1/S0 - sum k t.
+    let sum_kt: f64 = d.tr.iter().zip(&d.failures).map(|(t, k)| t * k).sum();
+    let sum_ko: f64 = o.iter().zip(&d.failures).map(|(o, k)| o * k).sum();
+    let profile_b = |bb: f64| {
+        let m = sums(d, &o, bb);
+        let aa = total.ln() - (m.max + m.s0.ln());
+        (
+            total * aa - bb * sum_kt + sum_ko - total,
+            total * m.s1 / m.s0 - sum_kt,
+        )
     };
-    let drop_b = |bb: f64| peak - profile_b(bb) - HALF_CHI2_95;
-    let drop_a = |aa: f64| peak - profile_a(aa) - HALF_CHI2_95;
+    // The profile in a, traced by b: where b is best for a, sum t exp(a - b t + o) =
+    // sum k t, so a = A(b) = ln sum k t - ln S1 (S1 scaled back), which rises with b (its
+    // slope is S2/S1, the weighted mean of t); the profile there is V = K A - b sum k t +
+    // sum k o - sum k t S0/S1, with slope (S2/S1)(K - sum k t S0/S1). One pass per point.
+    let trace = |bb: f64| {
+        let m = sums(d, &o, bb);
+        let aa = sum_kt.ln() - (m.max + m.s1.ln());
+        let ratio = m.s0 / m.s1;
+        (
+            aa,
+            total * aa - bb * sum_kt + sum_ko - sum_kt * ratio,
+            (m.s2 / m.s1) * (total - sum_kt * ratio),
+        )
+    };
+    let drop_b = |bb: f64| {
+        let (v, slope) = profile_b(bb);
+        (peak - v - HALF_CHI2_95, -slope)
+    };
+    let drop_trace = |bb: f64| {
+        let (_, v, slope) = trace(bb);
+        (peak - v - HALF_CHI2_95, -slope)
+    };
     // Standard errors from the observed information at the peak, the first guesses of
     // each interval end's distance (the profile falls by 1.92 about 1.96 of them away).
     let (mut i_aa, mut i_ab, mut i_bb) = (0.0, 0.0, 0.0);
@@ -339,17 +368,27 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
     }
     let det = i_aa * i_bb - i_ab * i_ab;
     let (se_a, se_b) = ((i_bb / det).sqrt(), (i_aa / det).sqrt());
-    // b's interval: below b (towards 0, in -ln b) and above; None where the drop never
-    // comes.
-    let b_lo = crossing(-(b.ln()), -(1e-9 * b).ln(), 1.5 * se_b / b, |x| {
-        drop_b((-x).exp())
+    // b's interval: below b (towards 0, in x = -ln b, where the slope in x is minus b
+    // times the slope in b) and above; None where the drop never comes.
+    let in_x = |g: &dyn Fn(f64) -> (f64, f64), x: f64| {
+        let bb = (-x).exp();
+        let (v, slope) = g(bb);
+        (v, -bb * slope)
+    };
+    let b_lo = crossing_newton(-(b.ln()), -(1e-9 * b).ln(), 1.5 * se_b / b, |x| {
+        in_x(&drop_b, x)
     })
     .map(|x| (-x).exp());
-    let b_hi = crossing(b, 1e4 / span, 1.5 * se_b, drop_b);
-    // a's interval: the profile falls within a few tens of nepers on either side.
-    let reach = 60.0;
-    let a_lo = crossing(-a, -(a - reach), 1.5 * se_a, |x| drop_a(-x)).map(|x| -x);
-    let a_hi = crossing(a, a + reach, 1.5 * se_a, drop_a);
+    let b_hi = crossing_newton(b, 1e4 / span, 1.5 * se_b, drop_b);
+    // a's interval, along the trace: A rises with b, so its low end lies below b and
+    // its high end above, each where the trace's profile has fallen by 1.92. The first
+    // guess of the distance in b: a's standard error over A's slope there (the mean t).
+    let step_b = 1.5 * se_a / k_mean;
+    let a_lo = crossing_newton(-(b.ln()), -(1e-9 * b).ln(), step_b / b, |x| {
+        in_x(&drop_trace, x)
+    })
+    .map(|x| trace((-x).exp()).0);
+    let a_hi = crossing_newton(b, 1e4 / span, step_b, drop_trace).map(|x| trace(x).0);
     let d = rows;
     // Each row's expected count, and its unit deviance from ln mu (a count far below the
     // f64 range has a finite log, where k ln(k / mu) would be infinite).
