@@ -309,9 +309,19 @@ def counts_fit(rows, fclk, fdata):
     a_hi = bisect(drop_a, a, a + 4)
     mu = [mp.exp(a - b * ti + oi) for ti, oi in zip(t, o)]
     dev = 2 * sum((ki * mp.log(ki / mi) if ki > 0 else 0) - (ki - mi) for ki, mi in zip(k, mu))
+    # The joint uncertainty: the inverse of the negative Hessian of the log-likelihood in
+    # (a, b) at the peak, by mpmath's numerical differentiation (not the analytic sums the
+    # tool uses); ln tau = -ln b, so sd(ln tau) = sd(b)/b and the correlation changes sign.
+    nll = lambda aa, bb: -loglik(aa, bb)
+    haa = mp.diff(nll, (a, b), (2, 0))
+    hab = mp.diff(nll, (a, b), (1, 1))
+    hbb = mp.diff(nll, (a, b), (0, 2))
+    det = haa * hbb - hab * hab
+    var_a, var_b, cov_ab = hbb / det, haa / det, -hab / det
     return [("tau_s", 1 / b), ("tau_s_ci_low", 1 / b_hi), ("tau_s_ci_high", 1 / b_lo),
             ("tw_s", mp.exp(a)), ("tw_s_ci_low", mp.exp(a_lo)), ("tw_s_ci_high", mp.exp(a_hi)),
-            ("deviance", dev)]
+            ("deviance", dev), ("sd_ln_tau", mp.sqrt(var_b) / b), ("sd_ln_tw", mp.sqrt(var_a)),
+            ("corr_ln_tau_ln_tw", -cov_ab / mp.sqrt(var_a * var_b))]
 
 
 def t_quantile(p, df):
@@ -471,14 +481,16 @@ PLAN_10_FIT = ["core_irq_sync", "core_dbg_req", "core_fifo_wptr", "core_cfg_bus"
 SPREAD_OUT = FIXTURES / "budget_spread_reference.csv"
 
 
-def budget_p95(plan, tau_sigma, tw_sigma):
-    """log10 of the 95th percentile of the demo chip's worst-corner total when ln tau and
-    ln tw are normal (sigmas shared by every row), with the rows in `plan` at 3 stages:
-    P(ln T <= x) = integral phi(z) Phi((x - ln G(exp(tau_sigma z))) / tw_sigma) dz, by the
-    trapezoid rule in steps of 0.025 on [-9, 9] (exponentially convergent here), the 95 %
-    point by bisection; G is the worst corner's total with every tau scaled."""
-    corners = csv_rows(EXAMPLES / "budget-corners.csv")
-    design = csv_rows(EXAMPLES / "budget-design.csv")
+def budget_p95(plan, tau_sigma, tw_sigma, rho=mpf(0), design_file=None, corners_file=None):
+    """log10 of the 95th percentile of a design's worst-corner total (the demo chip by
+    default) when ln tau and ln tw are normal (sigmas shared by every row, correlation
+    rho), with the rows in `plan` at 3 stages: given tau's z, ln tw is normal with mean
+    rho tw_sigma z and sd tw_sigma sqrt(1 - rho^2), so P(ln T <= x) = integral phi(z)
+    Phi((x - ln G(exp(tau_sigma z)) - rho tw_sigma z) / (tw_sigma sqrt(1 - rho^2))) dz, by
+    the trapezoid rule in steps of 0.025 on [-9, 9] (exponentially convergent here), the
+    95 % point by bisection; G is the worst corner's total with every tau scaled."""
+    corners = csv_rows(corners_file or EXAMPLES / "budget-corners.csv")
+    design = csv_rows(design_file or EXAMPLES / "budget-design.csv")
     with mp.workdps(30):
         def ln_g(scale):
             worst = None
@@ -490,9 +502,10 @@ def budget_p95(plan, tau_sigma, tw_sigma):
             return mp.log(worst)
         h = mpf("0.025")
         nodes = [(-9 + h * i) for i in range(721)]
-        pts = [(h * mp.npdf(z), ln_g(mp.exp(tau_sigma * z))) for z in nodes]
+        pts = [(h * mp.npdf(z), ln_g(mp.exp(tau_sigma * z)) + rho * tw_sigma * z) for z in nodes]
+        sd = tw_sigma * mp.sqrt(1 - rho * rho)
         def cdf(x):
-            return mp.fsum(w * mp.ncdf((x - lg) / tw_sigma) for w, lg in pts)
+            return mp.fsum(w * mp.ncdf((x - lg) / sd) for w, lg in pts)
         lo, hi = min(p[1] for p in pts) - 10 * tw_sigma, max(p[1] for p in pts) + 10 * tw_sigma
         for _ in range(52):
             mid = (lo + hi) / 2
@@ -501,6 +514,51 @@ def budget_p95(plan, tau_sigma, tw_sigma):
             else:
                 hi = mid
         return (lo + hi) / 2 / mp.log(10)
+
+
+CORR_OUT = FIXTURES / "budget_corr_reference.csv"
+CORR_DESIGN = FIXTURES / "budget_corr_design.csv"
+CORR_CORNERS = FIXTURES / "budget_corr_corners.csv"
+CORR_CASES = [("-0.8", "0.1", "0.4"), ("0", "0.1", "0.4"), ("0.8", "0.1", "0.4")]
+MC_SAMPLES = 1_000_000
+
+
+def corr_monte_carlo(rho, tau_sigma, tw_sigma, seed):
+    """The same 95th percentile by a seeded Monte Carlo of MC_SAMPLES draws in plain
+    floats (Python's random.gauss, its own generator): each draw scales every tau by
+    exp(tau_sigma z1) and every window by exp(tw_sigma (rho z1 + sqrt(1 - rho^2) z2)),
+    the worst corner's total is taken, and the 95 % point is the order statistic."""
+    import random
+    rng = random.Random(seed)
+    terms = []
+    for c in csv_rows(CORR_CORNERS):
+        # Each row's log10 FIT split as (at zero resolution, resolution decades at unit
+        # tau scale): two evaluations of the mpmath model give both.
+        row_terms = []
+        for r in csv_rows(CORR_DESIGN):
+            full = row_log10_fit(r, c)
+            half = row_log10_fit(r, c, scale=2)
+            decades = 2 * (half - full)
+            row_terms.append((float(full + decades), float(decades)))
+        terms.append(row_terms)
+    s1 = math.sqrt(1 - rho * rho)
+    out = []
+    for _ in range(MC_SAMPLES):
+        z1, z2 = rng.gauss(0, 1), rng.gauss(0, 1)
+        inv = math.exp(-tau_sigma * z1)
+        worst = max(sum(10 ** (f0 - d * inv) for f0, d in rt) for rt in terms)
+        out.append(math.log10(worst) + tw_sigma * (rho * z1 + s1 * z2) / math.log(10))
+    out.sort()
+    return out[int(0.95 * MC_SAMPLES)]
+
+
+def corr_lines():
+    lines = []
+    for k, (rho, ts, ws) in enumerate(CORR_CASES):
+        q = budget_p95([], mpf(ts), mpf(ws), mpf(rho), CORR_DESIGN, CORR_CORNERS)
+        mc = corr_monte_carlo(float(rho), float(ts), float(ws), 20261203 + k)
+        lines.append(f"{rho},{ts},{ws},{mp.nstr(q, 15)},{mc!r}\n")
+    return lines
 
 
 FITS_HEADER = (
@@ -532,6 +590,12 @@ def main():
         "clocks): the demo chip (examples/budget-*.csv) and a design with a row of every "
         "kind (tests/fixtures/budget_models_*.csv).\n"
         "design,row,corner,log10_fit\n" + "".join(budget_row_lines()),
+        CORR_OUT: "# The 95th percentile of log10 of the worst-corner total of "
+        "tests/fixtures/budget_corr_*.csv when ln tau and ln tw are correlated, by an mpmath "
+        "quadrature and by a seeded Monte Carlo of 1e6 draws in plain floats, both by "
+        "scripts/gen_reference.py.\n"
+        "tau_tw_corr,tau_sigma,tw_sigma,log10_p95_quadrature,log10_p95_monte_carlo\n"
+        + "".join(corr_lines()),
         FITS_OUT: FITS_HEADER
         + "".join(f"{n};{k};{f};{st};{key};{mp.nstr(v, 20)}\n" for n, k, f, st, key, v in fits_rows()),
         MODELS_OUT: MODELS_HEADER

@@ -117,6 +117,10 @@ fn number_prefix_len(s: &str) -> usize {
 /// assert_eq!(parse("fdata", "1meg", Dim::Frequency).unwrap(), 1e6);
 /// let e = parse("fclk", "5ns", Dim::Frequency).unwrap_err();
 /// assert_eq!(e.to_string(), "fclk: '5ns' is a time, expected a frequency");
+/// // Lab durations in minutes, hours and days (no prefix on these).
+/// assert_eq!(parse("duration", "2min", Dim::Time).unwrap(), 120.0);
+/// assert_eq!(parse("duration", "1.5 h", Dim::Time).unwrap(), 5400.0);
+/// assert_eq!(parse("duration", "2d", Dim::Time).unwrap(), 172800.0);
 /// ```
 pub fn parse(field: &'static str, text: &str, dim: Dim) -> Result<f64, ParamError> {
     let err = |kind| ParamError::new(field, kind);
@@ -161,6 +165,36 @@ pub fn parse(field: &'static str, text: &str, dim: Dim) -> Result<f64, ParamErro
             text: t.to_string(),
             readings: [format!("{num}MHz"), format!("{num}mHz")],
         }));
+    }
+    // Clock units of time, for lab durations: minutes, hours, days (not powers of ten).
+    let clock = match suffix {
+        "min" => Some(60.0),
+        "h" => Some(3600.0),
+        "d" => Some(86400.0),
+        _ => None,
+    };
+    if let Some(factor) = clock {
+        if dim != Dim::Time {
+            return Err(err(ParamErrorKind::WrongUnit {
+                text: t.to_string(),
+                found: Dim::Time,
+                expected: dim,
+            }));
+        }
+        let (mantissa, e10) = match num.find(['e', 'E']) {
+            Some(k) => (&num[..k], exponent(&num[k + 1..])),
+            None => (num, 0),
+        };
+        let value = scaled(mantissa, e10)
+            .map(|v| v * factor)
+            .ok_or_else(|| err(ParamErrorKind::NotANumber(t.to_string())))?;
+        if !value.is_finite() {
+            return Err(err(ParamErrorKind::Overflow(t.to_string())));
+        }
+        if value != 0.0 && !value.is_normal() {
+            return Err(err(ParamErrorKind::Underflow(t.to_string())));
+        }
+        return Ok(value);
     }
     let Some((exp, unit)) = split_suffix(suffix) else {
         return Err(err(if suffix.starts_with(|c: char| c.is_ascii_digit()) {

@@ -90,6 +90,16 @@ pub const TW_SIGMA: FieldSpec = FieldSpec {
     usual: (0.01, 1.0),
 };
 
+/// Correlation of ln tau and ln tw.
+pub const TAU_TW_CORR: FieldSpec = FieldSpec {
+    name: "tau-tw-corr",
+    dim: Dim::Ratio,
+    help: "correlation of ln(tau) and ln(tw), above -1 and below 1 (a fit of both from \
+           the same lab data reports it; optional, 0 by default)",
+    limits: (1e-12, 1.0),
+    usual: (1e-3, 0.99),
+};
+
 /// Which statistic of the worst total decides the verdict.
 pub const SIGNOFF: FieldSpec = FieldSpec {
     name: "signoff",
@@ -114,5 +124,6 @@ pub const FIELDS: &[FieldSpec] = &[
     SERVICE_YEARS,
     TAU_SIGMA,
     TW_SIGMA,
+    TAU_TW_CORR,
     SIGNOFF,
 ];

@@ -14,8 +14,8 @@ use crate::table::{read_keeping, Column};
 use crate::units::Dim;
 
 use super::fields::{
-    BUDGET_FIT, CORNERS, DESIGN, DEVICES, SERVICE_YEARS, SIGNOFF, T0, TAU, TAU_SIGMA, TCQ, TSU, TW,
-    TW_SIGMA,
+    BUDGET_FIT, CORNERS, DESIGN, DEVICES, SERVICE_YEARS, SIGNOFF, T0, TAU, TAU_SIGMA, TAU_TW_CORR,
+    TCQ, TSU, TW, TW_SIGMA,
 };
 use super::rollup::{Cell, Rollup, MAX_STAGES};
 use super::row::{lent_error, Lent, RowReader, ROW_FIELDS};
@@ -52,6 +52,8 @@ pub struct BudgetCase {
     pub fleet: Option<Fleet>,
     /// Standard deviations of ln tau and ln tw, when given.
     pub sigmas: Option<(f64, f64)>,
+    /// The correlation of ln tau and ln tw (0 unless given).
+    pub corr: f64,
     /// Whether the verdict, exit status and fix plan use the 95th percentile (the default
     /// with sigmas; else the nominal total).
     pub signoff_p95: bool,
@@ -435,6 +437,35 @@ impl BudgetCase {
                 a.zip(b)
             }
         };
+        let corr = if r.has(&TAU_TW_CORR) {
+            if r.has(&TAU_SIGMA) && r.has(&TW_SIGMA) {
+                r.optional(&TAU_TW_CORR, |f, v| {
+                    if v > -1.0 && v < 1.0 {
+                        Ok(v)
+                    } else {
+                        Err(ParamError::new(
+                            f,
+                            ParamErrorKind::OutOfRange {
+                                value: v,
+                                range: "above -1 and below 1",
+                            },
+                        ))
+                    }
+                })
+                .unwrap_or(0.0)
+            } else {
+                r.push(ParamError::new(
+                    TAU_TW_CORR.name,
+                    ParamErrorKind::Unfittable(
+                        "a correlation needs both uncertainties: give tau-sigma and tw-sigma"
+                            .to_string(),
+                    ),
+                ));
+                0.0
+            }
+        } else {
+            0.0
+        };
         let signoff_p95 = match r.text(&SIGNOFF).map(str::to_ascii_lowercase).as_deref() {
             None => r.has(&TAU_SIGMA) || r.has(&TW_SIGMA),
             Some("nominal") => false,
@@ -703,6 +734,7 @@ impl BudgetCase {
             budget_fit,
             fleet,
             sigmas,
+            corr,
             signoff_p95,
             classes,
             domains,

@@ -33,7 +33,8 @@ impl Calculator for BudgetCalculator {
     const HELP: &'static str = "\
 Usage: latchwise budget DESIGN.csv [--corners FILE | --tau T --tw W|--t0 W --tsu T --tcq T]
                         [--budget-fit F] [--devices N --service-years Y]
-                        [--tau-sigma S --tw-sigma S] [--signoff p95|nominal]
+                        [--tau-sigma S --tw-sigma S [--tau-tw-corr R]]
+                        [--signoff p95|nominal]
                         [--results FILE.csv] [--all-rows] [--json]
 
 DESIGN.csv: one row per crossing, and each row is a synchronizer case: every input of
@@ -63,8 +64,9 @@ Rates of independent crossings add. The worst corner is the one with the largest
 With a budget, the fix plan adds stages where they remove the most FIT per added
 flip-flop, one at a time, until every corner is within the budget (rows given by tr are
 left alone). --tau-sigma and --tw-sigma are the standard deviations of ln tau and ln tw,
-shared by every row; the report gives the median and the 95th percentile of the worst
-total by quadrature, and the 95th percentile then decides the verdict, the exit status
+shared by every row, and --tau-tw-corr their correlation (as a fit of both from the same
+lab data reports it, corr_ln_tau_ln_tw); the report gives the median and the 95th
+percentile of the worst total by quadrature, and the 95th percentile then decides the verdict, the exit status
 and the fix plan (--signoff nominal: the nominal total decides instead).
 
 The text report lists the 20 largest crossings at the worst corner (--all-rows: every

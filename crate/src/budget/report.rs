@@ -278,7 +278,7 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
                 stages: stages.to_vec(),
                 ..r.clone()
             };
-            at.percentiles(ts, ws, &[0.95])[0]
+            at.percentiles_corr(ts, ws, c.corr, &[0.95])[0]
         })
     };
     // The plan's stages, with their 95th percentile when there are sigmas (computed once).
@@ -366,7 +366,9 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
             "adding stages cannot meet the budget".to_string(),
         ));
     }
-    let pcts = c.sigmas.map(|(ts, ws)| r.percentiles(ts, ws, &[0.5, 0.95]));
+    let pcts = c
+        .sigmas
+        .map(|(ts, ws)| r.percentiles_corr(ts, ws, c.corr, &[0.5, 0.95]));
     let meets_p95 = budget.zip(pcts.as_ref()).map(|(b, p)| p[1] <= b);
     // The statistic that decides.
     let decided = match (&pcts, c.signoff_p95) {
@@ -413,6 +415,9 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
     if let Some((ts, ws)) = c.sigmas {
         inputs.push(("tau-sigma", format_number(ts)));
         inputs.push(("tw-sigma", format_number(ws)));
+        if c.corr != 0.0 {
+            inputs.push(("tau-tw-corr", format_number(c.corr)));
+        }
     }
     let signoff = if c.signoff_p95 { "p95" } else { "nominal" };
     // With a mission profile, the fleet with every hour at the worst corner beside it.
@@ -951,7 +956,7 @@ pub fn plots(c: &BudgetCase, report: &BudgetReport) -> Vec<Plot> {
     corners.hline.clone_from(&budget);
     let mut v = vec![rows, corners];
     if let Some((ts, ws)) = c.sigmas {
-        let dist = c.rollup.distribution(ts, ws, 120);
+        let dist = c.rollup.distribution_corr(ts, ws, c.corr, 120);
         // Totals beyond what an f64 holds (below 1e-300 or above 1e300 FIT, as with
         // extreme inputs) are plotted by their log10 on a plain axis, so that the curve
         // and its CSV keep their values instead of turning into 0.

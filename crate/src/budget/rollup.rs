@@ -288,6 +288,17 @@ impl Rollup {
     /// normal quantiles directly; with both, the cumulative distribution is evaluated by
     /// the same quadrature on a grid of totals.
     pub fn distribution(&self, tau_sigma: f64, tw_sigma: f64, n: usize) -> Vec<(f64, f64)> {
+        self.distribution_corr(tau_sigma, tw_sigma, 0.0, n)
+    }
+
+    /// As [`Rollup::distribution`], with ln tau and ln tw correlated by `rho`.
+    pub fn distribution_corr(
+        &self,
+        tau_sigma: f64,
+        tw_sigma: f64,
+        rho: f64,
+        n: usize,
+    ) -> Vec<(f64, f64)> {
         let n = n.max(2);
         let zs: Vec<f64> = (0..n)
             .map(|i| -3.5 + 7.0 * i as f64 / (n - 1) as f64)
@@ -309,14 +320,18 @@ impl Rollup {
                 .collect();
         }
         let nodes = self.terms().spread_nodes(tau_sigma);
-        // From the total at tau's -3.5 sigma (z = -8 + 4.5) to that at +3.5 sigma.
-        let at = |z: f64| nodes[((z + 8.0) / SPREAD_STEP).round() as usize].1;
-        let lo = at(-3.5) - 3.5 * tw_sigma;
-        let hi = at(3.5) + 3.5 * tw_sigma;
+        // From the total at tau's -3.5 sigma (z = -8 + 4.5) to that at +3.5 sigma, with
+        // tw's shift along it.
+        let at = |z: f64| {
+            let n = nodes[((z + 8.0) / SPREAD_STEP).round() as usize];
+            n.1 + rho * tw_sigma * n.2
+        };
+        let lo = at(-3.5).min(at(3.5)) - 3.5 * tw_sigma;
+        let hi = at(3.5).max(at(-3.5)) + 3.5 * tw_sigma;
         (0..n)
             .map(|i| {
                 let x = lo + (hi - lo) * i as f64 / (n - 1) as f64;
-                let p = spread_cdf(&nodes, tw_sigma, x);
+                let p = spread_cdf(&nodes, tw_sigma, rho, x);
                 (x / LN_10, p.clamp(0.0, 1.0))
             })
             .collect()
@@ -334,6 +349,24 @@ impl Rollup {
     /// each percentile by the Illinois method on x. With `tw_sigma = 0` the percentile is G at the
     /// same percentile of `s_tau`; with `tau_sigma = 0` the total is lognormal.
     pub fn percentiles(&self, tau_sigma: f64, tw_sigma: f64, ps: &[f64]) -> Vec<f64> {
+        self.percentiles_corr(tau_sigma, tw_sigma, 0.0, ps)
+    }
+
+    /// As [`Rollup::percentiles`], with ln tau and ln tw correlated by `rho` (-1 < rho <
+    /// 1), as a fit of both from the same lab data gives them.
+    ///
+    /// # Formula
+    /// Given tau's z, ln tw is normal with mean `rho tw_sigma z` and standard deviation
+    /// `tw_sigma sqrt(1 - rho^2)`, so `P(ln T <= x) = integral of phi(z) Phi((x - ln G(exp(
+    /// tau_sigma z)) - rho tw_sigma z) / (tw_sigma sqrt(1 - rho^2))) dz`, by the same
+    /// trapezoid rule; rho = 0 is the independent case.
+    pub fn percentiles_corr(
+        &self,
+        tau_sigma: f64,
+        tw_sigma: f64,
+        rho: f64,
+        ps: &[f64],
+    ) -> Vec<f64> {
         let z_of = |p: f64| bisect_last(-40.0, 40.0, 1e-13, 200, |z| (1.0 - ln_q(z).exp()) <= p);
         if tau_sigma <= 0.0 {
             let g = self.log10_worst_at(1.0) * LN_10;
@@ -350,10 +383,15 @@ impl Rollup {
                 .collect();
         }
         let nodes = terms.spread_nodes(tau_sigma);
-        let lo = nodes.iter().map(|n| n.1).fold(f64::INFINITY, f64::min) - 10.0 * tw_sigma;
-        let hi = nodes.iter().map(|n| n.1).fold(f64::NEG_INFINITY, f64::max) + 10.0 * tw_sigma;
+        let shifted = |n: &(f64, f64, f64)| n.1 + rho * tw_sigma * n.2;
+        let lo = nodes.iter().map(shifted).fold(f64::INFINITY, f64::min) - 10.0 * tw_sigma;
+        let hi = nodes.iter().map(shifted).fold(f64::NEG_INFINITY, f64::max) + 10.0 * tw_sigma;
         ps.iter()
-            .map(|&p| illinois(lo, hi, 1e-12, 200, |x| spread_cdf(&nodes, tw_sigma, x) - p) / LN_10)
+            .map(|&p| {
+                illinois(lo, hi, 1e-12, 200, |x| {
+                    spread_cdf(&nodes, tw_sigma, rho, x) - p
+                }) / LN_10
+            })
             .collect()
     }
 }
@@ -377,12 +415,16 @@ impl Terms {
     /// The quadrature nodes of [`Rollup::percentiles`]: z from -8 to 8 by 0.1, each as
     /// (trapezoid weight times the normal density at z, ln of the worst total with every
     /// tau scaled by `exp(tau_sigma z)`).
-    fn spread_nodes(&self, tau_sigma: f64) -> Vec<(f64, f64)> {
+    fn spread_nodes(&self, tau_sigma: f64) -> Vec<(f64, f64, f64)> {
         (0..=SPREAD_NODES_LAST)
             .map(|i| {
                 let z = -8.0 + SPREAD_STEP * f64::from(i);
                 let weight = (-0.5 * z * z).exp() / (2.0 * PI).sqrt() * SPREAD_STEP;
-                (weight, self.log10_worst_at((tau_sigma * z).exp()) * LN_10)
+                (
+                    weight,
+                    self.log10_worst_at((tau_sigma * z).exp()) * LN_10,
+                    z,
+                )
             })
             .collect()
     }
@@ -396,12 +438,14 @@ const SPREAD_STEP: f64 = 0.05;
 const SPREAD_NODES_LAST: u32 = 320;
 
 /// `P(ln T <= x)` by the quadrature over [`Terms::spread_nodes`]: each node's weight
-/// times the normal probability that ln tw's shift keeps the total at most `x`.
-fn spread_cdf(nodes: &[(f64, f64)], tw_sigma: f64, x: f64) -> f64 {
+/// times the normal probability that ln tw's shift (correlated by `rho` with the node's
+/// z) keeps the total at most `x`.
+fn spread_cdf(nodes: &[(f64, f64, f64)], tw_sigma: f64, rho: f64, x: f64) -> f64 {
+    let sd = tw_sigma * (1.0 - rho * rho).sqrt();
     nodes
         .iter()
-        .map(|(w, ln_g)| {
-            let z = (x - ln_g) / tw_sigma;
+        .map(|(w, ln_g, zt)| {
+            let z = (x - ln_g - rho * tw_sigma * zt) / sd;
             // Beyond 9 standard deviations the normal probability is 0 or 1 to within
             // 1.2e-19, and 1 - Q(z) rounds to exactly that: no need to evaluate Q.
             if z > 9.0 {

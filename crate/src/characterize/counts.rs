@@ -39,6 +39,12 @@ pub struct CountsFit {
     pub window: f64,
     /// Its 95 % profile-likelihood interval.
     pub window_ci: Interval,
+    /// Standard deviation of ln tau, from the observed information at the peak.
+    pub sd_ln_tau: f64,
+    /// Standard deviation of ln of the window, likewise.
+    pub sd_ln_window: f64,
+    /// Correlation of ln tau and ln of the window, likewise.
+    pub corr: f64,
     /// The deviance against the saturated model.
     pub deviance: f64,
     /// Its degrees of freedom, rows - 2.
@@ -420,6 +426,12 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
         tau_ci: (b_hi.map(|x| 1.0 / x), b_lo.map(|x| 1.0 / x)),
         window: a.exp(),
         window_ci: (a_lo.map(f64::exp), a_hi.map(f64::exp)),
+        // The inverse information: var a = I_bb/det, var b = I_aa/det, and I_ab = -i_ab
+        // (d eta/d b = -t), so cov(a, b) = i_ab/det > 0; ln tau = -ln b, so sd(ln tau) =
+        // sd(b)/b and the correlation of ln tau and ln w is minus that of a and b.
+        sd_ln_tau: se_b / b,
+        sd_ln_window: se_a,
+        corr: -i_ab / (i_aa * i_bb).sqrt(),
         deviance,
         df,
         p_value: (df > 0).then(|| chi2_sf(deviance, df as f64)),

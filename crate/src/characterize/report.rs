@@ -97,6 +97,21 @@ pub struct FitReport {
     /// High end of t0's 95 % interval, s.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub t0_s_ci_high: Option<Option<f64>>,
+    /// Standard deviation of ln tau, from the observed information (counts).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub sd_ln_tau: Option<f64>,
+    /// Standard deviation of ln tw, likewise (counts with the tw window).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub sd_ln_tw: Option<f64>,
+    /// Correlation of ln tau and ln tw, likewise.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub corr_ln_tau_ln_tw: Option<f64>,
+    /// Standard deviation of ln t0 (counts with the t0 window).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub sd_ln_t0: Option<f64>,
+    /// Correlation of ln tau and ln t0.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub corr_ln_tau_ln_t0: Option<f64>,
     /// Deviance against the saturated model (counts).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub deviance: Option<f64>,
@@ -190,6 +205,11 @@ pub fn evaluate(f: &Fitted) -> FitReport {
         deviance: None,
         deviance_df: None,
         p_value: None,
+        sd_ln_tau: None,
+        sd_ln_tw: None,
+        corr_ln_tau_ln_tw: None,
+        sd_ln_t0: None,
+        corr_ln_tau_ln_t0: None,
         rows: Vec::new(),
         offset_m_s: None,
         tcq_s: None,
@@ -241,6 +261,12 @@ pub fn evaluate(f: &Fitted) -> FitReport {
                 if v.is_none() {
                     r.not_applicable.push((key, unbounded.to_string()));
                 }
+            }
+            r.sd_ln_tau = Some(fit.sd_ln_tau);
+            if *t0 {
+                (r.sd_ln_t0, r.corr_ln_tau_ln_t0) = (Some(fit.sd_ln_window), Some(fit.corr));
+            } else {
+                (r.sd_ln_tw, r.corr_ln_tau_ln_tw) = (Some(fit.sd_ln_window), Some(fit.corr));
             }
             r.deviance = Some(fit.deviance);
             r.deviance_df = Some(fit.df);
@@ -399,6 +425,25 @@ impl FitReport {
                 v.push(Readout::new(name, label, s(w), Some(w)));
                 v.push(Readout::maybe(lo, lo_label, low.flatten(), s, na));
                 v.push(Readout::maybe(hi, hi_label, high.flatten(), s, na));
+            }
+        }
+        for (key, label, value) in [
+            ("sd_ln_tau", "sd of ln tau", self.sd_ln_tau),
+            ("sd_ln_tw", "sd of ln tw", self.sd_ln_tw),
+            ("sd_ln_t0", "sd of ln t0", self.sd_ln_t0),
+            (
+                "corr_ln_tau_ln_tw",
+                "correlation of ln tau, ln tw",
+                self.corr_ln_tau_ln_tw,
+            ),
+            (
+                "corr_ln_tau_ln_t0",
+                "correlation of ln tau, ln t0",
+                self.corr_ln_tau_ln_t0,
+            ),
+        ] {
+            if let Some(x) = value {
+                v.push(Readout::new(key, label, format_number(x), Some(x)));
             }
         }
         if let (Some(d), Some(df)) = (self.deviance, self.deviance_df) {
