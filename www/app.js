@@ -689,6 +689,37 @@
     return bytes;
   }
 
+  // Adds one corner (a header line and a row, CSV) to a corners table: columns the table
+  // lacks are added (blank in its other rows), and a name already taken gets a number.
+  function addCorner(text, add) {
+    var parts = add.split('\n');
+    var addCols = parts[0].split(',');
+    var addRow = parts[1].split(',');
+    var lines = text.replace(/\s+$/, '').split(/\r?\n/);
+    var h = lines.findIndex(function (l) { return l.trim() !== '' && l.charAt(0) !== '#'; });
+    if (h < 0) return { text: add + '\n', name: addRow[0] };
+    var delim = lines[h].indexOf('\t') >= 0 ? '\t' : lines[h].indexOf(';') >= 0 ? ';' : ',';
+    var cols = lines[h].split(delim).map(function (c) { return c.trim().toLowerCase(); });
+    var names = lines.slice(h + 1).filter(function (l) { return l.trim() !== '' && l.charAt(0) !== '#'; })
+      .map(function (l) { return l.split(delim)[0].trim(); });
+    addCols.forEach(function (c) {
+      if (cols.indexOf(c) >= 0) return;
+      cols.push(c);
+      for (var i = h; i < lines.length; i++) {
+        if (i === h) lines[i] += delim + c;
+        else if (lines[i].trim() !== '' && lines[i].charAt(0) !== '#') lines[i] += delim;
+      }
+    });
+    var name = addRow[0], n = 2;
+    while (names.indexOf(name) >= 0) name = addRow[0] + n++;
+    var row = cols.map(function (c) {
+      var k = addCols.indexOf(c);
+      return c === 'corner' ? name : k >= 0 ? addRow[k] : '';
+    });
+    lines.push(row.join(delim));
+    return { text: lines.join('\n') + '\n', name: name };
+  }
+
   function start() {
     wire();
     var q = location.search.replace(/^\?/, '');
@@ -699,6 +730,16 @@
       carried.delete('from');
       q = stored(storeKey);
       if (q !== '') fill(q);
+      // A fit arriving as a budget corner: added to the corners there are, not replacing them.
+      var corner = carried.get('add-corner');
+      carried.delete('add-corner');
+      var corners = form.elements.namedItem('corners');
+      if (corner && corners) {
+        var added = addCorner(corners.value, corner);
+        corners.value = added.text;
+        note('Corner "' + added.name + '" added from the fit (tau, the window and the range the data cover). ' +
+          'Give it tsu and tcq in the corners table if the design\'s rows do not.');
+      }
       carried.forEach(function (v, k) {
         var el = form.elements.namedItem(k);
         if (el) el.value = v;

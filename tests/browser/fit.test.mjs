@@ -35,7 +35,7 @@ test('the delay and comparator demos fit, and each result opens its calculator',
   assert.match(out.points_used.text, /^\d+ of 24$/);
   assert.match(await page.textContent('#facts'), /Left out: line 5/);
   const href = await page.$eval('#links a', (a) => a.getAttribute('href'));
-  assert.match(href, /^index\.html\?tau=1\.60\d+e-11&tw=2\.9\d+e-11$/);
+  assert.match(href, /^index\.html\?from=characterize&tau=1\.60\d+e-11&tw=2\.9\d+e-11&tr-max=\d\.\d+e-11$/);
   await page.click('button[data-demo="demo-comparator"]');
   await settle(page);
   out = await outputs(page);
@@ -81,5 +81,42 @@ test('each kind of fit lists only its own results, none as a dash', async () => 
     for (const f of foreign) assert.ok(!names.includes(f), `${demo}: ${f} shown`);
     for (const [n, t] of shown) assert.ok(t !== '—' && t !== '', `${demo}: ${n} shows '${t}'`);
   }
+  await context.close();
+});
+
+test('a fit opens the synchronizer over its last case, and joins the budget as a corner beside the stored ones', async () => {
+  const { context, page, problems } = await open(env.browser, fileUrl('index.html'));
+  // The synchronizer's own case: a 800 MHz clock and three stages, kept by the page.
+  await fill(page, '[name="fclk"]', '800MHz');
+  await fill(page, '[name="stages"]', '3');
+  await settle(page);
+  await page.goto(fileUrl('characterize.html'));
+  await page.waitForSelector('body[data-ready="yes"]');
+  const fit = cli('fit', ['counts', path.join(root, 'examples/fit-counts.csv'), '--fclk', '1GHz', '--fdata', '50MHz']);
+  const texts = await page.$$eval('#links a', (a) => a.map((x) => x.textContent));
+  assert.match(texts[1], /joint 95 % region's worst point for tr = 380 ps/);
+  await Promise.all([page.waitForNavigation(), page.click('#links li:nth-child(1) a')]);
+  await page.waitForSelector('body[data-ready="yes"]');
+  assert.equal(await page.inputValue('[name="fclk"]'), '800MHz');
+  assert.equal(await page.inputValue('[name="stages"]'), '3');
+  assert.ok(Math.abs(Number(await page.inputValue('[name="tau"]')) - fit.tau_s) <= 1e-4 * fit.tau_s);
+  assert.equal(await page.inputValue('[name="tr-max"]'), '3.8000e-10');
+  assert.equal(await page.getAttribute('body', 'data-valid'), 'yes');
+  // Into the budget: its demo corners stay, the fit's corner joins them with the range its
+  // data cover, and the uncertainty with its correlation fills the budget's fields.
+  await page.goto(fileUrl('characterize.html'));
+  await page.waitForSelector('body[data-ready="yes"]');
+  await Promise.all([page.waitForNavigation(), page.click('#links li:nth-child(3) a')]);
+  await page.waitForSelector('body[data-ready="yes"]');
+  const corners = await page.inputValue('[name="corners"]');
+  assert.match(corners, /^corner,tau,tw,tsu,tcq,tau@fastsync,tr_max$/m);
+  assert.match(corners, /^low_v_cold,24ps,30ps,40ps,70ps,21ps,$/m);
+  assert.match(corners, /^lab,1\.7796e-11,2\.3697e-11,,,,3\.8000e-10$/m);
+  assert.equal(await page.inputValue('[name="tau-tw-corr"]'), fit.corr_ln_tau_ln_tw.toFixed(4));
+  assert.ok(Math.abs(Number(await page.inputValue('[name="tau-sigma"]')) - fit.sd_ln_tau) <= 1e-4 * fit.sd_ln_tau);
+  assert.match(await page.textContent('#ignored'), /Corner "lab" added from the fit/);
+  // The corner lacks the timing the rows need: said once, at its line.
+  assert.match(await page.textContent('#m-corners'), /corners, line 8, column tcq: corner lab gives no tcq, which 24 of the design's rows need/);
+  assert.deepEqual(problems, []);
   await context.close();
 });

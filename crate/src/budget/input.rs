@@ -31,6 +31,10 @@ pub struct Corner {
     /// a blank cell is absent.
     at: HashMap<String, f64>,
     hours: Option<f64>,
+    /// The longest resolution time its characterisation covered.
+    tr_max: Option<f64>,
+    /// Its line in the corners table (None: the one corner given by options).
+    line: Option<usize>,
 }
 
 /// A budget case: the roll-up, names, and the questions asked of it.
@@ -130,17 +134,22 @@ fn note_column(name: &str) -> Option<Result<(), &'static str>> {
 pub const MAX_COUNT: f64 = 1e9;
 
 /// The corners' columns, with the synchronizer's limits.
-const CORNER_COLUMNS: [Column; 7] = [
+const CORNER_COLUMNS: [Column; 8] = [
     Column::any("corner", Dim::Text),
     Column::of(sync::TAU).positive(),
     Column::of(sync::TW).positive().optional(),
     Column::of(sync::T0).positive().optional(),
-    Column::of(sync::TSU).non_negative(),
+    Column::of(sync::TSU).non_negative().optional(),
     Column::of(sync::TCQ).non_negative().optional(),
     // The share of service time spent at the corner (a mission profile).
     Column::any("hours", Dim::Ratio)
         .within(1e-300, 1.0)
         .non_negative()
+        .optional(),
+    // The longest resolution time in the lab data behind the corner's tau.
+    Column::of(sync::TR_MAX)
+        .renamed("tr_max")
+        .positive()
         .optional(),
 ];
 
@@ -245,6 +254,7 @@ fn read_corners(r: &mut FieldReader) -> Option<Vec<Corner>> {
             table.optional(5),
             table.optional(6),
         );
+        let tr_max = table.optional(7);
         let mut problems = Vec::new();
         let mut out: Vec<Corner> = Vec::new();
         for (i, line) in table.lines.iter().enumerate() {
@@ -321,13 +331,15 @@ fn read_corners(r: &mut FieldReader) -> Option<Vec<Corner>> {
                 plain: Lent {
                     tau: tau[i],
                     window: w,
-                    tsu: tsu[i],
+                    tsu: tsu.get(i).copied().flatten(),
                     tcq: tcq.get(i).copied().flatten(),
                     fclk: None,
                     flaunch: None,
                 },
                 at,
                 hours: h,
+                tr_max: tr_max.get(i).copied().flatten(),
+                line: Some(*line),
             });
         }
         if table.has(6) && problems.is_empty() {
@@ -371,6 +383,8 @@ fn read_corners(r: &mut FieldReader) -> Option<Vec<Corner>> {
         },
         at: HashMap::new(),
         hours: None,
+        tr_max: None,
+        line: None,
     }])
 }
 
@@ -532,6 +546,9 @@ impl BudgetCase {
         let mut kind_given = Vec::with_capacity(n_rows);
         let mut fixed: Vec<String> = Vec::new();
         let mut reader = RowReader::default();
+        // (corner, field) -> (the first row's line, rows) that need a value the corner lacks.
+        let mut corner_needs: std::collections::BTreeMap<(usize, &'static str), (usize, usize)> =
+            std::collections::BTreeMap::new();
         // Each crossing by its own name: the fix plan and the results name rows.
         let mut first_line: crate::table::TextMap<&str, usize> =
             crate::table::TextMap::with_capacity_and_hasher(n_rows, Default::default());
@@ -607,7 +624,7 @@ impl BudgetCase {
             let mut row = Vec::with_capacity(corners.len());
             let mut warnings: Vec<String> = Vec::new();
             let mut failed = false;
-            for c in &corners {
+            for (ci, c) in corners.iter().enumerate() {
                 let lent = lent_at(c, class, domain, launch);
                 if !domain.is_empty() && lent.fclk.is_none() && !has(sync::FCLK.name) {
                     problems.push(here(
@@ -632,10 +649,22 @@ impl BudgetCase {
                     }
                     Err(errors) => {
                         for e in &errors.0 {
-                            let lendable = [sync::TAU.name, sync::TW.name, sync::TSU.name];
-                            let m = if e.kind == ParamErrorKind::Missing
-                                && lendable.contains(&e.field)
-                            {
+                            let lendable = [
+                                sync::TAU.name,
+                                sync::TW.name,
+                                sync::TSU.name,
+                                sync::TCQ.name,
+                            ];
+                            let missing =
+                                e.kind == ParamErrorKind::Missing && lendable.contains(&e.field);
+                            // A corner of the table without a value the rows need: said
+                            // once, at the corner's line, not at every row.
+                            if let (true, Some(_)) = (missing, c.line) {
+                                let at = corner_needs.entry((ci, e.field)).or_insert((*line, 0));
+                                at.1 += 1;
+                                continue;
+                            }
+                            let m = if missing {
                                 "a value is required, in the row or the corner".to_string()
                             } else {
                                 message_of(e)
@@ -656,6 +685,28 @@ impl BudgetCase {
             }
             if failed {
                 continue;
+            }
+            // Beyond the characterised range: the farthest corner, said once per row.
+            let far = row
+                .iter()
+                .zip(&corners)
+                .filter_map(|(cell, c)| {
+                    let tr = cell.sync.resolution_time();
+                    c.tr_max
+                        .filter(|m| tr > *m)
+                        .map(|m| (tr / m, tr, m, &c.name))
+                })
+                .fold(
+                    None,
+                    |best: Option<(f64, f64, f64, &String)>, x| match best {
+                        Some(b) if b.0 >= x.0 => Some(b),
+                        _ => Some(x),
+                    },
+                );
+            if let Some((_, tr, m, name)) = far {
+                if let Some(e) = crate::crossing::input::extrapolation(tr, m) {
+                    warnings.push(format!("At corner {name}: {e}"));
+                }
             }
             let sync0 = &row[0].sync;
             let st = sync0.stages();
@@ -699,6 +750,26 @@ impl BudgetCase {
                 DESIGN.name,
                 ParamErrorKind::table(problems),
             ));
+        }
+        if !corner_needs.is_empty() {
+            let needs = corner_needs
+                .iter()
+                .map(|((ci, field), (first, n))| {
+                    let c = &corners[*ci];
+                    TableProblem::at(
+                        "corners",
+                        c.line,
+                        &[field],
+                        format!(
+                            "corner {} gives no {field}, which {} of the design's rows need \
+                             (the first at line {first}) and do not give themselves",
+                            crate::error::short(&c.name),
+                            n
+                        ),
+                    )
+                })
+                .collect();
+            r.push(ParamError::new(CORNERS.name, ParamErrorKind::table(needs)));
         }
         if r.has_errors() {
             return Err(r.into_errors());

@@ -102,11 +102,13 @@ pub fn inputs(own: &[(&'static str, &str)], lent: &Lent) -> Vec<(&'static str, S
     // The chain's times apply without tr; tcq only with tw; neither under the
     // master-slave bound (tw2), which counts whole periods.
     let chain = !has(sync::TR.name) && !has(sync::TW2.name);
-    if chain && !has(sync::TSU.name) {
-        v.push((sync::TSU.name, exact(lent.tsu.unwrap_or(0.0))));
+    // Nothing is assumed: a chain that neither the row nor the corner times is refused
+    // by the synchronizer's reader, naming the value.
+    if let (true, false, Some(t)) = (chain, has(sync::TSU.name), lent.tsu) {
+        v.push((sync::TSU.name, exact(t)));
     }
-    if chain && !t0 && !has(sync::TCQ.name) {
-        v.push((sync::TCQ.name, exact(lent.tcq.unwrap_or(0.0))));
+    if let (true, false, false, Some(t)) = (chain, t0, has(sync::TCQ.name), lent.tcq) {
+        v.push((sync::TCQ.name, exact(t)));
     }
     if let Some(f) = lent.fclk {
         v.retain(|(k, _)| *k != sync::FCLK.name);

@@ -97,6 +97,11 @@ pub struct FitReport {
     /// High end of t0's 95 % interval, s.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub t0_s_ci_high: Option<Option<f64>>,
+    /// The longest resolution time the data cover, s (counts: the longest tr; delay: the
+    /// longest extra delay over tcq among the points used): beyond it the exponential is
+    /// extrapolated. Give it to the synchronizer as `tr-max`, to a corner as `tr_max`.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub tr_max_s: Option<f64>,
     /// Standard deviation of ln tau, from the observed information (counts).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub sd_ln_tau: Option<f64>,
@@ -205,6 +210,7 @@ pub fn evaluate(f: &Fitted) -> FitReport {
         deviance: None,
         deviance_df: None,
         p_value: None,
+        tr_max_s: None,
         sd_ln_tau: None,
         sd_ln_tw: None,
         corr_ln_tau_ln_tw: None,
@@ -262,6 +268,7 @@ pub fn evaluate(f: &Fitted) -> FitReport {
                     r.not_applicable.push((key, unbounded.to_string()));
                 }
             }
+            r.tr_max_s = d.tr.iter().copied().reduce(f64::max);
             r.sd_ln_tau = Some(fit.sd_ln_tau);
             if *t0 {
                 (r.sd_ln_t0, r.corr_ln_tau_ln_t0) = (Some(fit.sd_ln_window), Some(fit.corr));
@@ -330,6 +337,12 @@ pub fn evaluate(f: &Fitted) -> FitReport {
                 "the delay far from the balance point"
             });
             r.points_used = Some(fit.uses.iter().filter(|u| **u == Use::Used).count());
+            r.tr_max_s = delay
+                .iter()
+                .zip(&fit.uses)
+                .filter(|(_, u)| **u == Use::Used)
+                .map(|(d, _)| d - fit.tcq)
+                .reduce(f64::max);
             r.points = lines
                 .iter()
                 .enumerate()
@@ -426,6 +439,14 @@ impl FitReport {
                 v.push(Readout::maybe(lo, lo_label, low.flatten(), s, na));
                 v.push(Readout::maybe(hi, hi_label, high.flatten(), s, na));
             }
+        }
+        if let Some(t) = self.tr_max_s {
+            v.push(Readout::new(
+                "tr_max_s",
+                "characterised up to (tr)",
+                s(t),
+                Some(t),
+            ));
         }
         for (key, label, value) in [
             ("sd_ln_tau", "sd of ln tau", self.sd_ln_tau),
@@ -547,22 +568,114 @@ impl FitReport {
                     (None, Some(w)) => ("t0", w, self.t0_s_ci_high.flatten()),
                     _ => return Vec::new(),
                 };
-                vec![
-                    (
-                        "Open the synchronizer with these estimates".into(),
-                        format!("index.html?tau={}&{key}={}", e(self.tau_s), e(w)),
-                    ),
-                    (
-                        "Open the synchronizer with the pessimistic ends".into(),
+                // Carried over the synchronizer's last case (from=...): its clock, depth
+                // and timing stay, tau and the window change, and the range the data cover.
+                let tr_max = self
+                    .tr_max_s
+                    .map_or(String::new(), |t| format!("&tr-max={}", e(t)));
+                let open = |tau: f64, win: f64| {
+                    format!(
+                        "index.html?from=characterize&tau={}&{key}={}{tr_max}",
+                        e(tau),
+                        e(win)
+                    )
+                };
+                let mut v = vec![(
+                    "Open the synchronizer with these estimates".to_string(),
+                    open(self.tau_s, w),
+                )];
+                match self.worst_point() {
+                    Some((tau, win, tr)) => v.push((
                         format!(
-                            "index.html?tau={}&{key}={}",
-                            e(pessimistic_tau),
-                            e(hi.unwrap_or(w))
+                            "Open the synchronizer at the joint 95 % region's worst point for \
+                             tr = {} (tau {}, {key} {})",
+                            format_si(tr, "s"),
+                            format_si(tau, "s"),
+                            format_si(win, "s")
                         ),
-                    ),
-                ]
+                        open(tau, win),
+                    )),
+                    None => v.push((
+                        "Open the synchronizer with the pessimistic ends".to_string(),
+                        open(pessimistic_tau, hi.unwrap_or(w)),
+                    )),
+                }
+                if let Some(c) = self.budget_corner() {
+                    v.push(("Use as a budget corner (lab)".to_string(), c));
+                }
+                v
             }
         }
+    }
+
+    /// With the joint uncertainty (counts): the point of the joint 95 % region of (ln w,
+    /// 1/tau) that gives the highest failure rate at the longest resolution time in the
+    /// data: tau, the window and that tr.
+    ///
+    /// # Formula
+    /// ln rate = a - b tr + const is linear in (a, b) = (ln w, 1/tau); over the Wald
+    /// ellipse `(x - x^)' C^-1 (x - x^) <= chi2(2, 0.95) = 5.991` its largest value is at
+    /// `x^ + C g sqrt(5.991 / g' C g)`, g = (1, -tr), with C the inverse observed
+    /// information.
+    pub fn worst_point(&self) -> Option<(f64, f64, f64)> {
+        let (sd_w, corr) = match (self.sd_ln_tw, self.sd_ln_t0) {
+            (Some(s), _) => (s, self.corr_ln_tau_ln_tw?),
+            (None, Some(s)) => (s, self.corr_ln_tau_ln_t0?),
+            _ => return None,
+        };
+        let tr = self.tr_max_s?;
+        let b = 1.0 / self.tau_s;
+        let a = self.tw_s.or(self.t0_s)?.ln();
+        // Back to (a, b): sd(b) = b sd(ln tau), corr(a, b) = -corr(ln tau, ln w).
+        let sd_b = b * self.sd_ln_tau?;
+        let (vaa, vbb, vab) = (sd_w * sd_w, sd_b * sd_b, -corr * sd_w * sd_b);
+        let (g_a, g_b) = (1.0, -tr);
+        let (cg_a, cg_b) = (vaa * g_a + vab * g_b, vab * g_a + vbb * g_b);
+        let q = g_a * cg_a + g_b * cg_b;
+        if q <= 0.0 || !q.is_finite() {
+            return None;
+        }
+        // chi2(2, 0.95) = -2 ln 0.05.
+        let k = (-2.0 * 0.05f64.ln() / q).sqrt();
+        let (a1, b1) = (a + k * cg_a, b + k * cg_b);
+        (b1 > 0.0).then(|| (1.0 / b1, a1.exp(), tr))
+    }
+
+    /// The link that adds the fit to the design budget as a corner named `lab`: tau, the
+    /// window and tr_max in the corner, and the uncertainty (sds and correlation of the
+    /// logarithms) in the budget's fields, over the budget's last case.
+    pub fn budget_corner(&self) -> Option<String> {
+        let e = |x: f64| format!("{x:.4e}");
+        let (key, w) = match (self.tw_s, self.t0_s) {
+            (Some(w), _) => ("tw", w),
+            (None, Some(w)) => ("t0", w),
+            _ => return None,
+        };
+        let mut cols = vec![
+            ("corner", "lab".to_string()),
+            ("tau", e(self.tau_s)),
+            (key, e(w)),
+        ];
+        if let Some(t) = self.tr_max_s {
+            cols.push(("tr_max", e(t)));
+        }
+        let header: Vec<&str> = cols.iter().map(|c| c.0).collect();
+        let row: Vec<String> = cols.iter().map(|c| c.1.clone()).collect();
+        let corner = format!("{}\n{}", header.join(","), row.join(","));
+        let mut q = format!(
+            "budget.html?from=characterize&add-corner={}",
+            crate::link::encode(&corner)
+        );
+        let sd_w = self.sd_ln_tw.or(self.sd_ln_t0);
+        let corr = self.corr_ln_tau_ln_tw.or(self.corr_ln_tau_ln_t0);
+        if let (Some(st), Some(sw), Some(r)) = (self.sd_ln_tau, sd_w, corr) {
+            q.push_str(&format!(
+                "&tau-sigma={}&tw-sigma={}&tau-tw-corr={r:.4}",
+                e(st),
+                e(sw)
+            ));
+        }
+        Some(q)
     }
 
     /// What a person reads of the report.

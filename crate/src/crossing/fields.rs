@@ -75,6 +75,15 @@ pub const TR: FieldSpec = FieldSpec {
     limits: (1e-21, 1e6),
     usual: (1e-12, 1e-5),
 };
+/// The longest resolution time the characterisation covered.
+pub const TR_MAX: FieldSpec = FieldSpec {
+    name: "tr-max",
+    dim: Dim::Time,
+    help: "the longest resolution time in the lab data behind tau (optional): a longer \
+           one extrapolates the exponential, and the report says by how much",
+    limits: (1e-21, 1e6),
+    usual: (1e-12, 1e-5),
+};
 /// MTBF target in years.
 pub const TARGET_YEARS: FieldSpec = FieldSpec {
     name: "target-years",
@@ -225,6 +234,7 @@ pub const FIELDS: &[FieldSpec] = &[
     TAU_SLAVE,
     DUTY,
     TW2,
+    TR_MAX,
     RATIO,
     JITTER,
     PHASE,

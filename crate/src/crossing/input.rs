@@ -10,7 +10,7 @@ use super::clocks::{gcd, RelatedClocks};
 use super::fields::{
     ACTIVITY, CROSSING, DEVICES, DUTY, FCLK, FDATA, FLAUNCH, INCREMENTS, JITTER, PHASE, RATIO,
     SERVICE_YEARS, STAGES, T0, TARGET_FIT, TARGET_YEARS, TAU, TAU_MASTER, TAU_SLAVE, TCQ, TR,
-    TRANSFERS, TSU, TW, TW2,
+    TRANSFERS, TR_MAX, TSU, TW, TW2,
 };
 use super::model::{Latch, SyncParts, Synchronizer, Window};
 
@@ -31,6 +31,8 @@ pub struct SyncCase {
     pub unused: Vec<&'static str>,
     /// Conflicts that leave the rest of the case usable (both targets given).
     pub conflicts: Vec<ParamError>,
+    /// The longest resolution time the characterisation covered, if given.
+    pub tr_max: Option<Time>,
 }
 
 impl SyncCase {
@@ -99,6 +101,7 @@ impl SyncCase {
             }
         };
         let tw2 = r.optional(&TW2, Time::positive);
+        let tr_max = r.optional(&TR_MAX, Time::positive);
         // With tr given, the chain's inputs are not used; with t0, tcq is not.
         if !chain_needed {
             unused.extend(
@@ -160,6 +163,7 @@ impl SyncCase {
                 notes: r.notes(),
                 unused,
                 conflicts: r.conflicts(),
+                tr_max,
             }),
             Err(e) => {
                 r.push(e);
@@ -439,6 +443,12 @@ fn stages_field(field: &'static str, v: f64) -> Result<u32, ParamError> {
 pub fn warnings(case: &SyncCase, log10_p: f64) -> Vec<String> {
     let s = &case.sync;
     let mut w = case.notes.clone();
+    if let Some(e) = case
+        .tr_max
+        .and_then(|m| extrapolation(s.resolution_time(), m.get()))
+    {
+        w.push(e);
+    }
     if s.fdata().get() < s.fclk().get() * 1e-9 {
         w.push(format!(
             "fdata = {} on a {} clock is an unusually low data rate: fdata counts data \
@@ -492,4 +502,17 @@ pub fn warnings(case: &SyncCase, log10_p: f64) -> Vec<String> {
         ));
     }
     w
+}
+
+/// The warning for a resolution time `tr` beyond the characterised `tr_max`, if it is.
+pub fn extrapolation(tr: f64, tr_max: f64) -> Option<String> {
+    (tr > tr_max).then(|| {
+        format!(
+            "The resolution time {} extrapolates the exponential {} times beyond the \
+             characterised range (tr-max {}): the lab data say nothing of tau out there.",
+            format_si(tr, "s"),
+            crate::units::format_log10((tr / tr_max).log10(), 2),
+            format_si(tr_max, "s")
+        )
+    })
 }
