@@ -7,6 +7,7 @@ mod cli;
 mod comparator;
 mod fits;
 mod invariants;
+mod lab;
 mod links;
 mod plot;
 mod properties;

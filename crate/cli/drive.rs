@@ -166,6 +166,8 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
             complain(&format!("latchwise {name}: cannot write JSON: {e}"));
             return ExitCode::from(EXIT_BAD_INPUT);
         }
+    } else if let Some(text) = C::replaces_text_report(&report) {
+        say(&format!("{text}\n"));
     } else {
         let table = C::text_table(&report, (!parsed.all_rows).then_some(TABLE_ROWS_MOST));
         if parsed.all_rows && table.is_none() {

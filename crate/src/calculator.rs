@@ -73,6 +73,12 @@ pub trait Calculator: 'static {
         None
     }
 
+    /// A text that replaces the command's text report when the case asks for one (a fit
+    /// named as a corner prints its corners CSV row); `None` by default.
+    fn replaces_text_report(_report: &Self::Report) -> Option<String> {
+        None
+    }
+
     /// A table for the command's text report: its title, its header and rows (the
     /// largest `most`, or all), and how many rows there are in all; `None` when the
     /// calculator has none. The page shows its own tables instead.

@@ -55,5 +55,16 @@ pub const TCQ: FieldSpec = FieldSpec {
     usual: (1e-13, 1e-8),
 };
 
+/// The name the fit takes as a budget corner.
+pub const CORNER: FieldSpec = FieldSpec {
+    name: "corner",
+    dim: Dim::Choice,
+    help: "the name of the fit as a budget corner (default lab); on the command line, \
+           --corner NAME prints the fit as a corners CSV row with its header instead of \
+           the report",
+    limits: (0.0, 0.0),
+    usual: (0.0, 0.0),
+};
+
 /// The input fields of the fit, in display order.
-pub const FIELDS: &[FieldSpec] = &[KIND, DATA, FCLK, FDATA, WINDOW, TCQ];
+pub const FIELDS: &[FieldSpec] = &[KIND, DATA, FCLK, FDATA, WINDOW, TCQ, CORNER];

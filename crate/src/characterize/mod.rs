@@ -25,11 +25,38 @@ pub use report::{evaluate, Fit, FitReport, Fitted};
 /// The fitting calculator (`latchwise fit`, `characterize.html`).
 pub struct FitCalculator;
 
+/// The corner name, if given: a word a corners table can hold (no comma, quote or line
+/// break; at most 40 characters).
+fn read_corner(raw: &RawInputs) -> Result<Option<String>, ParamError> {
+    let Some(text) = raw.get_nonblank(fields::CORNER.name).map(str::trim) else {
+        return Ok(None);
+    };
+    if text.chars().count() > 40 || text.contains([',', ';', '"', '\t', '\n', '\r', '#']) {
+        return Err(ParamError::new(
+            fields::CORNER.name,
+            ParamErrorKind::Unfittable(format!(
+                "'{}' cannot name a corner: use at most 40 characters, without , ; # \" or \
+                 line breaks",
+                crate::error::short(text)
+            )),
+        ));
+    }
+    Ok(Some(text.to_string()))
+}
+
 /// Runs the fit a case asks for.
 ///
 /// # Errors
 /// An `Unfittable` error on the `data` field, saying why the data cannot give the fit.
 pub fn fit(case: FitCase) -> Result<Fitted, ParamError> {
+    fit_named(case, None)
+}
+
+/// As [`fit`], the result to be named `corner` as a budget corner.
+///
+/// # Errors
+/// As [`fit`].
+pub fn fit_named(case: FitCase, corner: Option<String>) -> Result<Fitted, ParamError> {
     let fit = match &case {
         FitCase::Counts {
             counts,
@@ -45,7 +72,7 @@ pub fn fit(case: FitCase) -> Result<Fitted, ParamError> {
         FitCase::Comparator { vin, time, .. } => decision::fit(vin, time).map(Fit::Comparator),
     };
     match fit {
-        Ok(fit) => Ok(Fitted { case, fit }),
+        Ok(fit) => Ok(Fitted { case, fit, corner }),
         Err(why) => Err(ParamError::new(
             fields::DATA.name,
             ParamErrorKind::Unfittable(why),
@@ -88,8 +115,21 @@ Example:
     type Report = FitReport;
 
     fn read(raw: &RawInputs) -> Result<Fitted, ParamErrors> {
-        let case = FitCase::from_inputs(raw)?;
-        fit(case).map_err(|e| ParamErrors(vec![e]))
+        let corner = read_corner(raw);
+        let case = FitCase::from_inputs(raw);
+        match (case, corner) {
+            (Ok(case), Ok(corner)) => fit_named(case, corner).map_err(|e| ParamErrors(vec![e])),
+            (Err(mut e), Err(c)) => {
+                e.0.push(c);
+                Err(e)
+            }
+            (Err(e), _) => Err(e),
+            (_, Err(c)) => Err(ParamErrors(vec![c])),
+        }
+    }
+
+    fn replaces_text_report(report: &FitReport) -> Option<String> {
+        report.corner_csv.clone()
     }
 
     fn evaluate(case: &Fitted) -> FitReport {

@@ -22,6 +22,8 @@ pub struct Fitted {
     pub case: FitCase,
     /// The fit.
     pub fit: Fit,
+    /// The name the fit takes as a budget corner, when given.
+    pub corner: Option<String>,
 }
 
 /// The fit of one experiment.
@@ -102,6 +104,13 @@ pub struct FitReport {
     /// extrapolated. Give it to the synchronizer as `tr-max`, to a corner as `tr_max`.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub tr_max_s: Option<f64>,
+    /// The fit as a corners CSV (a header and one row: corner, tau, tw or t0, tr_max), with
+    /// a corner name given (counts and delay fits).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub corner_csv: Option<String>,
+    /// The name the fit takes as a budget corner (`lab` unless given).
+    #[serde(skip)]
+    pub corner_name: String,
     /// Standard deviation of ln tau, from the observed information (counts).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub sd_ln_tau: Option<f64>,
@@ -211,6 +220,8 @@ pub fn evaluate(f: &Fitted) -> FitReport {
         deviance_df: None,
         p_value: None,
         tr_max_s: None,
+        corner_csv: None,
+        corner_name: f.corner.clone().unwrap_or_else(|| "lab".to_string()),
         sd_ln_tau: None,
         sd_ln_tw: None,
         corr_ln_tau_ln_tw: None,
@@ -381,6 +392,9 @@ pub fn evaluate(f: &Fitted) -> FitReport {
             r.residual_spread_s = Some(fit.spread);
         }
         _ => {}
+    }
+    if f.corner.is_some() {
+        r.corner_csv = r.corner_table();
     }
     r
 }
@@ -601,7 +615,7 @@ impl FitReport {
                     )),
                 }
                 if let Some(c) = self.budget_corner() {
-                    v.push(("Use as a budget corner (lab)".to_string(), c));
+                    v.push((format!("Use as a budget corner ({})", self.corner_name), c));
                 }
                 v
             }
@@ -641,10 +655,9 @@ impl FitReport {
         (b1 > 0.0).then(|| (1.0 / b1, a1.exp(), tr))
     }
 
-    /// The link that adds the fit to the design budget as a corner named `lab`: tau, the
-    /// window and tr_max in the corner, and the uncertainty (sds and correlation of the
-    /// logarithms) in the budget's fields, over the budget's last case.
-    pub fn budget_corner(&self) -> Option<String> {
+    /// The fit as a corners CSV, a header and one row: the corner's name, tau, the window
+    /// (tw or t0) and tr_max, ready to append to a corners file (counts and delay fits).
+    pub fn corner_table(&self) -> Option<String> {
         let e = |x: f64| format!("{x:.4e}");
         let (key, w) = match (self.tw_s, self.t0_s) {
             (Some(w), _) => ("tw", w),
@@ -652,7 +665,7 @@ impl FitReport {
             _ => return None,
         };
         let mut cols = vec![
-            ("corner", "lab".to_string()),
+            ("corner", self.corner_name.clone()),
             ("tau", e(self.tau_s)),
             (key, e(w)),
         ];
@@ -661,7 +674,16 @@ impl FitReport {
         }
         let header: Vec<&str> = cols.iter().map(|c| c.0).collect();
         let row: Vec<String> = cols.iter().map(|c| c.1.clone()).collect();
-        let corner = format!("{}\n{}", header.join(","), row.join(","));
+        Some(format!("{}\n{}", header.join(","), row.join(",")))
+    }
+
+    /// The link that adds the fit to the design budget as a corner (named `lab` unless
+    /// named otherwise): tau, the
+    /// window and tr_max in the corner, and the uncertainty (sds and correlation of the
+    /// logarithms) in the budget's fields, over the budget's last case.
+    pub fn budget_corner(&self) -> Option<String> {
+        let e = |x: f64| format!("{x:.4e}");
+        let corner = self.corner_table()?;
         let mut q = format!(
             "budget.html?from=characterize&add-corner={}",
             crate::link::encode(&corner)
