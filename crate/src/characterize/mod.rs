@@ -88,16 +88,19 @@ impl Calculator for FitCalculator {
     const FIELDS: &'static [FieldSpec] = FIELDS;
     const OPERANDS: &'static [&'static str] = &["kind", "data"];
     const HELP: &'static str = "\
-Usage: latchwise fit counts FILE --fclk F --fdata F [--window tw|t0]
-       latchwise fit delay FILE [--tcq T]
+Usage: latchwise fit counts FILE --fclk F --fdata F [--window tw|t0] [--corner NAME]
+       latchwise fit delay FILE [--tcq T] [--corner NAME]
        latchwise fit comparator FILE
        (FILE is a CSV with a header row; - reads standard input)
 
 Experiments:
   counts      columns tr, failures, duration: failures counted at several resolution
               times; Poisson maximum likelihood of mu = duration fclk fdata w exp(-tr/tau),
-              zero counts used as they are, 95 % profile-likelihood intervals, deviance
-              and its p-value. --window t0 when tr counts from the clock edge.
+              zero counts used as they are, 95 % profile-likelihood intervals, the joint
+              uncertainty (sd_ln_tau, sd_ln_tw, corr_ln_tau_ln_tw, for the budget's
+              --tau-sigma, --tw-sigma, --tau-tw-corr), deviance and its p-value.
+              --window t0 when tr counts from the clock edge. Durations take s, min,
+              h or d.
   delay       columns offset, delay: a simulated sweep of data-to-clock offset against
               clock-to-output delay; fits tau, tw and the balance offset over the
               regenerative region and says which points it left out and why.
@@ -106,6 +109,11 @@ Experiments:
 
 Cells take engineering notation with units (1.2ns, 40 mV); # lines are comments; comma,
 semicolon or tab separated. Every problem is reported with its line and column.
+
+tr_max_s is the longest resolution time the data cover: beyond it the exponential is
+extrapolated (the synchronizer's --tr-max and a corner's tr_max say by how much).
+--corner NAME prints the fit as a corners CSV row with its header (corner, tau, tw or
+t0, tr_max) instead of the report, to append to a budget's corners file.
 
 Example:
   latchwise fit counts lab-counts.csv --fclk 1GHz --fdata 100MHz
