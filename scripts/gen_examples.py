@@ -42,16 +42,19 @@ def delay():
     rng = random.Random(7)
     tau, tw, tcq, m = 16e-12, 30e-12, 45e-12, 3.2e-12
     lines = ["# Demo (invented): a simulated sweep of data-to-clock offset against clock-to-output",
-             "# delay. Drawn from tau = 16 ps, tw = 30 ps, tcq = 45 ps, balance offset 3.2 ps;",
-             "# the simulation window ends at 100 ps of extra delay.",
+             "# delay. Drawn from tcq + tau ln coth(|offset - m| / (tw/2)) with tau = 16 ps,",
+             "# tw = 30 ps, tcq = 45 ps, balance offset m = 3.2 ps; the simulation window ends at",
+             "# 100 ps of extra delay.",
              "offset,delay"]
     for k in range(-12, 13):
         if k == 0:
             continue
         d = 10 ** (-1 - abs(k) * 0.45) * 1e-9 * (30 if k > 0 else 20)
         off = m + (d if k > 0 else -d)
-        extra = tau * math.log(tw / (2 * abs(off - m)))
-        extra = min(max(extra, 0.0), 100e-12)
+        x = abs(off - m) / (tw / 2)
+        e = math.exp(-2 * x)
+        extra = tau * (math.log1p(e) - math.log1p(-e))
+        extra = min(extra, 100e-12)
         lines.append(f"{off * 1e12:.6f}ps,{(tcq + extra) * 1e12 + rng.gauss(0, 0.15):.3f}ps")
     return "\n".join(lines) + "\n"
 

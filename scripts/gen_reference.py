@@ -516,6 +516,18 @@ def budget_p95(plan, tau_sigma, tw_sigma, rho=mpf(0), design_file=None, corners_
         return (lo + hi) / 2 / mp.log(10)
 
 
+SHAPE_OUT = FIXTURES / "delay_shape_reference.csv"
+
+
+def shape_line():
+    """The ln coth shape of a delay sweep: where its local slope (against ln |offset - m|)
+    has fallen to 0.6 tau, 2x / sinh(2x) = 0.6, and the extra delay there, ln coth x in
+    units of tau (x = 0.91930, 0.3208 tau): the apparent tau early in the curve is 60 % of
+    the true one, as published measurements show."""
+    x = mp.findroot(lambda x: 2 * x / mp.sinh(2 * x) - mpf("0.6"), mpf("0.9"))
+    return f"0.6,{mp.nstr(x, 25)},{mp.nstr(mp.log(mp.coth(x)), 25)}\n"
+
+
 CORR_OUT = FIXTURES / "budget_corr_reference.csv"
 CORR_DESIGN = FIXTURES / "budget_corr_design.csv"
 CORR_CORNERS = FIXTURES / "budget_corr_corners.csv"
@@ -590,6 +602,10 @@ def main():
         "clocks): the demo chip (examples/budget-*.csv) and a design with a row of every "
         "kind (tests/fixtures/budget_models_*.csv).\n"
         "design,row,corner,log10_fit\n" + "".join(budget_row_lines()),
+        SHAPE_OUT: "# The delay sweep's ln coth shape: x where the local slope 2x/sinh(2x) is "
+        "a given share of tau, and the extra delay ln coth x there in units of tau, by mpmath "
+        "(scripts/gen_reference.py).\n"
+        "slope_share,x,ln_coth\n" + shape_line(),
         CORR_OUT: "# The 95th percentile of log10 of the worst-corner total of "
         "tests/fixtures/budget_corr_*.csv when ln tau and ln tw are correlated, by an mpmath "
         "quadrature and by a seeded Monte Carlo of 1e6 draws in plain floats, both by "

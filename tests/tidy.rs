@@ -46,6 +46,7 @@ fn coverage(name: &str) -> Vec<String> {
                 with_data("counts", "fit-counts.csv", "&fclk=1GHz&fdata=50MHz"),
                 with_data("counts", "fit-counts.csv", "&fclk=1GHz&fdata=50MHz&window=t0"),
                 with_data("delay", "fit-delay.csv", ""),
+                with_data("delay", "fit-delay.csv", "&method=log"),
                 with_data("comparator", "fit-comparator.csv", ""),
             ];
         }

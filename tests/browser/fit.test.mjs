@@ -33,7 +33,7 @@ test('the delay and comparator demos fit, and each result opens its calculator',
   let out = await outputs(page);
   assert.match(out.tau_s.text, /^16\.\d+ ps$/);
   assert.match(out.points_used.text, /^\d+ of 24$/);
-  assert.match(await page.textContent('#facts'), /Left out: line 5/);
+  assert.match(await page.textContent('#facts'), /Left out: line 6/);
   const href = await page.$eval('#links a', (a) => a.getAttribute('href'));
   assert.match(href, /^index\.html\?from=characterize&tau=1\.60\d+e-11&tw=2\.9\d+e-11&tr-max=\d\.\d+e-11$/);
   await page.click('button[data-demo="demo-comparator"]');

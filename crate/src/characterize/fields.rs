@@ -55,6 +55,15 @@ pub const TCQ: FieldSpec = FieldSpec {
     usual: (1e-13, 1e-8),
 };
 
+/// How a delay sweep is fitted.
+pub const METHOD: FieldSpec = FieldSpec {
+    name: "method",
+    dim: Dim::Choice,
+    help: "delay: coth (the whole sweep, tcq + tau ln coth(|offset - m| / (tw/2)), the \
+           default) or log (the log law over the regenerative region only)",
+    limits: (0.0, 0.0),
+    usual: (0.0, 0.0),
+};
 /// The name the fit takes as a budget corner.
 pub const CORNER: FieldSpec = FieldSpec {
     name: "corner",
@@ -67,4 +76,4 @@ pub const CORNER: FieldSpec = FieldSpec {
 };
 
 /// The input fields of the fit, in display order.
-pub const FIELDS: &[FieldSpec] = &[KIND, DATA, FCLK, FDATA, WINDOW, TCQ, CORNER];
+pub const FIELDS: &[FieldSpec] = &[KIND, DATA, FCLK, FDATA, WINDOW, TCQ, METHOD, CORNER];

@@ -7,7 +7,7 @@ use crate::table::{read, Column, Table};
 use crate::units::Dim;
 
 use super::counts::Counts;
-use super::fields::{DATA, FCLK, FDATA, KIND, TCQ, WINDOW};
+use super::fields::{DATA, FCLK, FDATA, KIND, METHOD, TCQ, WINDOW};
 
 /// The choices of the `kind` field.
 pub const KIND_CHOICES: &str = "counts, delay, comparator";
@@ -38,6 +38,9 @@ pub enum FitCase {
         lines: Vec<usize>,
         /// The nominal delay, when given.
         tcq: Option<Time>,
+        /// Whether to fit the log law over the regenerative region only (`method=log`)
+        /// instead of the whole sweep.
+        log_law: bool,
     },
     /// A comparator's decision-time sweep.
     Comparator {
@@ -167,6 +170,20 @@ impl FitCase {
             }
             Some("delay") => {
                 let tcq = r.optional(&TCQ, Time::positive);
+                let log_law = match r.text(&METHOD).map(str::to_ascii_lowercase).as_deref() {
+                    None | Some("coth") => false,
+                    Some("log") => true,
+                    Some(other) => {
+                        r.push(ParamError::new(
+                            METHOD.name,
+                            ParamErrorKind::UnknownChoice {
+                                text: other.to_string(),
+                                choices: "coth, log",
+                            },
+                        ));
+                        false
+                    }
+                };
                 let t = table(
                     &mut r,
                     &[
@@ -179,6 +196,7 @@ impl FitCase {
                     delay: t.column(1),
                     lines: t.lines,
                     tcq,
+                    log_law,
                 })
             }
             Some("comparator") => {

@@ -67,8 +67,17 @@ pub fn fit_named(case: FitCase, corner: Option<String>) -> Result<Fitted, ParamE
             .map(Fit::Counts)
             .map_err(|p| p.message()),
         FitCase::Delay {
-            offset, delay, tcq, ..
-        } => delay::fit(offset, delay, tcq.map(|t| t.get())).map(Fit::Delay),
+            offset,
+            delay,
+            tcq,
+            log_law,
+            ..
+        } => if *log_law {
+            delay::fit_log(offset, delay, tcq.map(|t| t.get()))
+        } else {
+            delay::fit_coth(offset, delay, tcq.map(|t| t.get()))
+        }
+        .map(Fit::Delay),
         FitCase::Comparator { vin, time, .. } => decision::fit(vin, time).map(Fit::Comparator),
     };
     match fit {

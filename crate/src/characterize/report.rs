@@ -65,6 +65,10 @@ pub struct DelayPoint {
     pub used: bool,
     /// Why, in words.
     pub reason: &'static str,
+    /// Its residual from the whole-sweep fit, s (delay minus the model; absent with the
+    /// log law).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub residual_s: Option<f64>,
 }
 
 /// Everything a fit yields.
@@ -104,6 +108,17 @@ pub struct FitReport {
     /// extrapolated. Give it to the synchronizer as `tr-max`, to a corner as `tr_max`.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub tr_max_s: Option<f64>,
+    /// How a delay sweep was fitted: `coth` (the whole sweep) or `log` (the log law over
+    /// the regenerative region).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub method: Option<&'static str>,
+    /// The whole-sweep fit's tail shape k (2: ln coth, an exponential return to tcq; near
+    /// 0: a power-law one).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub tail_shape: Option<f64>,
+    /// The log law: how far the local slope drifts across the points used, relative.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub slope_drift: Option<f64>,
     /// The fit as a corners CSV (a header and one row: corner, tau, tw or t0, tr_max), with
     /// a corner name given (counts and delay fits).
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -220,6 +235,9 @@ pub fn evaluate(f: &Fitted) -> FitReport {
         deviance_df: None,
         p_value: None,
         tr_max_s: None,
+        method: None,
+        tail_shape: None,
+        slope_drift: None,
         corner_csv: None,
         corner_name: f.corner.clone().unwrap_or_else(|| "lab".to_string()),
         sd_ln_tau: None,
@@ -344,6 +362,8 @@ pub fn evaluate(f: &Fitted) -> FitReport {
             r.tcq_s = Some(fit.tcq);
             r.tcq_source = Some(if fit.tcq_given {
                 "given"
+            } else if fit.residuals.is_some() {
+                "fitted with the whole sweep"
             } else {
                 "the delay far from the balance point"
             });
@@ -362,10 +382,30 @@ pub fn evaluate(f: &Fitted) -> FitReport {
                     offset_s: offset[i],
                     delay_s: delay[i],
                     used: fit.uses[i] == Use::Used,
-                    reason: fit.uses[i].reason(),
+                    reason: if fit.residuals.is_some() && fit.uses[i] == Use::Used {
+                        "used: the whole sweep is fitted"
+                    } else {
+                        fit.uses[i].reason()
+                    },
+                    residual_s: fit.residuals.as_ref().map(|r| r[i]),
                 })
                 .collect();
-            if !fit.tcq_given {
+            r.method = Some(if fit.residuals.is_some() {
+                "coth"
+            } else {
+                "log"
+            });
+            r.slope_drift = fit.slope_drift;
+            r.tail_shape = fit.tail_shape;
+            if let Some(d) = fit.slope_drift.filter(|d| *d > 0.05) {
+                r.warnings.push(format!(
+                    "The local slope drifts by {:.1} % across the points the log law used: \
+                     part of them lie in the transition to tcq, which flattens tau. The \
+                     whole-sweep fit (method=coth) follows the transition.",
+                    100.0 * d
+                ));
+            }
+            if !fit.tcq_given && fit.residuals.is_none() {
                 r.warnings.push(format!(
                     "tcq not given: taken as {}, the median delay of the points farthest from \
                      the balance point.",
@@ -509,6 +549,22 @@ impl FitReport {
         }
         if let Some(t) = self.tcq_s {
             v.push(Readout::new("tcq_s", "tcq used", s(t), Some(t)));
+        }
+        if let Some(k) = self.tail_shape {
+            v.push(Readout::new(
+                "tail_shape",
+                "tail shape k (2: ln coth)",
+                format_number(k),
+                Some(k),
+            ));
+        }
+        if let Some(d) = self.slope_drift {
+            v.push(Readout::new(
+                "slope_drift",
+                "local slope drift",
+                format!("{:.1} %", 100.0 * d),
+                Some(d),
+            ));
         }
         if let Some(n) = self.points_used {
             v.push(Readout::new(
@@ -706,14 +762,26 @@ impl FitReport {
             "counts" => "Poisson maximum likelihood; 95 % intervals from the profile \
                          likelihood; rows with no failures are used as they are."
                 .to_string(),
+            "delay" if self.method == Some("coth") => "Least squares of the whole sweep to \
+                tcq + tau ln coth(|offset - m| / (tw/2)), which reaches tcq far from the \
+                balance point and follows the log law near it (Levenberg-Marquardt); 95 % \
+                Student-t intervals from the curvature at the fit."
+                .to_string(),
             "delay" => "Least squares of the extra delay against ln |offset - balance offset| \
-                        over the regenerative region; 95 % Student-t intervals with the balance \
-                        offset held at its fit."
+                        over the regenerative region (method=log); 95 % Student-t intervals \
+                        with the balance offset held at its fit."
                 .to_string(),
             _ => "Least squares of the decision time against ln vin; 95 % Student-t intervals."
                 .to_string(),
         }];
         if self.kind == "delay" {
+            facts.push(
+                "Window convention: near the balance point the extra delay is tau ln(tw / (2 \
+                 |offset - m|)), so the offsets leaving more than tr of extra delay span tw \
+                 exp(-tr/tau) in all (the synchronizer's tw). A flow that writes tau ln(w / \
+                 |offset - m|) has w = tw/2: halve the tw here to compare."
+                    .to_string(),
+            );
             let left: Vec<String> = self
                 .points
                 .iter()
