@@ -600,3 +600,31 @@ fn the_coth_shape_matches_its_published_figures() {
     assert_rel("k = 2", tail_law(x_want, 2.0), extra_want, 1e-12);
     assert_rel("log law", tail_law(1e-6, 2.0), -(1e-6f64.ln()), 1e-5);
 }
+
+/// One point far out of a sweep is named by its line, and the whole-sweep fit reports the
+/// joint uncertainty of ln tau and ln tw from its curvature.
+#[test]
+fn an_outlier_in_a_sweep_is_named() {
+    let demo = file("fit-delay.csv");
+    let v = fit("delay", &demo, &[]).unwrap();
+    assert!(v["sd_ln_tau"].as_f64().unwrap() > 0.0);
+    let c = v["corr_ln_tau_ln_tw"].as_f64().unwrap();
+    assert!(c > -1.0 && c < 1.0, "{c}");
+    assert!(!v["warnings"].to_string().contains("far out of the fit"));
+    // The 15th data line (a far point) 30 ps late.
+    let mut lines: Vec<String> = demo.lines().map(str::to_string).collect();
+    let at = lines.iter().position(|l| l.starts_with("offset")).unwrap() + 15;
+    let cells: Vec<&str> = lines[at].split(',').collect();
+    let late = format!(
+        "{},{}ps",
+        cells[0],
+        cells[1].trim_end_matches("ps").parse::<f64>().unwrap() + 30.0
+    );
+    lines[at] = late;
+    let v = fit("delay", &(lines.join("\n") + "\n"), &[]).unwrap();
+    let w = v["warnings"].to_string();
+    assert!(
+        w.contains(&format!("line {} stands far out of the fit", at + 1)),
+        "{w}"
+    );
+}

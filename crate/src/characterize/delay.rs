@@ -63,6 +63,9 @@ pub struct DelayFit {
     pub residuals: Option<Vec<f64>>,
     /// The whole-sweep fit's tail shape k (2: ln coth; near 0: a power-law tail).
     pub tail_shape: Option<f64>,
+    /// The whole-sweep fit: sd of ln tau, sd of ln tw and their correlation, from the
+    /// curvature at the fit.
+    pub joint: Option<(f64, f64, f64)>,
     /// The log-law fit: how far the local slope drifts across the points it used (the
     /// slope of the nearer half against the farther half, relative).
     pub slope_drift: Option<f64>,
@@ -219,6 +222,7 @@ pub fn fit(offset: &[f64], delay: &[f64], tcq: Option<f64>) -> Result<DelayFit, 
         residuals: None,
         slope_drift: None,
         tail_shape: None,
+        joint: None,
     })
 }
 
@@ -442,6 +446,12 @@ pub fn fit_coth(offset: &[f64], delay: &[f64], tcq: Option<f64>) -> Result<Delay
         residuals: Some(residuals),
         slope_drift: None,
         tail_shape: Some(th[3].exp()),
+        // ln tw = ln 2 + ln ds; sd(ln tau) = sd(tau)/tau.
+        joint: Some((
+            se_tau / tau,
+            se_lnds,
+            s2 * inv[0][2] * unit / (se_tau * se_lnds),
+        )),
     })
 }
 

@@ -397,6 +397,37 @@ pub fn evaluate(f: &Fitted) -> FitReport {
             });
             r.slope_drift = fit.slope_drift;
             r.tail_shape = fit.tail_shape;
+            if let Some((st, sw, c)) = fit.joint {
+                (r.sd_ln_tau, r.sd_ln_tw, r.corr_ln_tau_ln_tw) = (Some(st), Some(sw), Some(c));
+            }
+            // Points whose residual stands far out of the rest (beyond 5 robust standard
+            // deviations, from the median absolute residual): said by line.
+            if let Some(res) = &fit.residuals {
+                let used: Vec<f64> = (0..res.len())
+                    .filter(|&i| fit.uses[i] == Use::Used)
+                    .map(|i| res[i].abs())
+                    .collect();
+                let mut sorted = used.clone();
+                sorted.sort_by(f64::total_cmp);
+                let mad = sorted.get(sorted.len() / 2).copied().unwrap_or(0.0);
+                let far: Vec<String> = (0..res.len())
+                    .filter(|&i| fit.uses[i] == Use::Used && res[i].abs() > 5.0 * 1.4826 * mad)
+                    .map(|i| format!("line {}", lines[i]))
+                    .collect();
+                if !far.is_empty() && mad > 0.0 {
+                    r.warnings.push(format!(
+                        "{} stand{} far out of the fit (residual beyond 5 robust standard \
+                         deviations): check {} before trusting tau and tw.",
+                        far.join(", "),
+                        if far.len() == 1 { "s" } else { "" },
+                        if far.len() == 1 {
+                            "that point"
+                        } else {
+                            "those points"
+                        }
+                    ));
+                }
+            }
             if let Some(d) = fit.slope_drift.filter(|d| *d > 0.05) {
                 r.warnings.push(format!(
                     "The local slope drifts by {:.1} % across the points the log law used: \
@@ -763,9 +794,10 @@ impl FitReport {
                          likelihood; rows with no failures are used as they are."
                 .to_string(),
             "delay" if self.method == Some("coth") => "Least squares of the whole sweep to \
-                tcq + tau ln coth(|offset - m| / (tw/2)), which reaches tcq far from the \
-                balance point and follows the log law near it (Levenberg-Marquardt); 95 % \
-                Student-t intervals from the curvature at the fit."
+                tcq + tau ln(1 + k / (exp(k |offset - m| / ds) - 1)), tw = 2 ds (k = 2: tau ln \
+                coth(|offset - m| / ds)), which follows the log law near the balance point \
+                and returns to tcq smoothly far from it (Levenberg-Marquardt); 95 % Student-t \
+                intervals from the curvature at the fit."
                 .to_string(),
             "delay" => "Least squares of the extra delay against ln |offset - balance offset| \
                         over the regenerative region (method=log); 95 % Student-t intervals \
