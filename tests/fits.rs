@@ -628,3 +628,16 @@ fn an_outlier_in_a_sweep_is_named() {
         "{w}"
     );
 }
+
+/// Counts that fall too little to tell from flat are refused with what they do say (tau
+/// bounded only from below), not turned into an estimate of nanoseconds.
+#[test]
+fn counts_that_barely_fall_are_refused_with_their_bound() {
+    let data = "tr,failures,duration\n100ps,50,1s\n200ps,49,1s\n300ps,48,1s\n400ps,47,1s\n";
+    let e = fit("counts", data, &[("fclk", "1GHz"), ("fdata", "50MHz")]).unwrap_err();
+    assert!(
+        e.contains("the counts do not fall significantly as tr grows")
+            && e.contains("(tau above 681.5 ps)"),
+        "{e}"
+    );
+}

@@ -72,6 +72,9 @@ pub enum CountsProblem {
     },
     /// The counts do not fall as the resolution time grows.
     NotFalling,
+    /// The counts fall too little to tell from flat: tau is unbounded above at 95 %, and
+    /// at least this, s.
+    NotSignificantlyFalling(Option<f64>),
     /// Every failure is at the shortest resolution time: tau is below what the rows resolve.
     AllAtShortest(f64),
 }
@@ -96,6 +99,12 @@ impl CountsProblem {
             CountsProblem::NotFalling => "the counts do not fall as tr grows: check that the \
                  columns hold what their names say"
                 .to_string(),
+            CountsProblem::NotSignificantlyFalling(lo) => format!(
+                "the counts do not fall significantly as tr grows: at 95 % the data bound tau \
+                 only from below{}, not from above, so no estimate of tau or the window is \
+                 given; count at longer tr, or for longer, until the counts fall",
+                lo.map_or(String::new(), |t| format!(" (tau above {})", format_si(t, "s")))
+            ),
             CountsProblem::AllAtShortest(t) => format!(
                 "every failure is at the shortest tr ({}): tau is too small for these \
                  resolution times to measure; add rows at shorter tr",
@@ -386,6 +395,10 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
     })
     .map(|x| (-x).exp());
     let b_hi = crossing_newton(b, 1e4 / span, 1.5 * se_b, drop_b);
+    // No lower end of b: tau unbounded above, the counts indistinguishable from flat.
+    if b_lo.is_none() {
+        return Err(CountsProblem::NotSignificantlyFalling(b_hi.map(|x| 1.0 / x)));
+    }
     // a's interval, along the trace: A rises with b, so its low end lies below b and
     // its high end above, each where the trace's profile has fallen by 1.92. The first
     // guess of the distance in b: a's standard error over A's slope there (the mean t).
