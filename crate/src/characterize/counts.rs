@@ -103,7 +103,10 @@ impl CountsProblem {
                 "the counts do not fall significantly as tr grows: at 95 % the data bound tau \
                  only from below{}, not from above, so no estimate of tau or the window is \
                  given; count at longer tr, or for longer, until the counts fall",
-                lo.map_or(String::new(), |t| format!(" (tau above {})", format_si(t, "s")))
+                lo.map_or(String::new(), |t| format!(
+                    " (tau above {})",
+                    format_si(t, "s")
+                ))
             ),
             CountsProblem::AllAtShortest(t) => format!(
                 "every failure is at the shortest tr ({}): tau is too small for these \
@@ -397,7 +400,9 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
     let b_hi = crossing_newton(b, 1e4 / span, 1.5 * se_b, drop_b);
     // No lower end of b: tau unbounded above, the counts indistinguishable from flat.
     if b_lo.is_none() {
-        return Err(CountsProblem::NotSignificantlyFalling(b_hi.map(|x| 1.0 / x)));
+        return Err(CountsProblem::NotSignificantlyFalling(
+            b_hi.map(|x| 1.0 / x),
+        ));
     }
     // a's interval, along the trace: A rises with b, so its low end lies below b and
     // its high end above, each where the trace's profile has fallen by 1.92. The first

@@ -64,6 +64,15 @@ pub const METHOD: FieldSpec = FieldSpec {
     limits: (0.0, 0.0),
     usual: (0.0, 0.0),
 };
+/// The resolution time the pessimistic link looks at.
+pub const WORST_AT: FieldSpec = FieldSpec {
+    name: "worst-at",
+    dim: Dim::Time,
+    help: "the resolution time at which the joint 95 % region's worst point is taken for \
+           the pessimistic link (default: the longest tr in the data; give the design's)",
+    limits: (1e-21, 1e6),
+    usual: (1e-12, 1e-5),
+};
 /// The name the fit takes as a budget corner.
 pub const CORNER: FieldSpec = FieldSpec {
     name: "corner",
@@ -76,4 +85,6 @@ pub const CORNER: FieldSpec = FieldSpec {
 };
 
 /// The input fields of the fit, in display order.
-pub const FIELDS: &[FieldSpec] = &[KIND, DATA, FCLK, FDATA, WINDOW, TCQ, METHOD, CORNER];
+pub const FIELDS: &[FieldSpec] = &[
+    KIND, DATA, FCLK, FDATA, WINDOW, TCQ, METHOD, WORST_AT, CORNER,
+];

@@ -81,7 +81,12 @@ pub fn fit_named(case: FitCase, corner: Option<String>) -> Result<Fitted, ParamE
         FitCase::Comparator { vin, time, .. } => decision::fit(vin, time).map(Fit::Comparator),
     };
     match fit {
-        Ok(fit) => Ok(Fitted { case, fit, corner }),
+        Ok(fit) => Ok(Fitted {
+            case,
+            fit,
+            corner,
+            worst_at: None,
+        }),
         Err(why) => Err(ParamError::new(
             fields::DATA.name,
             ParamErrorKind::Unfittable(why),
@@ -135,7 +140,21 @@ Example:
         let corner = read_corner(raw);
         let case = FitCase::from_inputs(raw);
         match (case, corner) {
-            (Ok(case), Ok(corner)) => fit_named(case, corner).map_err(|e| ParamErrors(vec![e])),
+            (Ok(case), Ok(corner)) => {
+                let worst_at = match raw.get_nonblank(fields::WORST_AT.name) {
+                    None => None,
+                    Some(t) => Some(
+                        fields::WORST_AT
+                            .parse(t)
+                            .and_then(|v| crate::quantity::Time::positive(fields::WORST_AT.name, v))
+                            .map_err(|e| ParamErrors(vec![e]))?
+                            .get(),
+                    ),
+                };
+                let mut f = fit_named(case, corner).map_err(|e| ParamErrors(vec![e]))?;
+                f.worst_at = worst_at;
+                Ok(f)
+            }
             (Err(mut e), Err(c)) => {
                 e.0.push(c);
                 Err(e)

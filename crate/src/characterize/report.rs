@@ -24,6 +24,8 @@ pub struct Fitted {
     pub fit: Fit,
     /// The name the fit takes as a budget corner, when given.
     pub corner: Option<String>,
+    /// The resolution time the pessimistic link looks at, when given, s.
+    pub worst_at: Option<f64>,
 }
 
 /// The fit of one experiment.
@@ -126,6 +128,9 @@ pub struct FitReport {
     /// The name the fit takes as a budget corner (`lab` unless given).
     #[serde(skip)]
     pub corner_name: String,
+    /// The resolution time of the joint region's worst point, when given (else tr_max).
+    #[serde(skip)]
+    pub worst_at: Option<f64>,
     /// Standard deviation of ln tau, from the observed information (counts).
     #[serde(skip_serializing_if = "Option::is_none")]
     pub sd_ln_tau: Option<f64>,
@@ -240,6 +245,7 @@ pub fn evaluate(f: &Fitted) -> FitReport {
         slope_drift: None,
         corner_csv: None,
         corner_name: f.corner.clone().unwrap_or_else(|| "lab".to_string()),
+        worst_at: f.worst_at,
         sd_ln_tau: None,
         sd_ln_tw: None,
         corr_ln_tau_ln_tw: None,
@@ -711,7 +717,7 @@ impl FitReport {
 
     /// With the joint uncertainty (counts): the point of the joint 95 % region of (ln w,
     /// 1/tau) that gives the highest failure rate at the longest resolution time in the
-    /// data: tau, the window and that tr.
+    /// data (or at `worst-at` when given): tau, the window and that tr.
     ///
     /// # Formula
     /// ln rate = a - b tr + const is linear in (a, b) = (ln w, 1/tau); over the Wald
@@ -724,7 +730,7 @@ impl FitReport {
             (None, Some(s)) => (s, self.corr_ln_tau_ln_t0?),
             _ => return None,
         };
-        let tr = self.tr_max_s?;
+        let tr = self.worst_at.or(self.tr_max_s)?;
         let b = 1.0 / self.tau_s;
         let a = self.tw_s.or(self.t0_s)?.ln();
         // Back to (a, b): sd(b) = b sd(ln tau), corr(a, b) = -corr(ln tau, ln w).
