@@ -103,7 +103,7 @@ impl Calculator for FitCalculator {
     const OPERANDS: &'static [&'static str] = &["kind", "data"];
     const HELP: &'static str = "\
 Usage: latchwise fit counts FILE --fclk F --fdata F [--window tw|t0] [--corner NAME]
-       latchwise fit delay FILE [--tcq T] [--corner NAME]
+       latchwise fit delay FILE [--tcq T] [--method coth|log] [--corner NAME]
        latchwise fit comparator FILE
        (FILE is a CSV with a header row; - reads standard input)
 
@@ -116,8 +116,12 @@ Experiments:
               --window t0 when tr counts from the clock edge. Durations take s, min,
               h or d.
   delay       columns offset, delay: a simulated sweep of data-to-clock offset against
-              clock-to-output delay; fits tau, tw and the balance offset over the
-              regenerative region and says which points it left out and why.
+              clock-to-output delay; fits the whole sweep to tcq + tau ln(1 + k /
+              (exp(k |offset - m| / ds) - 1)), tw = 2 ds (k = 2: ln coth), tcq too unless
+              --tcq is given; --method log fits the log law over the regenerative region
+              and reports the local slope's drift. Window convention: the extra delay
+              near the balance point is tau ln(tw / (2 |offset - m|)); a flow without the
+              2 has w = tw/2. --worst-at T sets the tr of the pessimistic link's point.
   comparator  columns vin, time: decision time against input; least squares of
               time = tau ln(v0/vin), v0 = vmin/gain, with Student-t intervals.
 

@@ -73,6 +73,10 @@ pub struct DelayPoint {
     pub residual_s: Option<f64>,
 }
 
+/// Fewer points than this in a delay fit are warned of (the whole-sweep fit has five
+/// parameters).
+const FEW_POINTS: usize = 10;
+
 /// Everything a fit yields.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct FitReport {
@@ -374,6 +378,14 @@ pub fn evaluate(f: &Fitted) -> FitReport {
                 "the delay far from the balance point"
             });
             r.points_used = Some(fit.uses.iter().filter(|u| **u == Use::Used).count());
+            // Five parameters on a handful of points: the intervals say little.
+            let used = r.points_used.unwrap_or(0);
+            if used < FEW_POINTS {
+                r.warnings.push(format!(
+                    "The fit rests on {used} points: one point more or less can move tau and \
+                     the window well beyond their intervals; sweep more offsets."
+                ));
+            }
             r.tr_max_s = delay
                 .iter()
                 .zip(&fit.uses)
