@@ -57,22 +57,10 @@ pub const BUDGET_FIT: FieldSpec = FieldSpec {
     limits: (1e-300, 1e300),
     usual: (1e-6, 1e4),
 };
-/// Devices in the field.
-pub const DEVICES: FieldSpec = FieldSpec {
-    name: "devices",
-    dim: Dim::Count,
-    help: "devices in the field, for fleet figures (optional)",
-    limits: (1.0, 1e12),
-    usual: (1.0, 1e11),
-};
+/// Devices in the field: the crossing's own fleet field.
+pub const DEVICES: FieldSpec = sync::DEVICES;
 /// Operating years per device.
-pub const SERVICE_YEARS: FieldSpec = FieldSpec {
-    name: "service-years",
-    dim: Dim::Ratio,
-    help: "operating years per device, for fleet figures (optional)",
-    limits: (1e-6, 1e4),
-    usual: (0.01, 100.0),
-};
+pub const SERVICE_YEARS: FieldSpec = sync::SERVICE_YEARS;
 /// Systematic uncertainty of tau.
 pub const TAU_SIGMA: FieldSpec = FieldSpec {
     name: "tau-sigma",
