@@ -641,3 +641,34 @@ fn counts_that_barely_fall_are_refused_with_their_bound() {
         "{e}"
     );
 }
+
+/// The delay plots draw the fit that was made: the residuals plotted are the whole-sweep
+/// fit's own, and the fitted curve passes through the used points within the noise.
+#[test]
+fn the_delay_plots_show_the_whole_sweep_fit() {
+    let raw = RawInputs::from_pairs([
+        ("kind", "delay".to_string()),
+        ("data", file("fit-delay.csv")),
+    ]);
+    let case = FitCalculator::read(&raw).unwrap();
+    let report = FitCalculator::evaluate(&case);
+    let json = serde_json::to_value(&report).unwrap();
+    let mut want: Vec<f64> = json["points"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .filter(|p| p["used"] == true)
+        .map(|p| p["residual_s"].as_f64().unwrap())
+        .collect();
+    let plots = FitCalculator::plots(&case, &report);
+    let res = plots.iter().find(|p| p.id == "plot-residuals").unwrap();
+    let mut got: Vec<f64> = res.curves[0].points.iter().map(|p| p.1).collect();
+    want.sort_by(f64::total_cmp);
+    got.sort_by(f64::total_cmp);
+    assert_eq!(got.len(), want.len());
+    for (g, w) in got.iter().zip(&want) {
+        assert!((g - w).abs() <= 1e-18, "{g:e} against {w:e}");
+    }
+    // Within a few noise widths (0.15 ps in the demo) everywhere.
+    assert!(got.iter().all(|r| r.abs() < 1e-12), "{got:?}");
+}

@@ -943,8 +943,13 @@ pub fn plots(f: &Fitted) -> Vec<Plot> {
             let (lo, hi) = used.iter().fold((f64::INFINITY, 0.0f64), |(a, b), p| {
                 (a.min(p.0), b.max(p.0))
             });
+            // The fitted extra delay at a distance: the whole-sweep model, or the log law.
+            let model = |x: f64| match fit.tail_shape {
+                Some(k) => fit.tau * super::delay::tail_law(x / (fit.tw / 2.0), k),
+                None => fit.line.intercept + fit.line.slope * x.ln(),
+            };
             let fitted = log_space(lo.max(f64::MIN_POSITIVE), hi.max(lo * 1.01), 60)
-                .map(|x| (x, fit.line.intercept + fit.line.slope * x.ln()))
+                .map(|x| (x, model(x)))
                 .collect();
             let mut p = Plot::new(
                 "plot-fit",
@@ -967,9 +972,7 @@ pub fn plots(f: &Fitted) -> Vec<Plot> {
             .linear_y("s");
             res.curves = vec![points(
                 "",
-                used.iter()
-                    .map(|&(x, y)| (x, y - fit.line.intercept - fit.line.slope * x.ln()))
-                    .collect(),
+                used.iter().map(|&(x, y)| (x, y - model(x))).collect(),
             )];
             vec![p, res]
         }
