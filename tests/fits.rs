@@ -276,6 +276,8 @@ fn the_whole_sweep_intervals_cover_the_truth() {
     let mut r = Random::new(7_2026);
     let (tau, tw, n) = (16e-12, 30e-12, 200);
     let (mut hit_tau, mut hit_tw) = (0, 0);
+    // The estimates' logs, and the sds and correlation each fit reports.
+    let (mut lt, mut lw, mut reported) = (Vec::new(), Vec::new(), (0.0, 0.0, 0.0));
     for _ in 0..n {
         let data = sweep(&mut r, tau, tw, ln_coth, 0.15e-12);
         let v = fit("delay", &data, &[]).unwrap();
@@ -285,9 +287,45 @@ fn the_whole_sweep_intervals_cover_the_truth() {
         };
         hit_tau += usize::from(within("tau_s", tau));
         hit_tw += usize::from(within("tw_s", tw));
+        lt.push(v["tau_s"].as_f64().unwrap().ln());
+        lw.push(v["tw_s"].as_f64().unwrap().ln());
+        reported.0 += v["sd_ln_tau"].as_f64().unwrap() / n as f64;
+        reported.1 += v["sd_ln_tw"].as_f64().unwrap() / n as f64;
+        reported.2 += v["corr_ln_tau_ln_tw"].as_f64().unwrap() / n as f64;
     }
     check_coverage("delay tau", hit_tau, n);
     check_coverage("delay tw", hit_tw, n);
+    // The joint uncertainty the fits report is the spread the estimates show across the
+    // sweeps: sds within 20 % and the correlation within 0.1 (200 samples: the sample
+    // sd's own error is 5 %, the correlation's about 0.05 near -0.9).
+    let mean = |v: &[f64]| v.iter().sum::<f64>() / v.len() as f64;
+    let (mt, mw) = (mean(&lt), mean(&lw));
+    let sd = |v: &[f64], m: f64| {
+        (v.iter().map(|x| (x - m).powi(2)).sum::<f64>() / (v.len() - 1) as f64).sqrt()
+    };
+    let (st, sw) = (sd(&lt, mt), sd(&lw, mw));
+    let cov = lt
+        .iter()
+        .zip(&lw)
+        .map(|(a, b)| (a - mt) * (b - mw))
+        .sum::<f64>()
+        / (n - 1) as f64;
+    let corr = cov / (st * sw);
+    assert!(
+        (st / reported.0 - 1.0).abs() < 0.2,
+        "sd ln tau {st} against {}",
+        reported.0
+    );
+    assert!(
+        (sw / reported.1 - 1.0).abs() < 0.2,
+        "sd ln tw {sw} against {}",
+        reported.1
+    );
+    assert!(
+        (corr - reported.2).abs() < 0.1,
+        "corr {corr} against {}",
+        reported.2
+    );
 }
 
 #[test]
