@@ -229,7 +229,7 @@ pub fn say(text: &str) {
 /// A value that cannot be serialised.
 pub fn say_json(value: &impl serde::Serialize) -> Result<(), serde_json::Error> {
     let out = std::io::BufWriter::with_capacity(1 << 16, std::io::stdout().lock());
-    let mut ser = serde_json::Serializer::with_formatter(out, Inert(PrettyFormatter::new()));
+    let mut ser = serde_json::Serializer::with_formatter(out, Inert(PrettyFormatter::new(), 0));
     match value.serialize(&mut ser) {
         Err(e) if e.is_io() => return Ok(()),
         r => r?,
@@ -239,8 +239,25 @@ pub fn say_json(value: &impl serde::Serialize) -> Result<(), serde_json::Error> 
     Ok(())
 }
 
-/// Pretty JSON whose strings carry no raw DEL or C1 control character.
-struct Inert(PrettyFormatter<'static>);
+/// Pretty JSON whose strings carry no raw DEL or C1 control character, and whose deeper
+/// values (each row of a report's arrays, with what it holds) are written on one line:
+/// 100,000 rows stay readable one per line at half the bytes.
+struct Inert(PrettyFormatter<'static>, usize);
+
+/// The nesting from which values are written compactly: inside the elements of the
+/// report's own arrays.
+const COMPACT_FROM: usize = 2;
+
+impl Inert {
+    /// Whether the value being opened at the current depth is written compactly.
+    fn opening_compact(&self) -> bool {
+        self.1 >= COMPACT_FROM
+    }
+    /// Whether the current container's separators are compact.
+    fn inside_compact(&self) -> bool {
+        self.1 > COMPACT_FROM
+    }
+}
 
 impl Formatter for Inert {
     fn write_string_fragment<W: ?Sized + Write>(
@@ -259,39 +276,89 @@ impl Formatter for Inert {
         w.write_all(rest.as_bytes())
     }
     fn begin_array<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
-        self.0.begin_array(w)
+        let r = if self.opening_compact() {
+            w.write_all(b"[")
+        } else {
+            self.0.begin_array(w)
+        };
+        self.1 += 1;
+        r
     }
     fn end_array<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
-        self.0.end_array(w)
+        self.1 -= 1;
+        if self.opening_compact() {
+            w.write_all(b"]")
+        } else {
+            self.0.end_array(w)
+        }
     }
     fn begin_array_value<W: ?Sized + Write>(
         &mut self,
         w: &mut W,
         first: bool,
     ) -> std::io::Result<()> {
-        self.0.begin_array_value(w, first)
+        if self.inside_compact() {
+            if first {
+                Ok(())
+            } else {
+                w.write_all(b",")
+            }
+        } else {
+            self.0.begin_array_value(w, first)
+        }
     }
     fn end_array_value<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
-        self.0.end_array_value(w)
+        if self.inside_compact() {
+            Ok(())
+        } else {
+            self.0.end_array_value(w)
+        }
     }
     fn begin_object<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
-        self.0.begin_object(w)
+        let r = if self.opening_compact() {
+            w.write_all(b"{")
+        } else {
+            self.0.begin_object(w)
+        };
+        self.1 += 1;
+        r
     }
     fn end_object<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
-        self.0.end_object(w)
+        self.1 -= 1;
+        if self.opening_compact() {
+            w.write_all(b"}")
+        } else {
+            self.0.end_object(w)
+        }
     }
     fn begin_object_key<W: ?Sized + Write>(
         &mut self,
         w: &mut W,
         first: bool,
     ) -> std::io::Result<()> {
-        self.0.begin_object_key(w, first)
+        if self.inside_compact() {
+            if first {
+                Ok(())
+            } else {
+                w.write_all(b",")
+            }
+        } else {
+            self.0.begin_object_key(w, first)
+        }
     }
     fn begin_object_value<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
-        self.0.begin_object_value(w)
+        if self.inside_compact() {
+            w.write_all(b":")
+        } else {
+            self.0.begin_object_value(w)
+        }
     }
     fn end_object_value<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
-        self.0.end_object_value(w)
+        if self.inside_compact() {
+            Ok(())
+        } else {
+            self.0.end_object_value(w)
+        }
     }
 }
 
