@@ -5,6 +5,7 @@ mod budget;
 mod budget_rows;
 mod cli;
 mod comparator;
+mod converter;
 mod fits;
 mod invariants;
 mod lab;

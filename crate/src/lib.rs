@@ -26,6 +26,7 @@ pub mod calculator;
 pub mod characterize;
 pub mod chart;
 pub mod comparator;
+pub mod converter;
 pub mod crossing;
 pub mod digest;
 pub mod error;
