@@ -62,6 +62,17 @@ fn bench(c: &mut Criterion) {
     let xs: Vec<f64> = (0..1000)
         .map(|i| 10f64.powf(1.0 + 0.199 * f64::from(i)))
         .collect();
+    // A 16-bit asynchronous SAR converter: 65,535 thresholds, each with its landings.
+    c.bench_function("converter/async_16_bits", |b| {
+        b.iter(|| {
+            black_box(latchwise::converter::model::async_timeouts(
+                16,
+                black_box(120.0),
+                65536.0,
+                latchwise::converter::model::Fill::Reset,
+            ))
+        })
+    });
     c.bench_function("normal/ln_q_1000_large_arguments", |b| {
         b.iter(|| black_box(&xs).iter().map(|&x| ln_q(x)).sum::<f64>())
     });
