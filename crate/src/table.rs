@@ -423,6 +423,12 @@ pub fn remember_rows(on: bool) {
     REMEMBER.with(|r| r.set(on));
 }
 
+/// Whether reads are remembered (see [`remember_rows`]): a page reading its tables again
+/// on every edit.
+pub fn remembering() -> bool {
+    REMEMBER.with(Cell::get)
+}
+
 /// Reads one data line: each wanted column's cell, or every problem of the line.
 fn parse_row(
     text: &str,

@@ -524,12 +524,19 @@ impl BudgetCase {
         let names = table.text(0);
         let (count, width, cap) = (table.optional(1), table.optional(2), table.optional(3));
         let (classes, domains, launches) = (table.text(4), table.text(5), table.text(6));
-        let own_texts: Vec<(&'static str, Vec<String>)> = ROW_FIELDS
+        // The synchronizer's columns the design has, borrowed (no copy of 10,000 cells).
+        let own_texts: Vec<(&'static str, &[String])> = ROW_FIELDS
             .iter()
             .enumerate()
-            .filter(|(k, _)| table.has(OWN_COLUMNS.len() + k))
-            .map(|(k, f)| (f.name, table.text(OWN_COLUMNS.len() + k)))
+            .filter_map(|(k, f)| {
+                table
+                    .texts
+                    .get(OWN_COLUMNS.len() + k)
+                    .and_then(|c| c.as_deref())
+                    .map(|c| (f.name, c))
+            })
             .collect();
+        let mut own: Vec<(&'static str, &str)> = Vec::with_capacity(own_texts.len());
         let at = |v: &Vec<Option<f64>>, i: usize| v.get(i).copied().flatten();
         fn word(v: &[String], i: usize) -> &str {
             v.get(i).map_or("", |s| s.trim())
@@ -545,7 +552,7 @@ impl BudgetCase {
         let mut row_warnings = Vec::with_capacity(n_rows);
         let mut kind_given = Vec::with_capacity(n_rows);
         let mut fixed: Vec<String> = Vec::new();
-        let mut reader = RowReader::default();
+        let mut reader = RowReader::new();
         // (corner, field) -> (the first row's line, rows) that need a value the corner lacks.
         let mut corner_needs: std::collections::BTreeMap<(usize, &'static str), (usize, usize)> =
             std::collections::BTreeMap::new();
@@ -567,15 +574,13 @@ impl BudgetCase {
                     ));
                 }
             }
-            let own: Vec<(&'static str, &str)> = own_texts
-                .iter()
-                .filter_map(|(k, v)| {
-                    v.get(i)
-                        .map(|t| t.trim())
-                        .filter(|t| !t.is_empty())
-                        .map(|t| (*k, t))
-                })
-                .collect();
+            own.clear();
+            own.extend(own_texts.iter().filter_map(|(k, v)| {
+                v.get(i)
+                    .map(|t| t.trim())
+                    .filter(|t| !t.is_empty())
+                    .map(|t| (*k, t))
+            }));
             let n = at(&count, i).unwrap_or(1.0);
             let wd = at(&width, i).unwrap_or(1.0);
             if wd.fract() != 0.0 {
@@ -645,7 +650,7 @@ impl BudgetCase {
                                 warnings.push(w.clone());
                             }
                         }
-                        row.push(Cell::of(Arc::clone(&case.sync), n));
+                        row.push(Cell::with_terms(Arc::clone(&case.sync), n, case.terms));
                     }
                     Err(errors) => {
                         for e in &errors.0 {
@@ -745,6 +750,7 @@ impl BudgetCase {
                     .any(|(k, t)| *k == sync::CROSSING.name && !t.eq_ignore_ascii_case("data")),
             );
         }
+        reader.finish();
         if !problems.is_empty() {
             r.push(ParamError::new(
                 DESIGN.name,

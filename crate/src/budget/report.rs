@@ -273,13 +273,8 @@ pub fn evaluate(c: &BudgetCase) -> BudgetReport {
     let mut not_applicable = Vec::new();
     let budget = c.budget_fit.map(f64::log10);
     let p95_of = |stages: &[u32]| {
-        c.sigmas.map(|(ts, ws)| {
-            let at = Rollup {
-                stages: stages.to_vec(),
-                ..r.clone()
-            };
-            at.percentiles_corr(ts, ws, c.corr, &[0.95])[0]
-        })
+        c.sigmas
+            .map(|(ts, ws)| r.percentiles_at(stages, ts, ws, c.corr, &[0.95])[0])
     };
     // The plan's stages, with their 95th percentile when there are sigmas (computed once).
     let planned: Option<Option<(Vec<u32>, Option<f64>)>> = budget.map(|b| {

@@ -31,18 +31,29 @@ pub struct Cell {
     pub log10_fit0: f64,
     /// The resolution exponent at its own stages, in decades, at unit tau scale.
     pub decades: f64,
+    /// The decades each further stage adds, where that is one number (see
+    /// [`Synchronizer::extra_stage_decades`]): the fix plan's deeper chains without the
+    /// logarithms again.
+    step: Option<f64>,
 }
 
 impl Cell {
     /// The cell of `count` instances of `sync`.
     pub fn of(sync: Arc<Synchronizer>, count: f64) -> Cell {
+        let terms = sync.log10_rate_terms(sync.stages());
+        Cell::with_terms(sync, count, terms)
+    }
+
+    /// As [`Cell::of`], with the rate law's terms at the case's own stages already known.
+    pub fn with_terms(sync: Arc<Synchronizer>, count: f64, (pre, decades): (f64, f64)) -> Cell {
         let log10_count = count.log10();
-        let (pre, decades) = sync.log10_rate_terms(sync.stages());
+        let step = sync.extra_stage_decades();
         Cell {
             sync,
             log10_count,
             log10_fit0: pre + log10_count + FIT_PER_RATE.log10(),
             decades,
+            step,
         }
     }
 
@@ -54,8 +65,12 @@ impl Cell {
     /// The two terms of log10 FIT with `stages` flip-flops: before resolution, and the
     /// resolution exponent in decades at unit tau scale (which a tau scale divides).
     pub fn terms(&self, stages: u32) -> (f64, f64) {
-        if stages == self.sync.stages() {
+        let own = self.sync.stages();
+        if stages == own {
             return (self.log10_fit0, self.decades);
+        }
+        if let (Some(step), true) = (self.step, stages > own) {
+            return (self.log10_fit0, self.decades + f64::from(stages - own) * step);
         }
         let (pre, decades) = self.sync.log10_rate_terms(stages);
         (pre + self.log10_count + FIT_PER_RATE.log10(), decades)
@@ -256,13 +271,18 @@ impl Rollup {
     /// scales: rows sharing resolution time and tau (the same clock, depth and corner,
     /// as most rows of a design do) add their FIT at zero resolution time once.
     pub fn terms(&self) -> Terms {
+        self.terms_at(&self.stages)
+    }
+
+    /// As [`Rollup::terms`], with the rows at `stages` (a fix plan's) instead of their own.
+    pub fn terms_at(&self, stages: &[u32]) -> Terms {
         Terms(
             (0..self.corners())
                 .map(|k| {
                     let mut t: Vec<(f64, f64)> = self
                         .cells
                         .iter()
-                        .zip(&self.stages)
+                        .zip(stages)
                         .map(|(c, s)| c[k].terms(*s))
                         .collect();
                     t.sort_unstable_by(|a, b| a.1.total_cmp(&b.1));
@@ -367,15 +387,27 @@ impl Rollup {
         rho: f64,
         ps: &[f64],
     ) -> Vec<f64> {
+        self.percentiles_at(&self.stages, tau_sigma, tw_sigma, rho, ps)
+    }
+
+    /// As [`Rollup::percentiles_corr`], with the rows at `stages` (a fix plan's).
+    pub fn percentiles_at(
+        &self,
+        stages: &[u32],
+        tau_sigma: f64,
+        tw_sigma: f64,
+        rho: f64,
+        ps: &[f64],
+    ) -> Vec<f64> {
         let z_of = |p: f64| bisect_last(-40.0, 40.0, 1e-13, 200, |z| (1.0 - ln_q(z).exp()) <= p);
+        let terms = self.terms_at(stages);
         if tau_sigma <= 0.0 {
-            let g = self.log10_worst_at(1.0) * LN_10;
+            let g = terms.log10_worst_at(1.0) * LN_10;
             return ps
                 .iter()
                 .map(|&p| (g + tw_sigma * z_of(p)) / LN_10)
                 .collect();
         }
-        let terms = self.terms();
         if tw_sigma <= 0.0 {
             return ps
                 .iter()

@@ -63,6 +63,9 @@ pub struct RowCase {
     /// the corner lent (which the corners table answers for), and the row's own inputs
     /// that this case does not use.
     pub warnings: Vec<String>,
+    /// The rate law's two terms at the case's own stages (see
+    /// [`Synchronizer::log10_rate_terms`]), once per distinct case.
+    pub terms: (f64, f64),
 }
 
 /// A number as text that reads back as the same number (Rust prints the shortest such).
@@ -125,14 +128,46 @@ pub fn inputs(own: &[(&'static str, &str)], lent: &Lent) -> Vec<(&'static str, S
 }
 
 /// Reads rows into synchronizer cases, once per distinct set of inputs (a design's rows
-/// mostly repeat a few clocks, rates and depths).
+/// mostly repeat a few clocks, rates and depths). When reads are remembered (a page reading
+/// its design again on every edit, see [`crate::table::remember_rows`]), the cases of the
+/// last read are kept for the next, so that an edit reads only the rows it changed.
 #[derive(Debug, Default)]
 pub struct RowReader {
-    seen: TextMap<Vec<u8>, Result<Arc<RowCase>, ParamErrors>>,
+    seen: Cases,
+    /// The last read's cases, when remembered: moved into `seen` as they are used again.
+    last: Cases,
     key: Vec<u8>,
 }
 
+type Cases = TextMap<Vec<u8>, Result<Arc<RowCase>, ParamErrors>>;
+
+thread_local! {
+    /// The cases of the last design read while reads are remembered.
+    static LAST: std::cell::RefCell<Cases> = std::cell::RefCell::new(Cases::default());
+}
+
 impl RowReader {
+    /// A reader that starts from the last read's cases when reads are remembered.
+    pub fn new() -> RowReader {
+        let last = if crate::table::remembering() {
+            LAST.with(|l| std::mem::take(&mut *l.borrow_mut()))
+        } else {
+            Cases::default()
+        };
+        RowReader {
+            last,
+            ..RowReader::default()
+        }
+    }
+
+    /// Done reading: when reads are remembered, this read's cases are kept for the next
+    /// (and the last read's unused ones dropped).
+    pub fn finish(self) {
+        if crate::table::remembering() {
+            LAST.with(|l| *l.borrow_mut() = self.seen);
+        }
+    }
+
     /// The case of one row at one corner, by the synchronizer's reader and model.
     ///
     /// # Errors
@@ -158,7 +193,10 @@ impl RowReader {
         if let Some(done) = self.seen.get(key.as_slice()) {
             return done.clone();
         }
-        let out = read_afresh(own, lent);
+        let out = match self.last.remove(key.as_slice()) {
+            Some(done) => done,
+            None => read_afresh(own, lent),
+        };
         self.seen.insert(self.key.clone(), out.clone());
         out
     }
@@ -188,9 +226,11 @@ fn read_afresh(own: &[(&'static str, &str)], lent: &Lent) -> Result<Arc<RowCase>
                     .map(|u| format!("{u} is not used by this row's case.")),
             )
             .collect();
+        let terms = case.sync.log10_rate_terms(case.sync.stages());
         Arc::new(RowCase {
             sync: Arc::new(case.sync),
             warnings,
+            terms,
         })
     })
 }

@@ -448,6 +448,16 @@ impl Synchronizer {
         )
     }
 
+    /// The resolution decades (at unit tau scale) that each stage beyond this chain's adds,
+    /// where that is one number: a chain timed by hops (no `tr`) outside the master-slave
+    /// bound, whose later hops all take the last tau. Deepening by `n` stages then lowers
+    /// log10 rate by `n` times this.
+    pub fn extra_stage_decades(&self) -> Option<f64> {
+        (self.tr.is_none() && !self.is_bound()).then(|| {
+            self.hop_time() / (self.latch.tau_of_hop(self.stages() as usize - 1) * LN_10)
+        })
+    }
+
     /// The rate law in two terms, for a chain of `stages` at the synchronizer's clock:
     /// log10 of the rate before resolution (`fdata fclk window K`) and the resolution
     /// exponent in decades at unit tau scale. With every tau times `s`, log10 rate is
