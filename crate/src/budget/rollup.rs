@@ -70,7 +70,10 @@ impl Cell {
             return (self.log10_fit0, self.decades);
         }
         if let (Some(step), true) = (self.step, stages > own) {
-            return (self.log10_fit0, self.decades + f64::from(stages - own) * step);
+            return (
+                self.log10_fit0,
+                self.decades + f64::from(stages - own) * step,
+            );
         }
         let (pre, decades) = self.sync.log10_rate_terms(stages);
         (pre + self.log10_count + FIT_PER_RATE.log10(), decades)

@@ -453,9 +453,8 @@ impl Synchronizer {
     /// bound, whose later hops all take the last tau. Deepening by `n` stages then lowers
     /// log10 rate by `n` times this.
     pub fn extra_stage_decades(&self) -> Option<f64> {
-        (self.tr.is_none() && !self.is_bound()).then(|| {
-            self.hop_time() / (self.latch.tau_of_hop(self.stages() as usize - 1) * LN_10)
-        })
+        (self.tr.is_none() && !self.is_bound())
+            .then(|| self.hop_time() / (self.latch.tau_of_hop(self.stages() as usize - 1) * LN_10))
     }
 
     /// The rate law in two terms, for a chain of `stages` at the synchronizer's clock:
