@@ -4,7 +4,7 @@
 use std::borrow::Cow;
 use std::io::Write;
 
-use serde_json::ser::{Formatter, PrettyFormatter};
+use serde_json::ser::{CompactFormatter, Formatter, PrettyFormatter};
 use std::process::ExitCode;
 
 use latchwise::calculator::{Calculator, Outcome, TextTable, Visit};
@@ -277,7 +277,7 @@ impl Formatter for Inert {
     }
     fn begin_array<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
         let r = if self.opening_compact() {
-            w.write_all(b"[")
+            CompactFormatter.begin_array(w)
         } else {
             self.0.begin_array(w)
         };
@@ -287,7 +287,7 @@ impl Formatter for Inert {
     fn end_array<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
         self.1 -= 1;
         if self.opening_compact() {
-            w.write_all(b"]")
+            CompactFormatter.end_array(w)
         } else {
             self.0.end_array(w)
         }
@@ -298,25 +298,21 @@ impl Formatter for Inert {
         first: bool,
     ) -> std::io::Result<()> {
         if self.inside_compact() {
-            if first {
-                Ok(())
-            } else {
-                w.write_all(b",")
-            }
+            CompactFormatter.begin_array_value(w, first)
         } else {
             self.0.begin_array_value(w, first)
         }
     }
     fn end_array_value<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
         if self.inside_compact() {
-            Ok(())
+            CompactFormatter.end_array_value(w)
         } else {
             self.0.end_array_value(w)
         }
     }
     fn begin_object<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
         let r = if self.opening_compact() {
-            w.write_all(b"{")
+            CompactFormatter.begin_object(w)
         } else {
             self.0.begin_object(w)
         };
@@ -326,7 +322,7 @@ impl Formatter for Inert {
     fn end_object<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
         self.1 -= 1;
         if self.opening_compact() {
-            w.write_all(b"}")
+            CompactFormatter.end_object(w)
         } else {
             self.0.end_object(w)
         }
@@ -337,25 +333,21 @@ impl Formatter for Inert {
         first: bool,
     ) -> std::io::Result<()> {
         if self.inside_compact() {
-            if first {
-                Ok(())
-            } else {
-                w.write_all(b",")
-            }
+            CompactFormatter.begin_object_key(w, first)
         } else {
             self.0.begin_object_key(w, first)
         }
     }
     fn begin_object_value<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
         if self.inside_compact() {
-            w.write_all(b":")
+            CompactFormatter.begin_object_value(w)
         } else {
             self.0.begin_object_value(w)
         }
     }
     fn end_object_value<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
         if self.inside_compact() {
-            Ok(())
+            CompactFormatter.end_object_value(w)
         } else {
             self.0.end_object_value(w)
         }

@@ -38,13 +38,8 @@ pub struct Cell {
 }
 
 impl Cell {
-    /// The cell of `count` instances of `sync`.
-    pub fn of(sync: Arc<Synchronizer>, count: f64) -> Cell {
-        let terms = sync.log10_rate_terms(sync.stages());
-        Cell::with_terms(sync, count, terms)
-    }
-
-    /// As [`Cell::of`], with the rate law's terms at the case's own stages already known.
+    /// The cell of `count` instances of `sync`, whose rate law's terms at its own stages
+    /// ([`Synchronizer::log10_rate_terms`]) are `(pre, decades)`.
     pub fn with_terms(sync: Arc<Synchronizer>, count: f64, (pre, decades): (f64, f64)) -> Cell {
         let log10_count = count.log10();
         let step = sync.extra_stage_decades();

@@ -376,7 +376,8 @@ pub fn fit_coth(offset: &[f64], delay: &[f64], tcq: Option<f64>) -> Result<Delay
                 next[u] += step[u];
             }
             let s = sse_of(&next);
-            if s.is_finite() && s <= sse && next[0] > 0.0 && next[3] < 6.0 {
+            // ln k within [-30, 6]: k = 0 would leave the tail law 0/0.
+            if s.is_finite() && s <= sse && next[0] > 0.0 && (-30.0..6.0).contains(&next[3]) {
                 let small = (0..p).all(|u| step[u].abs() <= 1e-9 * th[u].abs().max(1e-3));
                 let gain = sse - s;
                 th = next;
@@ -447,11 +448,14 @@ pub fn fit_coth(offset: &[f64], delay: &[f64], tcq: Option<f64>) -> Result<Delay
         slope_drift: None,
         tail_shape: Some(th[3].exp()),
         // ln tw = ln 2 + ln ds; sd(ln tau) = sd(tau)/tau.
-        joint: Some((
-            se_tau / tau,
-            se_lnds,
-            s2 * inv[0][2] * unit / (se_tau * se_lnds),
-        )),
+        // Undefined for a sweep the model fits exactly (no spread to correlate).
+        joint: (se_tau > 0.0 && se_lnds > 0.0).then(|| {
+            (
+                se_tau / tau,
+                se_lnds,
+                (s2 * inv[0][2] * unit / (se_tau * se_lnds)).clamp(-1.0, 1.0),
+            )
+        }),
     })
 }
 

@@ -145,16 +145,12 @@ Example:
         let case = FitCase::from_inputs(raw);
         match (case, corner) {
             (Ok(case), Ok(corner)) => {
-                let worst_at = match raw.get_nonblank(fields::WORST_AT.name) {
-                    None => None,
-                    Some(t) => Some(
-                        fields::WORST_AT
-                            .parse(t)
-                            .and_then(|v| crate::quantity::Time::positive(fields::WORST_AT.name, v))
-                            .map_err(|e| ParamErrors(vec![e]))?
-                            .get(),
-                    ),
-                };
+                let mut r = crate::params::FieldReader::new(raw);
+                let worst_at = r.optional(&fields::WORST_AT, crate::quantity::Time::positive);
+                if r.has_errors() {
+                    return Err(r.into_errors());
+                }
+                let worst_at = worst_at.map(crate::quantity::Time::get);
                 let mut f = fit_named(case, corner).map_err(|e| ParamErrors(vec![e]))?;
                 f.worst_at = worst_at;
                 Ok(f)
