@@ -30,6 +30,7 @@ pub mod converter;
 pub mod crossing;
 pub mod digest;
 pub mod error;
+pub mod latch;
 pub mod link;
 pub mod numeric;
 pub mod params;

@@ -1,40 +1,9 @@
 //! The comparator's input fields: one vocabulary for the URL, the CLI options and JSON.
 
+pub use crate::latch::{CL, G0, GAIN, GM, TAU, VMIN};
 use crate::params::FieldSpec;
 use crate::units::Dim;
 
-/// `tau`: regeneration time constant (or give cl, gm, g0).
-pub const TAU: FieldSpec = FieldSpec {
-    name: "tau",
-    dim: Dim::Time,
-    help: "regeneration time constant (or give cl, gm, g0)",
-    limits: (1e-21, 1e6),
-    usual: (3e-13, 1e-9),
-};
-/// `cl`: capacitance on each regenerating node.
-pub const CL: FieldSpec = FieldSpec {
-    name: "cl",
-    dim: Dim::Capacitance,
-    help: "capacitance on each regenerating node",
-    limits: (1e-24, 1.0),
-    usual: (1e-17, 1e-11),
-};
-/// `gm`: transconductance of the cross-coupled pair (gmn + gmp).
-pub const GM: FieldSpec = FieldSpec {
-    name: "gm",
-    dim: Dim::Conductance,
-    help: "transconductance of the cross-coupled pair (gmn + gmp)",
-    limits: (1e-18, 1e6),
-    usual: (1e-6, 1.0),
-};
-/// `g0`: total positive conductance on the node.
-pub const G0: FieldSpec = FieldSpec {
-    name: "g0",
-    dim: Dim::Conductance,
-    help: "total positive conductance on the node",
-    limits: (1e-18, 1e6),
-    usual: (1e-9, 1.0),
-};
 /// `treg`: regeneration time available.
 pub const TREG: FieldSpec = FieldSpec {
     name: "treg",
@@ -58,22 +27,6 @@ pub const STAGE_TIME: FieldSpec = FieldSpec {
     help: "resolution time each extra stage adds",
     limits: (1e-21, 1e6),
     usual: (1e-12, 1e-6),
-};
-/// `vmin`: output difference that counts as a decision.
-pub const VMIN: FieldSpec = FieldSpec {
-    name: "vmin",
-    dim: Dim::Voltage,
-    help: "output difference that counts as a decision",
-    limits: (1e-21, 1e6),
-    usual: (1e-4, 10.0),
-};
-/// `gain`: preamplifier gain before the latch (1 for a bare latch).
-pub const GAIN: FieldSpec = FieldSpec {
-    name: "gain",
-    dim: Dim::Ratio,
-    help: "preamplifier gain before the latch (1 for a bare latch)",
-    limits: (1e-6, 1e9),
-    usual: (0.5, 1e4),
 };
 /// `input`: input model: uniform, gaussian, nrz, pam4 or sine.
 pub const INPUT: FieldSpec = FieldSpec {

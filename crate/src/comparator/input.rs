@@ -2,16 +2,15 @@
 
 use crate::error::{ParamError, ParamErrorKind, ParamErrors};
 use crate::params::{positive_number, whole, FieldReader, RawInputs};
-use crate::quantity::{Capacitance, Conductance, Frequency, Ratio, Time, Voltage};
+use crate::quantity::{Frequency, Ratio, Time, Voltage};
 use crate::units::{format_number, format_si};
 
 use super::fields::{
-    AMP, CL, EXTRA_STAGES, FS, G0, GAIN, GM, INPUT, LSB, MEAN, SIGMA, STAGE_TIME, TARGET_BER, TAU,
-    TREG, VIN, VMIN,
+    AMP, EXTRA_STAGES, FS, GAIN, INPUT, LSB, MEAN, SIGMA, STAGE_TIME, TARGET_BER, TAU, TREG, VIN,
+    VMIN,
 };
-use super::model::{
-    tau_from_devices, CompParts, Comparator, InputModel, TauSource, SINE_MAX_THRESHOLDS,
-};
+use super::model::{CompParts, Comparator, InputModel, TauSource, SINE_MAX_THRESHOLDS};
+use crate::latch::read_tau;
 
 /// The choices of the `input` field.
 pub const INPUT_CHOICES: &str = "uniform, gaussian, nrz, pam4, sine";
@@ -42,40 +41,7 @@ impl CompCase {
     /// Every field error found, each naming its field.
     pub fn from_inputs(raw: &RawInputs) -> Result<CompCase, ParamErrors> {
         let mut r = FieldReader::new(raw);
-        let devices = [&CL, &GM, &G0].into_iter().any(|f| r.has(f));
-        let tau = if r.has(&TAU) && devices {
-            r.push(ParamError::new(
-                TAU.name,
-                ParamErrorKind::Conflict("cl, gm, g0"),
-            ));
-            None
-        } else if devices {
-            let cl = r.required(&CL, Capacitance::positive);
-            let gm = r.required(&GM, Conductance::positive);
-            let g0 = r.required(&G0, Conductance::non_negative);
-            match (cl, gm, g0) {
-                (Some(cl), Some(gm), Some(g0)) => {
-                    match tau_from_devices(cl.get(), gm.get(), g0.get()) {
-                        Ok(t) => Some((
-                            t,
-                            TauSource::Devices {
-                                cl: cl.get(),
-                                gm: gm.get(),
-                                g0: g0.get(),
-                            },
-                        )),
-                        Err(e) => {
-                            r.push(e);
-                            None
-                        }
-                    }
-                }
-                _ => None,
-            }
-        } else {
-            r.required(&TAU, Time::positive)
-                .map(|t| (t.get(), TauSource::Given))
-        };
+        let tau = read_tau(&mut r);
         let treg = r.required(&TREG, Time::non_negative);
         let extra = r
             .optional(&EXTRA_STAGES, |f, v| whole(f, v, 0, 1000, "0 to 1000"))
@@ -96,18 +62,6 @@ impl CompCase {
         let (Some((tau, tau_source)), Some(treg), Some(vmin), Some(input), Some(fs), false) =
             (tau, treg, vmin, input, fs, r.has_errors())
         else {
-            return Err(r.into_errors());
-        };
-        let usable = tau >= TAU.limits.0 && tau <= TAU.limits.1;
-        let (Ok(tau), true) = (Time::positive(TAU.name, tau), usable) else {
-            // cl / (gm - g0) overflowed or underflowed: say so on the inputs.
-            r.push(ParamError::new(
-                CL.name,
-                ParamErrorKind::OutOfRange {
-                    value: tau,
-                    range: "giving a tau from 1e-21 s to 1e6 s",
-                },
-            ));
             return Err(r.into_errors());
         };
         let one = Ratio::positive(GAIN.name, 1.0);

@@ -14,7 +14,8 @@ use crate::numeric::normal::{ln_prob_interval, ln_q, ln_sum_exp};
 use crate::numeric::solve::bisect_last;
 use crate::quantity::{Ratio, Time, Voltage};
 
-use super::fields::{EXTRA_STAGES, GM, STAGE_TIME};
+use super::fields::{EXTRA_STAGES, STAGE_TIME};
+pub use crate::latch::{tau_from_devices, TauSource};
 
 /// The most thresholds on each side of zero the sine model sums (a 16-bit converter).
 pub const SINE_MAX_THRESHOLDS: f64 = 32768.0;
@@ -85,23 +86,6 @@ impl InputModel {
     }
 }
 
-/// Where tau came from.
-#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
-#[serde(tag = "source", rename_all = "lowercase")]
-pub enum TauSource {
-    /// Given directly.
-    Given,
-    /// Computed as `cl / (gm - g0)`.
-    Devices {
-        /// Node capacitance, F.
-        cl: f64,
-        /// Transconductance, S.
-        gm: f64,
-        /// Node conductance, S.
-        g0: f64,
-    },
-}
-
 /// The parts of a comparator before validation (see [`Comparator::new`]).
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct CompParts {
@@ -136,34 +120,6 @@ pub struct Comparator {
     input: InputModel,
     /// Precomputed sum of the arcsine density over the thresholds (sine model only).
     sine_density_sum: f64,
-}
-
-/// Regeneration time constant of a cross-coupled latch.
-///
-/// # Formula
-/// `tau = C / (gm - G0)`
-///
-/// # Errors
-/// `NotRegenerative` (on field `gm`) when `gm <= g0`.
-///
-/// # Examples
-/// ```
-/// use latchwise::comparator::tau_from_devices;
-/// let tau = tau_from_devices(10e-15, 1e-3, 0.2e-3).unwrap();
-/// assert!((tau - 12.5e-12).abs() < 1e-24);
-/// assert!(tau_from_devices(10e-15, 1e-3, 1e-3).is_err());
-/// ```
-///
-/// # References
-/// Razavi, "Design of Analog CMOS Integrated Circuits", comparator chapter (recalled).
-pub fn tau_from_devices(cl: f64, gm: f64, g0: f64) -> Result<f64, ParamError> {
-    if gm <= g0 {
-        return Err(ParamError::new(
-            GM.name,
-            ParamErrorKind::NotRegenerative { gm, g0 },
-        ));
-    }
-    Ok(cl / (gm - g0))
 }
 
 /// Decision time for an input `vin`: `tau * ln(vmin / (gain * vin))`, at least 0.
