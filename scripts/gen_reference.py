@@ -582,8 +582,90 @@ FITS_HEADER = (
 )
 
 
+CONV_OUT = FIXTURES / "converter_reference.csv"
+# (bits, budget T_b in tau, V_x in LSB, fill): asynchronous SAR cases.
+CONV_CASES = [
+    (10, 70, 1024, "reset"), (10, 70, 1024, "midpoint"), (10, 60, 1024, "reset"),
+    (8, 50, 256, "reset"), (6, 30, 10, "midpoint"), (6, 30, 10, "reset"), (12, 90, 200, "reset"),
+]
+
+
+def sar_async(bits, tb, vx, fill):
+    """An asynchronous SAR conversion run step by step on the DAC's trial codes, for an
+    input just above and just below each threshold T (each half the time): the decisions
+    before the hard one take tau ln(V_x/|x - trial|) (none when the residue is above V_x),
+    the hard one ln(V_x/|u|) for an input T + u, the later ones their residues' times. The
+    conversion times out at the step where the budget runs out; ln P over |u| follows from
+    the uniform density 1/2^bits. Returns P_meta, shares by step and P(|e| = size)."""
+    n = 2 ** bits
+    tb, vx = mpf(tb), mpf(vx)
+    c0 = 2 * vx / n
+    t_of = lambda r: max(mpf(0), mp.log(vx / r))
+    by_step = [mpf(0)] * (bits + 1)
+    sizes = {}
+    for t in range(1, n):
+        for side in (1, -1):  # input just above (code T) or just below (code T - 1)
+            truth = t if side > 0 else t - 1
+            code, used, hard, later = 0, mpf(0), None, []
+            for m in range(1, bits + 1):
+                trial = code | (1 << (bits - m))
+                if hard is None and trial == t:
+                    hard = m
+                else:
+                    # An easy decision: its residue is the input's distance to the trial.
+                    e = t_of(mpf(abs(t - trial)))
+                    if hard is None:
+                        used += e
+                    else:
+                        later.append((m, e))
+                if truth >= trial:
+                    code = trial
+            assert code == truth
+            # Timeout at the hard step, or at a later step m when the time runs out there.
+            landings = [(hard, c0 * mp.exp(-(tb - used)))]
+            s_prev = mpf(0)
+            for m, e in later:
+                if e == 0:
+                    continue
+                s_now = s_prev + e
+                landings.append((m, c0 * (mp.exp(-(tb - used - s_now)) - mp.exp(-(tb - used - s_prev)))))
+                s_prev = s_now
+            for m, p in landings:
+                p = p / 2
+                by_step[m] += p
+                keep = bits - m + 1
+                high = (truth >> keep) << keep
+                out = high if fill == "reset" else high | (1 << (keep - 1))
+                e = abs(truth - out)
+                if e:
+                    sizes[e] = sizes.get(e, mpf(0)) + p
+    total = sum(by_step)
+    return total, [s / total for s in by_step[1:]], sizes
+
+
+def conv_lines():
+    for bits, tb, vx, fill in CONV_CASES:
+        total, shares, sizes = sar_async(bits, tb, vx, fill)
+        name = f"{bits};{tb};{vx};{fill}"
+        yield f"{name};p_meta;0;{mp.nstr(total, 20)}\n"
+        for i, sh in enumerate(shares):
+            yield f"{name};share;{i + 1};{mp.nstr(sh, 20)}\n"
+        for j in range(bits):
+            k = 2 ** j
+            p = sum((v for e, v in sizes.items() if e >= k), mpf(0))
+            yield f"{name};at_least;{k};{mp.nstr(p, 20)}\n"
+        e2 = sum((e * e * v for e, v in sizes.items()), mpf(0))
+        yield f"{name};mean_square;0;{mp.nstr(e2, 20)}\n"
+
+
 def main():
     tables = {
+        CONV_OUT: "# Asynchronous SAR conversions run step by step on the DAC's trial codes "
+        f"with mpmath {mp.dps} digits by scripts/gen_reference.py (domain notes section 11): "
+        "bits;T_b in tau;V_x in LSB;fill;quantity;k;value, where p_meta is the probability "
+        "per conversion of a late decision, share the share landing at step k (1 = MSB), "
+        "at_least P(|e| >= k LSB), mean_square E[e^2] in LSB^2.\n"
+        "bits;tb;vx;fill;quantity;k;value\n" + "".join(conv_lines()),
         BUDGET_OUT: "# The demo chip's total FIT at each corner (examples/budget-*.csv), computed "
         f"with mpmath {mp.dps} digits by scripts/gen_reference.py: rates of independent "
         "crossings add, a row counts its instances, FIT = rate * 3.6e12.\n"

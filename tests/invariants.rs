@@ -159,6 +159,22 @@ fn base(name: &str) -> Vec<(String, String)> {
             ("devices", "1e6".into()),
             ("service-years", "10".into()),
         ],
+        "converter" => vec![
+            ("bits", "10".into()),
+            ("timing", "async".into()),
+            ("tau", "10ps".into()),
+            ("vmin", "1".into()),
+            ("gain", "1".into()),
+            ("vfs", "1".into()),
+            ("fs", "100MHz".into()),
+            ("tconv", "1ns".into()),
+            ("tfix", "30ps".into()),
+            ("fill", "midpoint".into()),
+            ("sigma-n", "0.5mV".into()),
+            ("static", "341".into()),
+            ("margin-lsb", "2".into()),
+            ("target-ber", "1e-12".into()),
+        ],
         other => panic!("no base case for {other}"),
     };
     q.into_iter().map(|(k, v)| (k.to_string(), v)).collect()
@@ -179,7 +195,7 @@ proptest! {
     /// Form fields across their whole range, several at once, in every calculator.
     #[test]
     fn no_field_value_reaches_a_report_as_inf_nan_or_a_bare_null(
-        calc in 0usize..4,
+        calc in 0usize..ALL.len(),
         draws in proptest::collection::vec((0usize..64, 0.0..1.0f64, any::<u8>()), 1..5),
     ) {
         let about = &ALL[calc];

@@ -227,3 +227,66 @@ fn budget_demo_numbers_hold() {
     assert_eq!(v["worst_corner"], "low_v_cold");
     assert_eq!(v["fix"].as_array().unwrap().len(), 7);
 }
+
+#[test]
+fn converter_example_numbers_hold() {
+    let text = readme();
+    let prose = text.split_whitespace().collect::<Vec<_>>().join(" ");
+    let start = text
+        .find("target/release/latchwise converter --bits 12")
+        .expect("the README shows the converter example");
+    let end = start + text[start..].find("\n```").unwrap();
+    let args: Vec<String> = text[start..end]
+        .replace("\\\n", " ")
+        .split_whitespace()
+        .skip(1)
+        .map(str::to_string)
+        .collect();
+    // By hand (domain notes section 11): Vx = 0.2 / 4 = 50 mV, p = 2 Vx exp(-700/20) / 1 V;
+    // P_meta = 4095 p; under hard consumption |e| >= 64 = 2^6 takes steps 1..5 wholly and
+    // half of step 6: (31 + 16) p = 47 p. The target: 1 FIT at 50 MS/s per conversion.
+    let p = 2.0 * 0.05 * (-35f64).exp();
+    let meta = 4095.0 * p;
+    let big = 47.0 * p;
+    let target = 1.0 / (3.6e12 * 50e6);
+    let needed = 700e-12 + 20e-12 * (big / target).ln();
+    let hours = 1.0 / (meta * 50e6) / 3600.0;
+    for (quoted, value) in [
+        (
+            "gives 2.582e-13 late decisions per conversion",
+            format!("gives {meta:.3e} late decisions per conversion"),
+        ),
+        ("(one every 21.5 h)", format!("(one every {hours:.1} h)")),
+        (
+            "2.963e-15 errors of 64 LSB or more",
+            format!("{big:.3e} errors of 64 LSB or more"),
+        ),
+        (
+            "missed by 5.73 decades",
+            format!("missed by {:.2} decades", (big / target).log10()),
+        ),
+        (
+            "963.7 ps per bit needed",
+            format!("{:.1} ps per bit needed", needed * 1e12),
+        ),
+    ] {
+        assert!(prose.contains(quoted), "README no longer says '{quoted}'");
+        assert_eq!(value, quoted, "by hand against the README");
+    }
+    let out = Command::new(env!("CARGO_BIN_EXE_latchwise"))
+        .args(&args)
+        .arg("--json")
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(1), "the target is missed");
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let num = |k: &str| v[k].as_f64().unwrap_or(f64::NAN);
+    assert_rel("P_meta", 10f64.powf(num("log10_p_meta")), meta, F64_REL);
+    assert_rel(
+        "P(|e| >= 64)",
+        10f64.powf(num("log10_ber_meta")),
+        big,
+        F64_REL,
+    );
+    assert_rel("tbit needed", num("tbit_needed_s"), needed, F64_REL);
+}

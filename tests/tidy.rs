@@ -41,6 +41,11 @@ fn coverage(name: &str) -> Vec<String> {
             "tau=15ps&treg=40ps&vmin=0.4&gain=4&input=nrz&amp=40mV&sigma=4mV&fs=28GHz&target-ber=1e-12&vin=1uV",
             "cl=20f&gm=2m&g0=0.4m&treg=1ns&vmin=0.4&input=pam4&amp=150m&sigma=8m&fs=1G&target-ber=1e-15",
         ],
+        "converter" => &[
+            "bits=10&timing=async&tau=10ps&vmin=1&gain=1&vfs=1&fs=100MHz&tconv=1ns&tfix=30ps&fill=reset&sigma-n=0.5mV&static=512&margin-lsb=2&target-ber=1e-12",
+            "bits=10&timing=sync&tau=20ps&vmin=0.4&gain=4&vfs=1&fs=100MHz&tbit=400ps&consume=hard&target-fit=1",
+            "bits=8&timing=sync&cl=20f&gm=2m&g0=0.4m&vmin=0.4&vfs=0.8&fs=1G&tbit=150ps&consume=benign&margin-lsb=2&target-ber=1e-15&sigma-n=1mV",
+        ],
         "fit" => {
             return vec![
                 with_data("counts", "fit-counts.csv", "&fclk=1GHz&fdata=50MHz"),

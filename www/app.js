@@ -136,6 +136,40 @@
     });
   }
 
+  // The core's short table of results (the converter's errors by size), when the page
+  // has a place for one; empty while the inputs are not valid.
+  function resultsTable(table) {
+    var t = document.getElementById('results-table');
+    if (!t) return;
+    t.textContent = '';
+    show(t, !!table);
+    if (!table) return;
+    var cap = document.createElement('caption');
+    cap.textContent = table.title;
+    t.appendChild(cap);
+    var head = document.createElement('thead');
+    var tr = document.createElement('tr');
+    table.header.forEach(function (h) {
+      var th = document.createElement('th');
+      th.scope = 'col';
+      th.textContent = h;
+      tr.appendChild(th);
+    });
+    head.appendChild(tr);
+    t.appendChild(head);
+    var body = document.createElement('tbody');
+    table.rows.forEach(function (row) {
+      var r = document.createElement('tr');
+      row.forEach(function (cell) {
+        var td = document.createElement('td');
+        td.textContent = cell;
+        r.appendChild(td);
+      });
+      body.appendChild(r);
+    });
+    t.appendChild(body);
+  }
+
   // The label beside an output: the <dt> of its row or the label of its headline box.
   function labelOf(out) {
     var dd = out.closest('dd');
@@ -196,6 +230,7 @@
     });
     list('warnings', state.warnings);
     list('facts', state.facts);
+    resultsTable(state.ok ? state.table : null);
     var links = document.getElementById('links');
     if (links) {
       links.textContent = '';
@@ -227,9 +262,13 @@
       var p = new URLSearchParams();
       p.append('from', page);
       a.dataset.carry.split(' ').forEach(function (pair) {
+        // "from:to!" carries a blank too, clearing the field there: tau given one way
+        // (tau, or cl, gm and g0) replaces the other way.
         var ends = pair.split(':');
+        var always = ends[1].slice(-1) === '!';
+        var to = always ? ends[1].slice(0, -1) : ends[1];
         var el = form.elements.namedItem(ends[0]);
-        if (el && el.value.trim() !== '') p.append(ends[1], el.value);
+        if (el && (always || el.value.trim() !== '')) p.append(to, el.value);
       });
       a.href = a.getAttribute('href').split('?')[0] + '?' + p.toString();
     });

@@ -30,6 +30,9 @@ pub trait Calculator: 'static {
     const HELP: &'static str;
     /// Old parameter names still read from links and options, as `(old, new)`.
     const ALIASES: &'static [(&'static str, &'static str)] = &[];
+    /// Whether the page shows [`Calculator::text_table`] too (a short table of results,
+    /// such as the converter's errors by size), in its `table#results-table`.
+    const PAGE_TABLE: bool = false;
     /// Fields the command takes as positional operands, in order; a text field's operand
     /// names a file (`-` for standard input).
     const OPERANDS: &'static [&'static str] = &[];
@@ -88,7 +91,7 @@ pub trait Calculator: 'static {
 }
 
 /// A table of the command's text report (see [`Calculator::text_table`]).
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct TextTable {
     /// What the table holds.
     pub title: String,

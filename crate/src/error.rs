@@ -91,6 +91,22 @@ pub enum ParamErrorKind {
     Unfittable(String),
     /// A ratio that is not two positive whole numbers `P/Q`.
     BadRatio(String),
+    /// A value outside a range that depends on another field (a code beyond 2^B - 1).
+    OutOfRangeFor {
+        /// The value as understood, with its unit.
+        value: String,
+        /// The accepted range, e.g. "1 to 1023 (2^bits - 1)".
+        range: String,
+    },
+    /// A field that needs another field given as well.
+    NeedsAlso(&'static str),
+    /// A field that applies only when another field has a certain value.
+    OnlyWith {
+        /// The field it depends on.
+        other: &'static str,
+        /// The value of that field it needs.
+        value: &'static str,
+    },
     /// A choice field got a value it does not know.
     UnknownChoice {
         /// The text as typed.
@@ -302,6 +318,14 @@ impl fmt::Display for ParamError {
                 "'{}' is not a ratio of two positive whole numbers such as 4/5 \
                  (launch over sampling frequency)",
                 short(t)
+            ),
+            OutOfRangeFor { value, range } => {
+                write!(f, "{value} is out of range (allowed: {range})")
+            }
+            NeedsAlso(other) => write!(f, "needs {other} as well"),
+            OnlyWith { other, value } => write!(
+                f,
+                "applies only with {other} = {value}: clear it, or set {other} to {value}"
             ),
             UnknownChoice { text, choices } => {
                 write!(f, "'{}' is not one of: {choices}", short(text))

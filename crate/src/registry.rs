@@ -23,7 +23,8 @@ register!(
     crate::synchronizer::SyncCalculator,
     crate::comparator::ComparatorCalculator,
     crate::characterize::FitCalculator,
-    crate::budget::BudgetCalculator
+    crate::budget::BudgetCalculator,
+    crate::converter::ConverterCalculator
 );
 
 /// The calculator called `name`.

@@ -65,6 +65,8 @@ struct PageState {
     unused: Vec<&'static str>,
     caution: &'static str,
     figures: Vec<RowFigures>,
+    /// The calculator's short table of results, on pages that show one.
+    table: Option<crate::calculator::TextTable>,
 }
 
 /// The most unknown link parameters the page names; the rest are counted.
@@ -191,9 +193,13 @@ impl Visit for Page<'_> {
             unused: Vec::new(),
             caution: CAUTION,
             figures: Vec::new(),
+            table: None,
         };
         if let Ok((case, report)) = &e.result {
             state.figures = C::figures(case, report);
+            if C::PAGE_TABLE {
+                state.table = C::text_table(report, None);
+            }
         }
         if let Ok((_, o)) = result {
             state.readouts = o.readouts;

@@ -41,7 +41,8 @@ async function navigation(url, steps) {
 }
 
 try {
-// BENCH_ONLY=budget measures the budget page alone, BENCH_ONLY=fit the Characterise page.
+// BENCH_ONLY=budget measures the budget page alone, BENCH_ONLY=fit the Characterise page,
+// BENCH_ONLY=converter the SAR converter page.
 const only = process.env.BENCH_ONLY || '';
 for (const file of only !== '' ? [] : ['index.html', 'comparator.html']) {
   for (const [name, at] of [['file://', fileUrl], ['served', (f) => server.url + f]]) {
@@ -95,6 +96,37 @@ for (const file of only !== '' ? [] : ['index.html', 'comparator.html']) {
     `(${(100 * (median(work.numbers) + median(work.plots)) / (1000 / 60)).toFixed(0)} % of a 60 Hz frame)`]);
   rows.push([`${file}: 1,000 input events in a burst, to the last plots drawn`, `${burst.toFixed(0)} ms`]);
   await context.close();
+}
+// The SAR converter page: one change of tau at 10 and 16 bits, asynchronous (2^16
+// thresholds summed), numbers and plots, against the comparator page's change measured
+// in the same run as the baseline.
+if (only === '' || only === 'converter') {
+  const change = async (file, name, query) => {
+    const { context, page } = await open(browser, fileUrl(file) + (query ? '?' + query : ''));
+    const times = await page.evaluate((name) => {
+      const el = document.querySelector('[name="tau"]');
+      const form = document.getElementById('inputs');
+      const q = () => new URLSearchParams(new FormData(form)).toString();
+      const out = [];
+      for (let i = 0; i < 41; i++) {
+        el.value = (10 + (i % 7)) + 'ps';
+        const t0 = performance.now();
+        wasm_bindgen.page(name, q());
+        wasm_bindgen.draw(name, q(), window.devicePixelRatio || 1);
+        if (i > 0) out.push(performance.now() - t0);
+      }
+      return out;
+    }, name);
+    await context.close();
+    return median(times);
+  };
+  const base = await change('comparator.html', 'comparator', '');
+  for (const bits of [10, 16]) {
+    const q = `bits=${bits}&timing=async&tau=10ps&vmin=1&gain=1&vfs=1&fs=100MHz&tconv=1.2ns&tfix=30ps&fill=reset&target-ber=1e-12`;
+    const t = await change('converter.html', 'converter', q);
+    rows.push([`converter.html, ${bits}-bit asynchronous: one change, numbers and plots (medians of 40)`,
+      `${t.toFixed(1)} ms, ${(t / base).toFixed(1)}x the comparator page's change (${base.toFixed(2)} ms) in the same run`]);
+  }
 }
 // The design budget with designs of 1,000 and 10,000 rows (three clock domains, three
 // corners, the demo's budget and uncertainty): editing one cell of the table, the work of
