@@ -120,9 +120,58 @@ low_v_cold,24ps,30ps,40ps,70ps,21ps
 """
 
 
+# The supply demo (invented): a synchronizer flip-flop of a made-up low-power process,
+# its tau from the EKV interpolation of the drain current at the metastable point VDD/2
+# (tau = C / gm), characterised at three voltages at -40 and 125 degrees C; and the DVFS
+# table of the cluster it sits in.
+K_Q = 8.617333262e-5  # Boltzmann constant over the electron charge, V/K
+
+
+def ekv(vdd, temp_c):
+    t = temp_c + 273.15
+    ut = K_Q * t
+    n = 1.35
+    vt = 0.32 - 1.0e-3 * (temp_c + 40)  # the threshold falls about 1 mV/K
+    i_s = 2.0e-4 * (t / 300) ** -1.5 * (ut / (K_Q * 300)) ** 2  # mobility falls when hot
+    x = (vdd / 2 - vt) / (2 * n * ut)
+    soft = math.log1p(math.exp(x))
+    gm = i_s * soft / (1 + math.exp(-x)) / (n * ut)
+    tau = 1.776e-13 / gm
+    # A gate's delay for tsu and tcq: C VDD / I(VDD).
+    xd = (vdd - vt) / (2 * n * ut)
+    delay = 8.96e-13 * vdd / (i_s * math.log1p(math.exp(xd)) ** 2)
+    return tau, delay
+
+
+def sig3(v):
+    return float(f"{v:.3g}")
+
+
+def supply_char():
+    lines = ["# Demo (invented): a synchronizer flip-flop characterised at three supply voltages,",
+             "# at -40 and 125 degrees C (EKV drain-current model, scripts/gen_examples.py).",
+             "vdd,temp,tau,tw,tsu,tcq"]
+    for temp in (-40, 125):
+        for vdd in (0.6, 0.75, 0.9):
+            tau, d = ekv(vdd, temp)
+            lines.append(f"{vdd},{temp},{sig3(tau * 1e12)}ps,{sig3(1.6 * tau * 1e12)}ps,"
+                         f"{sig3(0.6 * d * 1e12)}ps,{sig3(d * 1e12)}ps")
+    return "\n".join(lines) + "\n"
+
+
+def supply_points():
+    return ("# Demo (invented): the DVFS table of the cluster the crossing samples into.\n"
+            "name,vdd,fclk,residency\n"
+            "turbo,0.95,1.4GHz,0.05\n"
+            "nominal,0.8,1GHz,0.6\n"
+            "eco,0.6,350MHz,0.3\n"
+            "standby,0.5,60MHz,0.05\n")
+
+
 def main():
     files = {"fit-counts.csv": counts(), "fit-delay.csv": delay(), "fit-comparator.csv": comparator(),
-             "budget-design.csv": budget_design(), "budget-corners.csv": budget_corners()}
+             "budget-design.csv": budget_design(), "budget-corners.csv": budget_corners(),
+             "supply-char.csv": supply_char(), "supply-points.csv": supply_points()}
     if "--check" in sys.argv:
         for name, text in files.items():
             if (OUT / name).read_text() != text:

@@ -658,8 +658,67 @@ def conv_lines():
         yield f"{name};mean_square;0;{mp.nstr(e2, 20)}\n"
 
 
+SUPPLY_OUT = FIXTURES / "supply_reference.csv"
+
+
+def ln_lin(known, v):
+    """ln tau linear in VDD between the two characterised points around v (domain notes
+    section 10, P1); the ends held."""
+    known = sorted(known)
+    for (v1, y1), (v2, y2) in zip(known, known[1:]):
+        if v1 <= v <= v2:
+            return mp.exp(mp.log(y1) + (mp.log(y2) - mp.log(y1)) * (v - v1) / (v2 - v1))
+    return known[0][1] if v < known[0][0] else known[-1][1]
+
+
+def supply_lines():
+    """The supply issue's checks, and the demo's every operating point and temperature:
+    tau by the rules, the window and times ln-linear, the synchronizer rate at 2 stages."""
+    m = lambda x: mpf(x)
+    out = []
+    a = [(m("0.9"), m("10.0e-12")), (m("0.7"), m("25.9e-12")), (m("0.55"), m("123e-12"))]
+    out.append(("interpolated", "0.8", ln_lin(a[:2], m("0.8"))))
+    out.append(("interpolated", "0.62", ln_lin(a[1:], m("0.62"))))
+    ss = m("79.8651e-3")
+    for v in ("0.5", "0.45", "0.4"):
+        out.append(("bounded", v, a[2][1] * mpf(10) ** ((a[2][0] - m(v)) / (2 * ss))))
+        # The straight-line (unsafe) extension of the last chord, for the test to refuse.
+        slope = (mp.log(a[2][1]) - mp.log(a[1][1])) / (a[2][0] - a[1][0])
+        out.append(("chord", v, mp.exp(mp.log(a[2][1]) + slope * (m(v) - a[2][0]))))
+    for s_ in ("79.8651e-3", "62.4536e-3", "106.652e-3"):
+        out.append(("ageing", s_, mpf(10) ** (m("30e-3") / m(s_))))
+    # The demo: examples/supply-*.csv with ss 62.5 mV, dvt 20 mV, fdata 20 MHz, 2 stages.
+    chars = csv_rows(EXAMPLES / "supply-char.csv")
+    points = csv_rows(EXAMPLES / "supply-points.csv")
+    ss, dvt, fdata = m("62.5e-3"), m("20e-3"), m("20e6")
+    age = mpf(10) ** (dvt / ss)
+    for p in points:
+        vdd, fclk = m(p["vdd"]), eng(p["fclk"])
+        for temp in ("-40", "125"):
+            rows = [r for r in chars if r["temp"] == temp]
+            col = lambda k: sorted((m(r["vdd"]), eng(r[k])) for r in rows)
+            taus = col("tau")
+            if vdd < taus[0][0]:
+                tau = taus[0][1] * mpf(10) ** ((taus[0][0] - vdd) / (2 * ss))
+            else:
+                tau = ln_lin(taus, vdd)
+            tau *= age
+            tw, tsu, tcq = (ln_lin(col(k), vdd) for k in ("tw", "tsu", "tcq"))
+            tr = 1 / fclk - tsu - tcq
+            log10_fit = mp.log10(fdata * fclk * tw * mp.exp(-tr / tau) * mpf("3.6e12"))
+            name = p["name"] + "_" + temp.replace("-", "m") + "C"
+            out.append(("demo_tau", name, tau))
+            out.append(("demo_log10_fit", name, log10_fit))
+    return "".join(f"{q};{a};{mp.nstr(v, 20)}\n" for q, a, v in out)
+
+
 def main():
     tables = {
+        SUPPLY_OUT: "# tau across supply (domain notes section 10) by mpmath, scripts/gen_reference.py: "
+        "the supply issue's checks (ln-linear interpolation, the subthreshold-swing bound and the "
+        "chord extension it must never return, the ageing factor), and the demo "
+        "(examples/supply-*.csv, ss 62.5 mV, dvt 20 mV, fdata 20 MHz, 2 stages) at every "
+        "point and temperature.\nquantity;at;value\n" + supply_lines(),
         CONV_OUT: "# Asynchronous SAR conversions run step by step on the DAC's trial codes "
         f"with mpmath {mp.dps} digits by scripts/gen_reference.py (domain notes section 11): "
         "bits;T_b in tau;V_x in LSB;fill;quantity;k;value, where p_meta is the probability "

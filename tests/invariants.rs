@@ -175,6 +175,15 @@ fn base(name: &str) -> Vec<(String, String)> {
             ("margin-lsb", "2".into()),
             ("target-ber", "1e-12".into()),
         ],
+        "supply" => vec![
+            ("char", example("supply-char.csv")),
+            ("points", example("supply-points.csv")),
+            ("ss", "62.5mV".into()),
+            ("dvt", "20mV".into()),
+            ("fdata", "20MHz".into()),
+            ("stages", "2".into()),
+            ("target-years", "1e4".into()),
+        ],
         other => panic!("no base case for {other}"),
     };
     q.into_iter().map(|(k, v)| (k.to_string(), v)).collect()

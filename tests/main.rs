@@ -15,5 +15,6 @@ mod properties;
 mod readme;
 mod reference;
 mod seeded;
+mod supply;
 mod tidy;
 mod tolerance;

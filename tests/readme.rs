@@ -290,3 +290,76 @@ fn converter_example_numbers_hold() {
     );
     assert_rel("tbit needed", num("tbit_needed_s"), needed, F64_REL);
 }
+
+#[test]
+fn supply_demo_numbers_hold() {
+    let text = readme();
+    let prose = text.split_whitespace().collect::<Vec<_>>().join(" ");
+    let start = text
+        .find("target/release/latchwise supply examples")
+        .expect("the README shows the supply demo");
+    let end = start + text[start..].find("\n```").unwrap();
+    let root = env!("CARGO_MANIFEST_DIR");
+    let args: Vec<String> = text[start..end]
+        .replace("\\\n", " ")
+        .split_whitespace()
+        .skip(1)
+        .map(|a| a.replace("examples/", &format!("{root}/examples/")))
+        .collect();
+    let out = Command::new(env!("CARGO_BIN_EXE_latchwise"))
+        .args(&args)
+        .arg("--json")
+        .output()
+        .unwrap();
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    let fmt = |k: &str| latchwise::units::format_log10(v[k].as_f64().unwrap(), 3);
+    let worst_at_125 = v["points"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|p| p["corner"] == "eco_125C")
+        .unwrap()["min_stages"]["stages"]
+        .clone();
+    // By hand: 10^(20 / 62.5) = 2.0893.
+    assert_rel(
+        "ageing",
+        v["ageing_factor"].as_f64().unwrap(),
+        10f64.powf(0.32),
+        F64_REL,
+    );
+    for (quoted, value) in [
+        (
+            "The worst point is `eco_m40C`",
+            format!(
+                "The worst point is `{}`",
+                v["worst_point"].as_str().unwrap()
+            ),
+        ),
+        (
+            "at 2.14e14 FIT",
+            format!("at {} FIT", fmt("log10_fit_worst")),
+        ),
+        (
+            "residency-weighted rate 6.66e13 FIT",
+            format!("residency-weighted rate {} FIT", fmt("log10_fit_weighted")),
+        ),
+        (
+            "multiplies tau by 2.089",
+            format!("multiplies tau by {:.3}", 10f64.powf(0.32)),
+        ),
+        (
+            "needs 6 flip-flops at every point",
+            format!("needs {} flip-flops at every point", v["stages_needed"]),
+        ),
+        (
+            "at 125 °C two suffice",
+            format!(
+                "at 125 °C {} suffice",
+                if worst_at_125 == 2 { "two" } else { "?" }
+            ),
+        ),
+    ] {
+        assert!(prose.contains(quoted), "README no longer says '{quoted}'");
+        assert_eq!(value, quoted, "the command against the README");
+    }
+}

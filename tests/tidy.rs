@@ -46,6 +46,22 @@ fn coverage(name: &str) -> Vec<String> {
             "bits=10&timing=sync&tau=20ps&vmin=0.4&gain=4&vfs=1&fs=100MHz&tbit=400ps&consume=hard&target-fit=1",
             "bits=8&timing=sync&cl=20f&gm=2m&g0=0.4m&vmin=0.4&vfs=0.8&fs=1G&tbit=150ps&consume=benign&margin-lsb=2&target-ber=1e-15&sigma-n=1mV",
         ],
+        "supply" => {
+            let char = std::fs::read_to_string(root().join("examples/supply-char.csv")).unwrap();
+            let enc = |t: &str| -> String {
+                t.bytes()
+                    .map(|b| match b {
+                        b'A'..=b'Z' | b'a'..=b'z' | b'0'..=b'9' | b'-' | b'.' | b'_' => (b as char).to_string(),
+                        _ => format!("%{b:02X}"),
+                    })
+                    .collect()
+            };
+            let points = std::fs::read_to_string(root().join("examples/supply-points.csv")).unwrap();
+            return vec![
+                format!("char={}&points={}&ss=62.5mV&dvt=20mV&fdata=20MHz&stages=2&target-years=1e4", enc(&char), enc(&points)),
+                format!("char={}&points={}&fdata=20MHz&stages=3", enc("vdd,tau,tw,tsu,tcq\n0.7,30ps,40ps,30ps,50ps\n0.9,12ps,20ps,20ps,35ps\n"), enc("name,vdd,fclk\nlow,0.7,400MHz\nhigh,0.9,1GHz\n")),
+            ];
+        }
         "fit" => {
             return vec![
                 with_data("counts", "fit-counts.csv", "&fclk=1GHz&fdata=50MHz"),

@@ -636,7 +636,7 @@
         // Every row at every corner, as the command's --results writes it.
         flushGrids();
         var rows = wasm_bindgen.results_csv(page, query());
-        if (rows) download(page + '-results.csv', new Blob([rows], { type: 'text/csv' }));
+        if (rows) download(page + '-' + (t.dataset.results || 'results') + '.csv', new Blob([rows], { type: 'text/csv' }));
         else note('There are no results to export until the inputs are valid.');
       } else if (t.dataset.png) {
         try { png(t.dataset.png); } catch (err) { fatal('Internal error while exporting: ' + err); }

@@ -69,6 +69,7 @@ pub fn parse(
     fields: &[FieldSpec],
     aliases: &[(&str, &str)],
     operands: &[&str],
+    results_option: &str,
 ) -> Result<Parsed, String> {
     let mut out = Parsed::default();
     let mut url: Option<RawInputs> = None;
@@ -123,10 +124,10 @@ pub fn parse(
                         None => return Err(format!("--{name} needs a value")),
                     },
                 };
-                if name == "results" {
+                if name == results_option {
                     // Where the output goes, not an input: not part of the stamp.
                     if out.results.replace(value).is_some() {
-                        return Err("--results given twice".into());
+                        return Err(format!("--{name} given twice"));
                     }
                 } else if name == "from-url" {
                     feed(&mut stamp, b"link", value.as_bytes());

@@ -55,7 +55,7 @@ pub fn help<C: Calculator>() -> String {
 /// Runs calculator `C`: options, help, notes, errors, output and exit status.
 pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
     let name = C::NAME;
-    let parsed = match parse(args, C::FIELDS, C::ALIASES, C::OPERANDS) {
+    let parsed = match parse(args, C::FIELDS, C::ALIASES, C::OPERANDS, C::RESULTS_OPTION) {
         Ok(p) => p,
         Err(msg) => {
             complain(&format!("latchwise {name}: {msg}"));
@@ -139,7 +139,8 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
     if let Some(path) = &parsed.results {
         let Some(csv) = C::results_csv(&case, &report) else {
             complain(&format!(
-                "latchwise {name}: --results: this command has no rows to write (the budget has)"
+                "latchwise {name}: --{}: this command has no rows to write (the budget has)",
+                C::RESULTS_OPTION
             ));
             return ExitCode::from(EXIT_BAD_INPUT);
         };

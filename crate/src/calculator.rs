@@ -33,6 +33,10 @@ pub trait Calculator: 'static {
     /// Whether the page shows [`Calculator::text_table`] too (a short table of results,
     /// such as the converter's errors by size), in its `table#results-table`.
     const PAGE_TABLE: bool = false;
+    /// The command's option that writes [`Calculator::results_csv`] to a file
+    /// (`--results FILE`; the supply calculator's rows are budget corners,
+    /// `--corners-out FILE`).
+    const RESULTS_OPTION: &'static str = "results";
     /// Fields the command takes as positional operands, in order; a text field's operand
     /// names a file (`-` for standard input).
     const OPERANDS: &'static [&'static str] = &[];

@@ -100,6 +100,8 @@ pub enum ParamErrorKind {
     },
     /// A field that needs another field given as well.
     NeedsAlso(&'static str),
+    /// A field left blank that the case needs, and why.
+    NeededFor(String),
     /// A field that applies only when another field has a certain value.
     OnlyWith {
         /// The field it depends on.
@@ -323,6 +325,7 @@ impl fmt::Display for ParamError {
                 write!(f, "{value} is out of range (allowed: {range})")
             }
             NeedsAlso(other) => write!(f, "needs {other} as well"),
+            NeededFor(why) => write!(f, "needed for {why}"),
             OnlyWith { other, value } => write!(
                 f,
                 "applies only with {other} = {value}: clear it, or set {other} to {value}"

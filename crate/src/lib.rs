@@ -38,6 +38,7 @@ pub mod quantity;
 pub mod readout;
 pub mod registry;
 pub mod reliability;
+pub mod supply;
 pub mod synchronizer;
 pub mod table;
 pub mod units;

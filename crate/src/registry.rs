@@ -24,7 +24,8 @@ register!(
     crate::comparator::ComparatorCalculator,
     crate::characterize::FitCalculator,
     crate::budget::BudgetCalculator,
-    crate::converter::ConverterCalculator
+    crate::converter::ConverterCalculator,
+    crate::supply::SupplyCalculator
 );
 
 /// The calculator called `name`.
