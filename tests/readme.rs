@@ -9,11 +9,12 @@ fn readme() -> String {
     std::fs::read_to_string(concat!(env!("CARGO_MANIFEST_DIR"), "/README.md")).unwrap()
 }
 
-/// The README's comparator demo command, as its arguments.
-fn demo_args(text: &str) -> Vec<String> {
+/// The arguments of the README command that starts with `opening` (after the program
+/// name), its lines joined.
+fn command_args(text: &str, opening: &str) -> Vec<String> {
     let start = text
-        .find("target/release/latchwise comparator --tau")
-        .expect("the README shows the comparator demo command");
+        .find(opening)
+        .unwrap_or_else(|| panic!("the README shows the command '{opening}'"));
     let end = start + text[start..].find("\n```").unwrap();
     text[start..end]
         .replace("\\\n", " ")
@@ -26,7 +27,7 @@ fn demo_args(text: &str) -> Vec<String> {
 #[test]
 fn comparator_demo_numbers_hold() {
     let text = readme();
-    let args = demo_args(&text);
+    let args = command_args(&text, "target/release/latchwise comparator --tau");
     // The prose as one line, so that a quote may wrap in the file.
     let prose = text.split_whitespace().collect::<Vec<_>>().join(" ");
     assert!(args.contains(&"--target-ber".to_string()), "{args:?}");
@@ -88,16 +89,7 @@ fn comparator_demo_numbers_hold() {
 fn related_clock_example_numbers_hold() {
     let text = readme();
     let prose = text.split_whitespace().collect::<Vec<_>>().join(" ");
-    let start = text
-        .find("target/release/latchwise sync --tau 50ps")
-        .expect("the README shows the related-clock example");
-    let end = start + text[start..].find("\n```").unwrap();
-    let args: Vec<String> = text[start..end]
-        .replace("\\\n", " ")
-        .split_whitespace()
-        .skip(1)
-        .map(str::to_string)
-        .collect();
+    let args = command_args(&text, "target/release/latchwise sync --tau 50ps");
     // By hand: tr = 2 ns - 25 ps - 40 ps = 1.935 ns; MTBF = exp(tr/tau) / (fdata fclk tw);
     // K at the worst phase = g / (sigma sqrt(2 pi)) with g = 1/(4 * 500 MHz) = 0.5 ns.
     let year = latchwise::reliability::YEAR_S;
@@ -232,16 +224,7 @@ fn budget_demo_numbers_hold() {
 fn converter_example_numbers_hold() {
     let text = readme();
     let prose = text.split_whitespace().collect::<Vec<_>>().join(" ");
-    let start = text
-        .find("target/release/latchwise converter --bits 12")
-        .expect("the README shows the converter example");
-    let end = start + text[start..].find("\n```").unwrap();
-    let args: Vec<String> = text[start..end]
-        .replace("\\\n", " ")
-        .split_whitespace()
-        .skip(1)
-        .map(str::to_string)
-        .collect();
+    let args = command_args(&text, "target/release/latchwise converter --bits 12");
     // By hand (domain notes section 11): Vx = 0.2 / 4 = 50 mV, p = 2 Vx exp(-700/20) / 1 V;
     // P_meta = 4095 p; under hard consumption |e| >= 64 = 2^6 takes steps 1..5 wholly and
     // half of step 6: (31 + 16) p = 47 p. The target: 1 FIT at 50 MS/s per conversion.
@@ -295,15 +278,9 @@ fn converter_example_numbers_hold() {
 fn supply_demo_numbers_hold() {
     let text = readme();
     let prose = text.split_whitespace().collect::<Vec<_>>().join(" ");
-    let start = text
-        .find("target/release/latchwise supply examples")
-        .expect("the README shows the supply demo");
-    let end = start + text[start..].find("\n```").unwrap();
     let root = env!("CARGO_MANIFEST_DIR");
-    let args: Vec<String> = text[start..end]
-        .replace("\\\n", " ")
-        .split_whitespace()
-        .skip(1)
+    let args: Vec<String> = command_args(&text, "target/release/latchwise supply examples")
+        .into_iter()
         .map(|a| a.replace("examples/", &format!("{root}/examples/")))
         .collect();
     let out = Command::new(env!("CARGO_BIN_EXE_latchwise"))
