@@ -295,7 +295,7 @@ fn supply_demo_numbers_hold() {
         .unwrap()
         .iter()
         .find(|p| p["corner"] == "eco_125C")
-        .unwrap()["min_stages"]["stages"]
+        .unwrap()["min_stages"]
         .clone();
     // By hand: 10^(20 / 62.5) = 2.0893.
     assert_rel(

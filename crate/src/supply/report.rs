@@ -52,8 +52,11 @@ pub struct PointResult {
     pub log10_mtbf_s: f64,
     /// log10 of the failure rate in FIT.
     pub log10_fit: f64,
-    /// The stages the target needs here (with a target).
-    #[serde(skip_serializing_if = "Option::is_none")]
+    /// The stages the target needs here (with a target; null: see `not_applicable`).
+    #[serde(
+        skip_serializing_if = "Option::is_none",
+        serialize_with = "stages_number"
+    )]
     pub min_stages: Option<StagesNeeded>,
 }
 
@@ -97,6 +100,15 @@ pub struct SupplyReport {
     pub warnings: Vec<String>,
     /// The standing caution.
     pub caution: &'static str,
+}
+
+/// A point's stages as JSON writes them: the count, or null when no depth meets the
+/// target.
+fn stages_number<S: serde::Serializer>(v: &Option<StagesNeeded>, s: S) -> Result<S::Ok, S::Error> {
+    match v {
+        Some(StagesNeeded::Stages(n)) => s.serialize_u64(*n),
+        _ => s.serialize_none(),
+    }
 }
 
 /// A corner name for a point at a temperature: `name`, or `name_m40C` at -40 °C.
@@ -195,6 +207,12 @@ pub fn evaluate(case: &SupplyCase) -> SupplyReport {
             }
         }
         if most.is_none() {
+            not_applicable.push((
+                "points",
+                "a point's min_stages is null where no depth up to the model's limit meets \
+                 the target"
+                    .to_string(),
+            ));
             not_applicable.push((
                 "stages_needed",
                 "at some point no depth up to the model's limit meets the target".to_string(),
