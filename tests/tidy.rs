@@ -319,6 +319,50 @@ fn every_page_is_a_calculator_and_the_parts_carry_the_navigation() {
     );
 }
 
+/// Each page's module is built with its calculator's cargo feature alone (scripts/build),
+/// so every calculator has a feature by its name, on by default and required by the
+/// command line, and its page names that calculator.
+#[test]
+fn every_calculator_is_a_cargo_feature_and_its_page_names_it() {
+    let cargo = read(&root().join("Cargo.toml"));
+    let line = |start: &str| -> String {
+        cargo
+            .lines()
+            .find(|l| l.starts_with(start))
+            .unwrap_or_else(|| panic!("Cargo.toml has no line starting {start}"))
+            .to_string()
+    };
+    let default = line("default = [");
+    let required = line("required-features = [");
+    for about in ALL {
+        let quoted = format!("\"{}\"", about.name);
+        assert!(
+            cargo.lines().any(|l| l == format!("{} = []", about.name)),
+            "feature {}",
+            about.name
+        );
+        assert!(
+            default.contains(&quoted),
+            "{} is not a default feature",
+            about.name
+        );
+        assert!(
+            required.contains(&quoted),
+            "the command line does not require {}",
+            about.name
+        );
+        let page = read(&root().join("www").join(about.page));
+        let h = header(&page);
+        let named = h.into_iter().find(|(k, _)| k == "page").unwrap().1;
+        assert_eq!(named, about.name, "{} names its calculator", about.page);
+    }
+    assert_eq!(
+        default.matches('"').count(),
+        2 * ALL.len(),
+        "a default feature with no calculator"
+    );
+}
+
 fn rust_files(dir: &Path, out: &mut Vec<PathBuf>) {
     for e in std::fs::read_dir(dir).unwrap().filter_map(|e| e.ok()) {
         let p = e.path();

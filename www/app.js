@@ -399,7 +399,7 @@
     if (big) {
       why.push('the case holds ' + (q.length / 1048576).toFixed(1) + ' MiB of text, more than the 4 MiB a link or this browser\'s storage carries (about 130,000 design rows)');
     } else {
-      if (!inLink) why.push('its link would be ' + c.length.toLocaleString('en') + ' characters, beyond what browsers keep (about 2 million)');
+      if (!inLink) why.push('its link would be ' + String(c.length).replace(/\B(?=(\d{3})+(?!\d))/g, ',') + ' characters, beyond what browsers keep (about 2 million)');
       if (!kept) why.push('this browser\'s storage did not take it (storage is off, or its quota is full)');
     }
     if (!kept) {
@@ -673,7 +673,7 @@
         if (here.length > LINK_MOST_CHARS) {
           // Beyond what a link can carry safely: the digest of the case identifies it, and
           // the CSV files are what to keep.
-          here = here.split('?')[0] + ' (the link would have ' + here.length.toLocaleString('en') +
+          here = here.split('?')[0] + ' (the link would have ' + String(here.length).replace(/\B(?=(\d{3})+(?!\d))/g, ',') +
             ' characters; SHA-256 of the case ' + wasm_bindgen.sha256_hex(query()) +
             '; keep the design and corners as CSV files: Save CSV)';
         }
@@ -813,10 +813,10 @@
       bytes = decodeCore();
       performance.mark('latchwise:decoded');
     } catch (e) {
-      fatal('The calculator core is missing from this copy of the site (latchwise-wasm.js).');
+      fatal('The calculator core is missing from this copy of the site (latchwise-' + document.body.dataset.page + '.js).');
       return;
     }
-    wasm_bindgen({ module_or_path: bytes }).then(function () {
+    var begin = function () {
       performance.mark('latchwise:instantiated');
       ready = true;
       var initial = q === '' ? query() : q;
@@ -829,20 +829,41 @@
       });
       var ok = compute(initial);
       document.body.dataset.firstResultMs = performance.now().toFixed(1);
+      // The numbers are painted first; the plots are drawn once that frame is on screen.
       requestAnimationFrame(function () {
-        try { draw(query()); } catch (e) { fatal('Internal error while drawing: ' + e); ok = false; }
-        if (fromStorage) {
-          if (ok) {
-            store(pendingKey, null);
-          } else {
-            store(asideKey, q);
-            store(storeKey, null);
-            store(pendingKey, null);
+        performance.mark('latchwise:frame');
+        setTimeout(function () {
+          performance.mark('latchwise:shown');
+          try { draw(query()); } catch (e) { fatal('Internal error while drawing: ' + e); ok = false; }
+          if (fromStorage) {
+            if (ok) {
+              store(pendingKey, null);
+            } else {
+              store(asideKey, q);
+              store(storeKey, null);
+              store(pendingKey, null);
+            }
           }
-        }
-        document.body.dataset.ready = 'yes';
+          document.body.dataset.ready = 'yes';
+        }, 0);
       });
-    }, function (e) {
+    };
+    // The module is compiled in place (its functions compile lazily, as they are first
+    // called), so that the first results are in before the first paint. A browser that
+    // refuses to compile on this thread gets the asynchronous way.
+    var started = false;
+    try {
+      wasm_bindgen.initSync({ module: bytes });
+      started = true;
+    } catch (e) {
+      started = false;
+    }
+    window.LATCHWISE_WASM = null;
+    if (started) {
+      begin();
+      return;
+    }
+    wasm_bindgen({ module_or_path: bytes }).then(begin, function (e) {
       fatal('The calculator core failed to start: ' + e);
     });
   }

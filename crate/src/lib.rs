@@ -21,11 +21,15 @@
 #![deny(missing_docs)]
 #![deny(clippy::print_stdout, clippy::print_stderr)]
 
+#[cfg(feature = "budget")]
 pub mod budget;
 pub mod calculator;
+#[cfg(feature = "fit")]
 pub mod characterize;
 pub mod chart;
+#[cfg(feature = "comparator")]
 pub mod comparator;
+#[cfg(feature = "converter")]
 pub mod converter;
 pub mod crossing;
 pub mod digest;
@@ -38,7 +42,9 @@ pub mod quantity;
 pub mod readout;
 pub mod registry;
 pub mod reliability;
+#[cfg(feature = "supply")]
 pub mod supply;
+#[cfg(feature = "sync")]
 pub mod synchronizer;
 pub mod table;
 pub mod units;

@@ -3,13 +3,14 @@
 use crate::calculator::{About, Calculator, Visit};
 
 macro_rules! register {
-    ($($calc:ty),+ $(,)?) => {
-        /// Every calculator, in navigation order.
-        pub const ALL: &[About] = &[$(About::of::<$calc>()),+];
+    ($($feature:literal => $calc:ty),+ $(,)?) => {
+        /// Every calculator built in (each is a cargo feature), in navigation order.
+        pub const ALL: &[About] = &[$(#[cfg(feature = $feature)] About::of::<$calc>()),+];
 
         /// Runs `work` with the calculator called `name`; `None` when there is none.
         pub fn dispatch<V: Visit>(name: &str, work: V) -> Option<V::Out> {
             $(
+                #[cfg(feature = $feature)]
                 if name == <$calc as Calculator>::NAME {
                     return Some(work.visit::<$calc>());
                 }
@@ -20,12 +21,12 @@ macro_rules! register {
 }
 
 register!(
-    crate::synchronizer::SyncCalculator,
-    crate::comparator::ComparatorCalculator,
-    crate::characterize::FitCalculator,
-    crate::budget::BudgetCalculator,
-    crate::converter::ConverterCalculator,
-    crate::supply::SupplyCalculator
+    "sync" => crate::synchronizer::SyncCalculator,
+    "comparator" => crate::comparator::ComparatorCalculator,
+    "fit" => crate::characterize::FitCalculator,
+    "budget" => crate::budget::BudgetCalculator,
+    "converter" => crate::converter::ConverterCalculator,
+    "supply" => crate::supply::SupplyCalculator
 );
 
 /// The calculator called `name`.

@@ -78,7 +78,9 @@ fn to_js<T: Serialize>(v: &T) -> Result<JsValue, JsError> {
 }
 
 fn unknown(name: &str) -> JsError {
-    JsError::new(&format!("no calculator is called '{name}'"))
+    JsError::new(&format!(
+        "no calculator is called '{name}' in this page's core"
+    ))
 }
 
 /// A query as calculator `C` reads and evaluates it.

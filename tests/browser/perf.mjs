@@ -6,6 +6,11 @@ import { launch, open, serve, fileUrl, dist, root } from './harness.mjs';
 
 const median = (xs) => { const s = [...xs].sort((a, b) => a - b); return s[Math.floor(s.length / 2)]; };
 const firstResult = (page) => page.$eval('body', (b) => Number(b.dataset.firstResultMs));
+// The first paint with content: on the pages, the paint that shows the first results.
+const firstPaint = async (page) => {
+  await page.waitForFunction(() => performance.getEntriesByName('first-contentful-paint').length > 0);
+  return page.evaluate(() => performance.getEntriesByName('first-contentful-paint')[0].startTime);
+};
 
 // The baseline, measured in the same run: a blank page whose only script records when it
 // runs, placed beside the pages so that it loads the same way (file:// or served).
@@ -21,44 +26,70 @@ const rows = [];
 const marks = (page) => page.evaluate(() => Object.fromEntries(
   performance.getEntriesByType('mark').map((e) => [e.name.replace('latchwise:', ''), e.startTime])));
 
-async function navigation(url, steps) {
-  const fresh = [];
+// One new tab per sample, page and blank baseline interleaved so that both see the same
+// machine state; then reloads of one tab each, interleaved the same way.
+async function navigation(url, blankUrl, steps) {
+  const fresh = [], freshBlank = [], again = [], againBlank = [];
   for (let i = 0; i < 15; i++) {
-    const { context, page } = await open(browser, url);
-    fresh.push(await firstResult(page));
-    if (steps) steps.push({ ...(await marks(page)), first: fresh[fresh.length - 1] });
-    await context.close();
+    for (const [u, out] of [[url, fresh], [blankUrl, freshBlank]]) {
+      const { context, page } = await open(browser, u);
+      out.push(await firstResult(page));
+      const paint = await firstPaint(page);
+      if (u === url) steps.push({ ...(await marks(page)), first: out[out.length - 1], paint });
+      else steps[steps.length - 1].blankPaint = paint;
+      await context.close();
+    }
   }
-  const { context, page } = await open(browser, url);
-  const again = [];
+  const tabs = [await open(browser, url), await open(browser, blankUrl)];
   for (let i = 0; i < 15; i++) {
-    await page.reload();
-    await page.waitForSelector('body[data-ready="yes"]');
-    again.push(await firstResult(page));
+    for (const [{ page }, out] of [[tabs[0], again], [tabs[1], againBlank]]) {
+      await page.reload();
+      await page.waitForSelector('body[data-ready="yes"]');
+      out.push(await firstResult(page));
+    }
   }
-  await context.close();
-  return [median(fresh), median(again)];
+  for (const t of tabs) await t.context.close();
+  return [median(fresh), median(again), median(freshBlank), median(againBlank)];
+}
+
+// What a page loads before its first result: its own HTML, the stylesheet and scripts it
+// names (its calculator's module among them), raw and gzipped.
+function pageBytes(file) {
+  const html = readFileSync(path.join(dist, file), 'utf8');
+  const names = [file, ...[...html.matchAll(/(?:src|href)="([\w.-]+\.(?:js|css))"/g)].map((m) => m[1])];
+  let raw = 0, gz = 0;
+  for (const n of names) {
+    const b = readFileSync(path.join(dist, n));
+    raw += b.length;
+    gz += gzipSync(b, { level: 9 }).length;
+  }
+  const page = (html.match(/data-page="(\w+)"/) || [])[1];
+  const wasm = readFileSync(path.join(root, `target/wasm-bindgen/${page}/latchwise_bg.wasm`));
+  return { raw, gz, wasm: wasm.length, wasmGz: gzipSync(wasm, { level: 9 }).length };
 }
 
 try {
-// BENCH_ONLY=budget measures the budget page alone, BENCH_ONLY=fit the Characterise page,
-// BENCH_ONLY=converter the SAR converter page.
+// BENCH_ONLY=first measures the first results alone, BENCH_ONLY=budget the budget page
+// alone, BENCH_ONLY=fit the Characterise page, BENCH_ONLY=converter the SAR converter page.
 const only = process.env.BENCH_ONLY || '';
-for (const file of only !== '' ? [] : ['index.html', 'comparator.html']) {
+const pages = readdirSync(dist).filter((f) => f.endsWith('.html') && f !== 'bench-blank.html').sort();
+for (const file of only === '' || only === 'first' ? pages : []) {
   for (const [name, at] of [['file://', fileUrl], ['served', (f) => server.url + f]]) {
-    // Interleave page and blank baseline so that both see the same machine state.
     const steps = [];
-    const [pf, pr] = await navigation(at(file), steps);
-    const [bf, br] = await navigation(at('bench-blank.html'));
-    rows.push([`${file}: first result after navigation, ${name}, new tab / reload (medians of 15)`,
-      `${pf.toFixed(0)} ms / ${pr.toFixed(0)} ms, blank page ${bf.toFixed(0)} ms / ${br.toFixed(0)} ms: ` +
-      `${(pf / bf).toFixed(1)}x / ${(pr / br).toFixed(1)}x, +${(pf - bf).toFixed(0)} ms / +${(pr - br).toFixed(0)} ms`]);
+    const [pf, pr, bf, br] = await navigation(at(file), at('bench-blank.html'), steps);
     const m = (k) => median(steps.map((x) => x[k]));
-    rows.push([`${file}: where a new tab's time goes, ${name} (medians)`,
-      `page script starts ${m('script').toFixed(0)} ms (blank page's script ${bf.toFixed(0)} ms), ` +
+    rows.push([`${file}: first result, ${name}, new tab / reload (medians of 15, blank page interleaved)`,
+      `${pf.toFixed(0)} ms / ${pr.toFixed(0)} ms, blank page ${bf.toFixed(0)} ms / ${br.toFixed(0)} ms: ` +
+      `**+${(pf - bf).toFixed(0)} ms** / +${(pr - br).toFixed(0)} ms; new tab: page script starts ${m('script').toFixed(0)} ms, ` +
       `core decoded +${(m('decoded') - m('script')).toFixed(1)} ms, compiled +${(m('instantiated') - m('decoded')).toFixed(0)} ms, ` +
-      `first result +${(m('first') - m('instantiated')).toFixed(0)} ms`]);
+      `first result +${(m('first') - m('instantiated')).toFixed(0)} ms; ` +
+      `first paint (with the results) ${m('paint').toFixed(0)} ms, blank page's ${m('blankPaint').toFixed(0)} ms: +${(m('paint') - m('blankPaint')).toFixed(0)} ms`]);
   }
+  const b = pageBytes(file);
+  rows.push([`${file}: what it loads, raw / gzipped (its wasm module alone)`,
+    `${(b.raw / 1024).toFixed(0)} KiB / ${(b.gz / 1024).toFixed(0)} KiB (${(b.wasm / 1024).toFixed(0)} KiB / ${(b.wasmGz / 1024).toFixed(0)} KiB)`]);
+}
+for (const file of only !== '' ? [] : ['index.html', 'comparator.html']) {
   const { context, page } = await open(browser, fileUrl(file));
   // The work of one change, timed call by call as the page makes them: the numbers
   // (core and readouts), then the plots in the next frame.
@@ -277,10 +308,7 @@ for (const f of readdirSync(dist)) {
   raw += statSync(p).size;
   gz += gzipSync(readFileSync(p), { level: 9 }).length;
 }
-const wasmFile = path.join(root, 'target/wasm-bindgen/latchwise_bg.wasm');
-const wasm = readFileSync(wasmFile);
-rows.push(['wasm module, raw / gzipped', `${(wasm.length / 1024).toFixed(0)} KiB / ${(gzipSync(wasm, { level: 9 }).length / 1024).toFixed(0)} KiB`]);
-rows.push(['whole dist/, raw / gzipped (wasm embedded as base64)', `${(raw / 1024).toFixed(0)} KiB / ${(gz / 1024).toFixed(0)} KiB`]);
+rows.push(['whole dist/, raw / gzipped (one wasm module per page, embedded as base64)', `${(raw / 1024).toFixed(0)} KiB / ${(gz / 1024).toFixed(0)} KiB`]);
 console.log('| page measurement | figure |\n|---|---|');
 for (const [k, v] of rows) console.log(`| ${k} | ${v} |`);
 await browser.close();

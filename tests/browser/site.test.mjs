@@ -54,3 +54,27 @@ test('every page prints on A4 and Letter with no input value, result or note cli
     }
   }
 });
+
+test('each page loads its own calculator alone, and its first paint already shows the results', async () => {
+  const names = { 'index.html': 'sync', 'comparator.html': 'comparator', 'characterize.html': 'fit', 'budget.html': 'budget', 'converter.html': 'converter', 'supply.html': 'supply' };
+  assert.deepEqual(Object.keys(names).sort(), [...pages].sort(), 'every page is named here');
+  for (const p of pages) {
+    const { context, page, problems } = await open(env.browser, fileUrl(p));
+    const scripts = await page.$$eval('script[src]', (s) => s.map((e) => e.getAttribute('src')));
+    assert.deepEqual(scripts.filter((s) => s.startsWith('latchwise-')), [`latchwise-${names[p]}.js`], p);
+    // The other calculators are not in this page's module: the core says it has none of them.
+    const others = await page.evaluate((own) => ['sync', 'comparator', 'fit', 'budget', 'converter', 'supply']
+      .filter((n) => n !== own)
+      .map((n) => { try { wasm_bindgen.page(n, ''); return `${n}: answered`; } catch (e) { return String(e); } }), names[p]);
+    assert.equal(others.length, 5);
+    for (const o of others) assert.match(o, /no calculator is called '\w+' in this page's core/, `${p}: ${o}`);
+    // The page's first paint waits for the first results (the scripts block rendering),
+    // so nobody sees placeholders where numbers belong.
+    await page.waitForFunction(() => performance.getEntriesByName('first-contentful-paint').length > 0);
+    const [first, paint] = await page.evaluate(() => [Number(document.body.dataset.firstResultMs),
+      performance.getEntriesByName('first-contentful-paint')[0].startTime]);
+    assert.ok(paint >= first, `${p}: first paint at ${paint} ms, first result at ${first} ms`);
+    assert.deepEqual(problems, []);
+    await context.close();
+  }
+});
