@@ -59,9 +59,7 @@ def main(src, out):
             f"{html.escape(m['nav'])}</a>"
             for m, _, other in pages
         )
-        # The table editor's script only on pages that have an editable table.
-        grid = '<script defer blocking="render" src="grid.js"></script>\n' if "data-grid" in body else ""
-        fill = {"title": html.escape(meta["title"]), "page": meta["page"], "nav": nav, "grid": grid}
+        fill = {"title": html.escape(meta["title"]), "page": meta["page"], "nav": nav}
         page = re.sub(r"\{\{(\w+)\}\}", lambda k: fill[k.group(1)], head)
         # {{example:NAME}} is the demo file examples/NAME, escaped for HTML.
         body = re.sub(
