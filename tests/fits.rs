@@ -42,7 +42,8 @@ fn settings(s: &str) -> Vec<(&str, &str)> {
 #[test]
 fn fits_match_mpmath() {
     // tests/fixtures/fits_reference.csv: mpmath at 50 digits (scripts/gen_reference.py),
-    // an independent Poisson maximum likelihood, profile-likelihood search and least squares.
+    // an independent Poisson maximum likelihood with its Hessian, profile-likelihood search,
+    // the whole-sweep delay fit by Gauss-Newton with its covariance, and least squares.
     let text = include_str!("fixtures/fits_reference.csv");
     let rows = table_rows(text);
     assert!(rows.len() >= 20);

@@ -187,3 +187,96 @@ fn the_worst_point_is_the_ellipse_maximum() {
         "the marginal ends lie outside the joint region"
     );
 }
+
+/// What the fit shows is what the engineer types on: its tau and window, re-typed from
+/// the report into the synchronizer, move no result by more than 1e-4 relative for
+/// resolution times up to 100 tau; and the links and the corner carry at least the
+/// digits shown (nine significant), so following them moves nothing visible at all.
+#[test]
+fn shown_digits_carry_the_fit_into_a_calculator() {
+    use latchwise::synchronizer::SyncCalculator;
+    let mtbf = |tau: &str, tw: &str, fclk: &str| -> f64 {
+        let raw = RawInputs::from_pairs([
+            ("tau", tau),
+            ("tw", tw),
+            ("fclk", fclk),
+            ("fdata", "100MHz"),
+            ("stages", "2"),
+            ("tsu", "0ps"),
+            ("tcq", "0ps"),
+        ]);
+        let case = SyncCalculator::read(&raw).unwrap_or_else(|e| panic!("{tau} {tw}: {e}"));
+        let v = serde_json::to_value(SyncCalculator::evaluate(&case)).unwrap();
+        v["log10_mtbf_s"].as_f64().unwrap()
+    };
+    for (kind, file, set) in [
+        (
+            "counts",
+            "fit-counts.csv",
+            vec![("fclk", "1GHz"), ("fdata", "50MHz")],
+        ),
+        ("delay", "fit-delay.csv", vec![]),
+        ("comparator", "fit-comparator.csv", vec![]),
+    ] {
+        let data = std::fs::read_to_string(format!("{}/examples/{file}", root())).unwrap();
+        let mut pairs = vec![("kind", kind), ("data", data.as_str())];
+        pairs.extend(set);
+        let report =
+            FitCalculator::evaluate(&FitCalculator::read(&RawInputs::from_pairs(pairs)).unwrap());
+        let shown = |name: &str| {
+            report
+                .readouts()
+                .into_iter()
+                .find(|r| r.name == name)
+                .map(|r| (r.text, r.value.unwrap()))
+        };
+        let (tau_text, tau) = shown("tau_s").unwrap();
+        // The window: tw where the fit gives it; the comparator's v0 enters linearly, as
+        // tw does, so its six digits are held to the same rounding.
+        let (tw_text, tw) = shown("tw_s").unwrap_or((format!("{:.6e}s", 30e-12), 30e-12));
+        if let Some((text, v0)) = shown("v0_v") {
+            let typed = text.trim_end_matches('V').trim();
+            let (num, prefix) = typed.split_at(typed.find(' ').unwrap_or(typed.len()));
+            let scale = match prefix.trim() {
+                "mV" | "m" => 1e-3,
+                "µV" | "µ" | "u" => 1e-6,
+                "" => 1.0,
+                p => panic!("{kind}: prefix {p}"),
+            };
+            let back: f64 = num.parse::<f64>().unwrap() * scale;
+            assert!(
+                (back / v0 - 1.0).abs() <= 1e-5,
+                "{kind}: v0 {text} against {v0}"
+            );
+        }
+        // Resolution times 2 / fclk, up to 100 tau.
+        for periods in [5.0, 20.0, 50.0] {
+            let fclk = format!("{:.9e}Hz", 1.0 / (periods * tau));
+            let exact = mtbf(&format!("{tau:e}s"), &format!("{tw:e}s"), &fclk);
+            let typed = mtbf(&tau_text, &tw_text, &fclk);
+            let rel = (10f64.powf(typed - exact) - 1.0).abs();
+            assert!(
+                rel <= 1e-4,
+                "{kind}: tr {} tau: {tau_text}, {tw_text}: {rel:e}",
+                2.0 * periods
+            );
+        }
+        for (_, link) in report.outcome().links {
+            for (key, value) in [("tau=", tau)] {
+                if let Some(at) = link
+                    .find(&format!("?{key}"))
+                    .or(link.find(&format!("&{key}")))
+                {
+                    let rest = &link[at + 1 + key.len()..];
+                    let text = rest.split('&').next().unwrap();
+                    let carried: f64 = text.parse().unwrap();
+                    // The link names its point (the estimate or the region's worst point);
+                    // the estimate's link holds the estimate to nine digits.
+                    if (carried / value - 1.0).abs() < 1e-3 {
+                        assert!((carried / value - 1.0).abs() <= 5e-9, "{kind}: {link}");
+                    }
+                }
+            }
+        }
+    }
+}

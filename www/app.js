@@ -730,37 +730,82 @@
 
   // Adds one corner (a header line and a row, CSV) to a corners table: columns the table
   // lacks are added (blank in its other rows), and a name already taken gets a number.
+  // Lines are split and joined by the core, as it reads tables (quotes, delimiters and
+  // comments), so a name with a comma or quote stays one cell.
   function addCorner(text, add) {
     var parts = add.split('\n');
-    var addCols = parts[0].split(',');
-    var addRow = parts[1].split(',');
-    var lines = text.replace(/\s+$/, '').split(/\r?\n/);
-    var h = lines.findIndex(function (l) { return l.trim() !== '' && l.charAt(0) !== '#'; });
-    if (h < 0) return { text: add + '\n', name: addRow[0] };
-    var delim = lines[h].indexOf('\t') >= 0 ? '\t' : lines[h].indexOf(';') >= 0 ? ';' : ',';
-    var cols = lines[h].split(delim).map(function (c) { return c.trim().toLowerCase(); });
-    var names = lines.slice(h + 1).filter(function (l) { return l.trim() !== '' && l.charAt(0) !== '#'; })
-      .map(function (l) { return l.split(delim)[0].trim(); });
+    var addCols = wasm_bindgen.table_split(parts[0], ',');
+    var addRow = wasm_bindgen.table_split(parts[1], ',');
+    var body = text.replace(/\s+$/, '');
+    var l = wasm_bindgen.table_layout(body);
+    if (l.header === null) {
+      return { text: wasm_bindgen.table_join(addCols, ',') + '\n' + wasm_bindgen.table_join(addRow, ',') + '\n', name: addRow[0] };
+    }
+    var delim = l.delimiter;
+    var lines = body.split('\n');
+    var cols = wasm_bindgen.table_split(lines[l.header], delim);
+    var low = cols.map(function (c) { return c.trim().toLowerCase(); });
+    var rows = l.rows.map(function (i) { return wasm_bindgen.table_split(lines[i], delim); });
+    var names = rows.map(function (r) { return (r[0] || '').trim(); });
+    var widened = false;
     addCols.forEach(function (c) {
-      if (cols.indexOf(c) >= 0) return;
+      if (low.indexOf(c) >= 0) return;
       cols.push(c);
-      for (var i = h; i < lines.length; i++) {
-        if (i === h) lines[i] += delim + c;
-        else if (lines[i].trim() !== '' && lines[i].charAt(0) !== '#') lines[i] += delim;
-      }
+      low.push(c);
+      widened = true;
+      rows.forEach(function (r) { while (r.length < cols.length) r.push(''); });
     });
+    // Lines are rewritten only when the table gains a column; otherwise left as typed.
+    if (widened) {
+      lines[l.header] = wasm_bindgen.table_join(cols, delim);
+      l.rows.forEach(function (i, k) { lines[i] = wasm_bindgen.table_join(rows[k], delim); });
+    }
     var name = addRow[0], n = 2;
     while (names.indexOf(name) >= 0) name = addRow[0] + n++;
-    var row = cols.map(function (c) {
+    var row = low.map(function (c) {
       var k = addCols.indexOf(c);
       return c === 'corner' ? name : k >= 0 ? addRow[k] : '';
     });
-    lines.push(row.join(delim));
+    lines.push(wasm_bindgen.table_join(row, delim));
     return { text: lines.join('\n') + '\n', name: name };
   }
 
+  // The core first (the carried corner below is split by it), then the case to show: a
+  // carry link's values over this page's last case, a link, the stored case or the demo.
   function start() {
     wire();
+    var bytes;
+    performance.mark('latchwise:script');
+    try {
+      bytes = decodeCore();
+      performance.mark('latchwise:decoded');
+    } catch (e) {
+      fatal('The calculator core is missing from this copy of the site (latchwise-' + document.body.dataset.page + '.js).');
+      return;
+    }
+    // The module is compiled in place (its functions compile lazily, as they are first
+    // called), so that the first results are in before the first paint. A browser that
+    // refuses to compile on this thread gets the asynchronous way.
+    var started = false;
+    try {
+      wasm_bindgen.initSync({ module: bytes });
+      started = true;
+    } catch (e) {
+      started = false;
+    }
+    window.LATCHWISE_WASM = null;
+    if (started) {
+      arrive();
+      return;
+    }
+    wasm_bindgen({ module_or_path: bytes }).then(arrive, function (e) {
+      fatal('The calculator core failed to start: ' + e);
+    });
+  }
+
+  function arrive() {
+    performance.mark('latchwise:instantiated');
+    ready = true;
     var q = location.search.replace(/^\?/, '');
     var fromStorage = false;
     var carried = new URLSearchParams(q);
@@ -807,64 +852,32 @@
     }
     if (q !== '') fill(q);
     if (fromStorage) store(pendingKey, q);
-    var bytes;
-    performance.mark('latchwise:script');
-    try {
-      bytes = decodeCore();
-      performance.mark('latchwise:decoded');
-    } catch (e) {
-      fatal('The calculator core is missing from this copy of the site (latchwise-' + document.body.dataset.page + '.js).');
-      return;
-    }
-    var begin = function () {
-      performance.mark('latchwise:instantiated');
-      ready = true;
-      var initial = q === '' ? query() : q;
-      if (q !== '') fill(q);
-      each('textarea[data-grid]', function (t) {
-        grids.push(new window.LatchwiseGrid(t, {
-          changed: function () { update(true); },
-          drop: readInto
-        }));
-      });
-      var ok = compute(initial);
-      document.body.dataset.firstResultMs = performance.now().toFixed(1);
-      // The numbers are painted first; the plots are drawn once that frame is on screen.
-      requestAnimationFrame(function () {
-        performance.mark('latchwise:frame');
-        setTimeout(function () {
-          performance.mark('latchwise:shown');
-          try { draw(query()); } catch (e) { fatal('Internal error while drawing: ' + e); ok = false; }
-          if (fromStorage) {
-            if (ok) {
-              store(pendingKey, null);
-            } else {
-              store(asideKey, q);
-              store(storeKey, null);
-              store(pendingKey, null);
-            }
+    var initial = q === '' ? query() : q;
+    each('textarea[data-grid]', function (t) {
+      grids.push(new window.LatchwiseGrid(t, {
+        changed: function () { update(true); },
+        drop: readInto
+      }));
+    });
+    var ok = compute(initial);
+    document.body.dataset.firstResultMs = performance.now().toFixed(1);
+    // The numbers are painted first; the plots are drawn once that frame is on screen.
+    requestAnimationFrame(function () {
+      performance.mark('latchwise:frame');
+      setTimeout(function () {
+        performance.mark('latchwise:shown');
+        try { draw(query()); } catch (e) { fatal('Internal error while drawing: ' + e); ok = false; }
+        if (fromStorage) {
+          if (ok) {
+            store(pendingKey, null);
+          } else {
+            store(asideKey, q);
+            store(storeKey, null);
+            store(pendingKey, null);
           }
-          document.body.dataset.ready = 'yes';
-        }, 0);
-      });
-    };
-    // The module is compiled in place (its functions compile lazily, as they are first
-    // called), so that the first results are in before the first paint. A browser that
-    // refuses to compile on this thread gets the asynchronous way.
-    var started = false;
-    try {
-      wasm_bindgen.initSync({ module: bytes });
-      started = true;
-    } catch (e) {
-      started = false;
-    }
-    window.LATCHWISE_WASM = null;
-    if (started) {
-      begin();
-      return;
-    }
-    wasm_bindgen({ module_or_path: bytes }).then(begin, function (e) {
-      fatal('The calculator core failed to start: ' + e);
+        }
+        document.body.dataset.ready = 'yes';
+      }, 0);
     });
   }
 

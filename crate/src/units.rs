@@ -95,6 +95,20 @@ const PREFIXES: [(i32, &str); 11] = [
 /// assert_eq!(format_si(0.0, "s"), "0 s");
 /// ```
 pub fn format_si(v: f64, unit: &str) -> String {
+    format_si_sig(v, unit, 4)
+}
+
+/// [`format_si`] with `sig` significant digits (at least 3): for values that are carried
+/// on by typing them, where four digits would move an exponential result too far.
+///
+/// # Examples
+/// ```
+/// use latchwise::units::format_si_sig;
+/// assert_eq!(format_si_sig(18.0431234e-12, "s", 7), "18.04312 ps");
+/// assert_eq!(format_si_sig(999.99996e-12, "s", 7), "1 ns");
+/// ```
+pub fn format_si_sig(v: f64, unit: &str, sig: usize) -> String {
+    let sig = sig.max(3);
     // Zero is written "0" whatever its sign bit: never "-0".
     if v == 0.0 {
         return join_unit("0", unit);
@@ -104,10 +118,10 @@ pub fn format_si(v: f64, unit: &str) -> String {
     }
     let e3 = ((v.abs().log10() + 1e-9).floor() as i32).div_euclid(3) * 3;
     let Some(&(pe, p)) = PREFIXES.iter().find(|(pe, _)| *pe == e3) else {
-        return join_unit(&format_sig(v, 4), unit);
+        return join_unit(&format_sig(v, sig), unit);
     };
     let scaled = v / 10f64.powi(pe);
-    let mut s = trim_zeros(&format!("{:.*}", decimals_for(scaled), scaled));
+    let mut s = trim_zeros(&format!("{:.*}", decimals_for(scaled) + sig - 4, scaled));
     // Rounding can carry to 1000 (999.99 ps -> "1000 ps"); step up a prefix then.
     if s.trim_start_matches('-') == "1000" {
         if let Some(&(_, p2)) = PREFIXES.iter().find(|(q, _)| *q == pe + 3) {

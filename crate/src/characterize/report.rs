@@ -8,12 +8,21 @@ use crate::chart::series::{lin_space, log_space, Curve, Plot, Spacing};
 use crate::params::serialize_pairs;
 use crate::readout::Readout;
 use crate::reliability::CAUTION;
-use crate::units::{format_number, format_si, format_sig};
+use crate::units::{format_number, format_si, format_si_sig, format_sig};
 
 use super::counts::{self, CountsFit};
 use super::decision::DecisionFit;
 use super::delay::{DelayFit, Use};
 use super::input::FitCase;
+
+/// Significant digits shown for the fitted tau, which is carried on by typing it: a
+/// result exponential in t/tau moves by (t/tau) times the rounding of tau, so seven
+/// digits (rounding at most 5e-7 relative) keep a re-typed tau within 1e-4 of the
+/// result up to t = 200 tau. Links carry nine digits.
+pub const CARRIED_DIGITS_TAU: usize = 7;
+/// Significant digits shown for the fitted window (tw, t0) and v0, which enter results
+/// linearly: six digits keep a re-typed value within 1e-5.
+pub const CARRIED_DIGITS_WINDOW: usize = 6;
 
 /// A case with its fit done.
 #[derive(Debug, Clone, PartialEq)]
@@ -496,7 +505,7 @@ impl FitReport {
         let mut v = vec![Readout::new(
             "tau_s",
             "tau",
-            s(self.tau_s),
+            format_si_sig(self.tau_s, "s", CARRIED_DIGITS_TAU),
             Some(self.tau_s),
         )];
         v.push(Readout::maybe(
@@ -538,7 +547,12 @@ impl FitReport {
             ),
         ] {
             if let Some(w) = value {
-                v.push(Readout::new(name, label, s(w), Some(w)));
+                v.push(Readout::new(
+                    name,
+                    label,
+                    format_si_sig(w, "s", CARRIED_DIGITS_WINDOW),
+                    Some(w),
+                ));
                 v.push(Readout::maybe(lo, lo_label, low.flatten(), s, na));
                 v.push(Readout::maybe(hi, hi_label, high.flatten(), s, na));
             }
@@ -625,7 +639,12 @@ impl FitReport {
         }
         if let Some(x) = self.v0_v {
             let volts = |x: f64| format_si(x, "V");
-            v.push(Readout::new("v0_v", "v0 = vmin / gain", volts(x), Some(x)));
+            v.push(Readout::new(
+                "v0_v",
+                "v0 = vmin / gain",
+                format_si_sig(x, "V", CARRIED_DIGITS_WINDOW),
+                Some(x),
+            ));
             v.push(Readout::maybe(
                 "v0_v_ci_low",
                 "v0, 95 % interval from",
@@ -655,7 +674,7 @@ impl FitReport {
     /// Links that open a calculator with the fitted values: the estimate, and the
     /// pessimistic end of each interval (the larger tau and window).
     fn links(&self) -> Vec<(String, String)> {
-        let e = |x: f64| format!("{x:.4e}");
+        let e = |x: f64| format!("{x:.8e}");
         let pessimistic_tau = self.tau_s_ci_high.unwrap_or(self.tau_s);
         match self.kind {
             "comparator" => {
@@ -763,7 +782,7 @@ impl FitReport {
     /// The fit as a corners CSV, a header and one row: the corner's name, tau, the window
     /// (tw or t0) and tr_max, ready to append to a corners file (counts and delay fits).
     pub fn corner_table(&self) -> Option<String> {
-        let e = |x: f64| format!("{x:.4e}");
+        let e = |x: f64| format!("{x:.8e}");
         let (key, w) = match (self.tw_s, self.t0_s) {
             (Some(w), _) => ("tw", w),
             (None, Some(w)) => ("t0", w),
@@ -777,9 +796,14 @@ impl FitReport {
         if let Some(t) = self.tr_max_s {
             cols.push(("tr_max", e(t)));
         }
-        let header: Vec<&str> = cols.iter().map(|c| c.0).collect();
+        let header: Vec<String> = cols.iter().map(|c| c.0.to_string()).collect();
         let row: Vec<String> = cols.iter().map(|c| c.1.clone()).collect();
-        Some(format!("{}\n{}", header.join(","), row.join(",")))
+        // Joined as the table reader reads them back: a name with a comma is quoted.
+        Some(format!(
+            "{}\n{}",
+            crate::table::join(&header, ','),
+            crate::table::join(&row, ',')
+        ))
     }
 
     /// The link that adds the fit to the design budget as a corner (named `lab` unless
@@ -787,7 +811,7 @@ impl FitReport {
     /// window and tr_max in the corner, and the uncertainty (sds and correlation of the
     /// logarithms) in the budget's fields, over the budget's last case.
     pub fn budget_corner(&self) -> Option<String> {
-        let e = |x: f64| format!("{x:.4e}");
+        let e = |x: f64| format!("{x:.8e}");
         let corner = self.corner_table()?;
         let mut q = format!(
             "budget.html?from=characterize&add-corner={}",
@@ -797,7 +821,7 @@ impl FitReport {
         let corr = self.corr_ln_tau_ln_tw.or(self.corr_ln_tau_ln_t0);
         if let (Some(st), Some(sw), Some(r)) = (self.sd_ln_tau, sd_w, corr) {
             q.push_str(&format!(
-                "&tau-sigma={}&tw-sigma={}&tau-tw-corr={r:.4}",
+                "&tau-sigma={}&tw-sigma={}&tau-tw-corr={r:.6}",
                 e(st),
                 e(sw)
             ));
