@@ -173,6 +173,30 @@ fn bench(c: &mut Criterion) {
             g.bench_function(format!("{label}/{n}"), |b| {
                 b.iter(|| latchwise::characterize::counts::fit(black_box(&d), fclk, fdata).unwrap())
             });
+            if n == 100_000 {
+                // The same rows as a CSV file's text, read and fitted as the command does.
+                let mut text = String::from("tr,failures,duration\n");
+                for i in 0..n {
+                    text.push_str(&format!(
+                        "{:.6e},{},{}\n",
+                        d.tr[i], d.failures[i], d.duration[i]
+                    ));
+                }
+                let raw = latchwise::params::RawInputs::from_pairs([
+                    ("kind", "counts"),
+                    ("data", text.as_str()),
+                    ("fclk", "1GHz"),
+                    ("fdata", "50MHz"),
+                ]);
+                g.bench_function(format!("{label}/{n}/read_and_fit"), |b| {
+                    b.iter(|| {
+                        <latchwise::characterize::FitCalculator as Calculator>::read(black_box(
+                            &raw,
+                        ))
+                        .unwrap()
+                    })
+                });
+            }
         }
     }
     g.finish();

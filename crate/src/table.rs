@@ -148,7 +148,11 @@ impl Table {
 
     /// The values of wanted column `i`, blanks left out (empty when the table has none).
     pub fn column(&self, i: usize) -> Vec<f64> {
-        self.optional(i).into_iter().flatten().collect()
+        self.numbers
+            .get(i)
+            .and_then(Option::as_ref)
+            .map(|c| c.iter().flatten().copied().collect())
+            .unwrap_or_default()
     }
 
     /// The cells of wanted column `i`, a blank as `None` (empty when the table has none).
@@ -343,9 +347,38 @@ pub fn split(line: &str, delim: char) -> Vec<String> {
 /// Splits one line into trimmed cells at `delim`, honouring double quotes ("" inside
 /// quotes is a quote). A line without quotes is cut into slices of itself, with no copy.
 fn cells(line: &str, delim: char) -> Vec<Cow<'_, str>> {
+    let mut out = Vec::new();
+    cells_into(line, delim, &mut out);
+    out
+}
+
+/// [`cells`] into `out` (cleared first), so that a reader of many rows reuses one vector.
+fn cells_into<'a>(line: &'a str, delim: char, out: &mut Vec<Cow<'a, str>>) {
+    out.clear();
     if !line.contains('"') {
-        return line.split(delim).map(|c| Cow::Borrowed(c.trim())).collect();
+        if delim.is_ascii() {
+            // One pass over the bytes: cells are short, where a search per cell costs
+            // more than the cell.
+            let (bytes, d) = (line.as_bytes(), delim as u8);
+            let mut start = 0;
+            for (i, &b) in bytes.iter().enumerate() {
+                if b == d {
+                    // Both ends are at an ASCII byte: char boundaries.
+                    out.push(Cow::Borrowed(line[start..i].trim()));
+                    start = i + 1;
+                }
+            }
+            out.push(Cow::Borrowed(line[start..].trim()));
+        } else {
+            out.extend(line.split(delim).map(|c| Cow::Borrowed(c.trim())));
+        }
+        return;
     }
+    out.extend(quoted_cells(line, delim));
+}
+
+/// The cells of a line with quotes in it.
+fn quoted_cells(line: &str, delim: char) -> Vec<Cow<'_, str>> {
     let mut out = Vec::new();
     let mut cur = String::new();
     let mut quoted = false;
@@ -430,14 +463,15 @@ pub fn remembering() -> bool {
 }
 
 /// Reads one data line: each wanted column's cell, or every problem of the line.
-fn parse_row(
-    text: &str,
+fn parse_row<'a>(
+    text: &'a str,
     delim: char,
     width: usize,
     at: &[Option<usize>],
     columns: &[Column],
+    row: &mut Vec<Cow<'a, str>>,
 ) -> Parsed {
-    let row = cells(text, delim);
+    cells_into(text, delim, row);
     if row.len() != width {
         return Err(vec![(
             None,
@@ -593,17 +627,22 @@ pub fn read_keeping(
             });
         }
     }
+    // Room for every line as a row, so that long tables are not copied as they grow.
+    let most_rows = text.bytes().filter(|&b| b == b'\n').count() + 1;
     let mut values: Vec<Option<Vec<Option<f64>>>> = at
         .iter()
         .zip(columns)
-        .map(|(a, c)| a.filter(|_| c.dim != Dim::Text).map(|_| Vec::new()))
+        .map(|(a, c)| {
+            a.filter(|_| c.dim != Dim::Text)
+                .map(|_| Vec::with_capacity(most_rows))
+        })
         .collect();
     let mut texts: Vec<Option<Vec<String>>> = at
         .iter()
         .zip(columns)
         .map(|(a, c)| a.filter(|_| c.dim == Dim::Text).map(|_| Vec::new()))
         .collect();
-    let mut rows = Vec::new();
+    let mut rows = Vec::with_capacity(most_rows);
     let mut kept: Vec<(String, Vec<String>)> = kept_at
         .iter()
         .map(|(n, _)| (n.clone(), Vec::new()))
@@ -627,6 +666,7 @@ pub fn read_keeping(
             (key, old, new)
         })
     });
+    let mut row_cells = Vec::with_capacity(names.len());
     for (line, text) in lines {
         let parsed = match remembered.as_mut() {
             Some((_, old, new)) => {
@@ -634,13 +674,20 @@ pub fn read_keeping(
                     Some(kept) => kept,
                     None => (
                         text.to_string(),
-                        parse_row(text, delim, names.len(), &at, columns),
+                        parse_row(text, delim, names.len(), &at, columns, &mut row_cells),
                     ),
                 };
                 let p: &Parsed = new.entry(key).or_insert(p);
                 Cow::Borrowed(p)
             }
-            None => Cow::Owned(parse_row(text, delim, names.len(), &at, columns)),
+            None => Cow::Owned(parse_row(
+                text,
+                delim,
+                names.len(),
+                &at,
+                columns,
+                &mut row_cells,
+            )),
         };
         match parsed.as_ref() {
             Err(problems) => {
