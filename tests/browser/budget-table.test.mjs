@@ -6,7 +6,7 @@ import assert from 'node:assert/strict';
 import path from 'node:path';
 import fs from 'node:fs';
 import os from 'node:os';
-import { setup, open, fileUrl, outputs, root, cli, fill, settle } from './harness.mjs';
+import { setup, open, fileUrl, outputs, root, cli, fill, settle, dropFile } from './harness.mjs';
 
 const env = setup({ before, after });
 const corners = path.join(root, 'examples/budget-corners.csv');
@@ -253,13 +253,7 @@ test('a CSV file dropped on a table fills it', async () => {
   const { context, page, problems } = await open(env.browser, fileUrl('budget.html'));
   const design = 'name,fclk,fdata,stages,count\nsensor_sync,500MHz,50MHz,2,1\n"cfg, shadow",200MHz,100kHz,3,32\n';
   const corners = 'corner;tau;tw;tsu;tcq\ntt;20ps;30ps;30ps;50ps\nss;35ps;45ps;45ps;80ps\n';
-  for (const [id, text] of [['#grid-design', design], ['#grid-corners', corners]]) {
-    await page.$eval(id, (box, t) => {
-      const dt = new DataTransfer();
-      dt.items.add(new File([t], 'dropped.csv', { type: 'text/csv' }));
-      box.dispatchEvent(new DragEvent('drop', { dataTransfer: dt, bubbles: true, cancelable: true }));
-    }, text);
-  }
+  for (const [id, text] of [['#grid-design', design], ['#grid-corners', corners]]) await dropFile(page, id, text);
   await page.waitForFunction(() => document.querySelector('#grid-corners .grid-count').textContent === '2 rows');
   await settle(page);
   assert.equal(await designText(page), design);

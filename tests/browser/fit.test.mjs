@@ -3,7 +3,7 @@
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import path from 'node:path';
-import { setup, open, fileUrl, outputs, root, cli, fill, settle, inked, WASM_LIBM_REL, WASM_DEVIANCE_REL } from './harness.mjs';
+import { setup, open, fileUrl, outputs, root, cli, fill, settle, inked, dropFile, WASM_LIBM_REL, WASM_DEVIANCE_REL } from './harness.mjs';
 
 const env = setup({ before, after });
 
@@ -127,11 +127,7 @@ test('a fit joins stored corners in their own delimiter, and a quoted name stays
   const corners = 'corner;tau;tw;tsu;tcq\ntt;20ps;30ps;30ps;50ps\n"ss; 0.9V";35ps;45ps;45ps;80ps\n';
   const { context, page, problems } = await open(env.browser, fileUrl('budget.html'));
   // The engineer's own corners, dropped as a file: the page keeps them as its last case.
-  await page.$eval('#grid-corners', (box, t) => {
-    const dt = new DataTransfer();
-    dt.items.add(new File([t], 'corners.csv', { type: 'text/csv' }));
-    box.dispatchEvent(new DragEvent('drop', { dataTransfer: dt, bubbles: true, cancelable: true }));
-  }, corners);
+  await dropFile(page, '#grid-corners', corners, 'corners.csv');
   await page.waitForFunction(() => document.querySelector('#grid-corners .grid-count').textContent === '2 rows');
   await settle(page);
   assert.equal(await page.inputValue('[name="corners"]'), corners);

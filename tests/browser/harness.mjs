@@ -128,3 +128,12 @@ export async function fill(page, selector, value) {
   await page.fill(selector, value);
   await settle(page);
 }
+
+/** Drops `text` as a CSV file named `name` on the element at `selector`, as a person drags a file in. */
+export async function dropFile(page, selector, text, name = 'dropped.csv') {
+  await page.$eval(selector, (box, [t, n]) => {
+    const dt = new DataTransfer();
+    dt.items.add(new File([t], n, { type: 'text/csv' }));
+    box.dispatchEvent(new DragEvent('drop', { dataTransfer: dt, bubbles: true, cancelable: true }));
+  }, [text, name]);
+}

@@ -206,12 +206,11 @@ fn crossing_newton(lo: f64, hi: f64, step: f64, f: impl Fn(f64) -> (f64, f64)) -
             (x + 2.0 * (x - lo).max(step)).min(hi)
         };
         // As the Illinois form did: 1e-10 relative, far inside the intervals' own
-        // precision (the likelihood is flat there). A Newton step of 1e-6 relative is
-        // taken as the last: Newton's method converges quadratically, so the end is then
-        // within about (1e-6)^2 over the profile's curvature scale (1e-10 relative for
-        // the 1 % intervals of a sweep), without one more pass over the rows.
-        if ((next - x).abs() <= tol && found)
-            || (next == newton && (next - x).abs() <= 1e-6 * x.abs().max(from.abs()))
+        // precision (the likelihood is flat there). A Newton step below 1e-4 of the first
+        // guess of the distance (about one standard error) is taken as the last: Newton's
+        // method converges quadratically, so the end is then within about 1e-8 standard
+        // errors, whatever the coordinate, without one more pass over the rows.
+        if ((next - x).abs() <= tol && found) || (next == newton && (next - x).abs() <= 1e-4 * step)
         {
             return Some(next);
         }
