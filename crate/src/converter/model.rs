@@ -21,31 +21,31 @@ struct Threshold {
     before: f64,
 }
 
-/// Each threshold of a `bits`-bit search, with its step and the time its ancestors'
-/// decisions take for an input at the threshold.
-fn thresholds(bits: u32, vx_lsb: f64) -> Vec<Threshold> {
-    let n = 1u64 << bits;
-    let mut out = Vec::with_capacity(n as usize - 1);
-    for code in 1..n {
-        let (mut lo, mut hi) = (0u64, n);
-        let mut before = 0.0;
-        let mut step = 0;
-        for m in 1..=bits {
-            let mid = (lo + hi) / 2;
-            if mid == code {
-                step = m;
-                break;
-            }
-            before += (vx_lsb / code.abs_diff(mid) as f64).ln().max(0.0);
-            if code < mid {
-                hi = mid;
-            } else {
-                lo = mid;
-            }
+/// Threshold `code` (1 to 2^B - 1) of a `bits`-bit search: the step that tests it, and the
+/// time its ancestors' decisions take for an input at the threshold (O(bits), no table).
+fn threshold(bits: u32, vx_lsb: f64, code: u64) -> Threshold {
+    let (mut lo, mut hi) = (0u64, 1u64 << bits);
+    let mut before = 0.0;
+    let mut step = 0;
+    for m in 1..=bits {
+        let mid = (lo + hi) / 2;
+        if mid == code {
+            step = m;
+            break;
         }
-        out.push(Threshold { code, step, before });
+        before += (vx_lsb / code.abs_diff(mid) as f64).ln().max(0.0);
+        if code < mid {
+            hi = mid;
+        } else {
+            lo = mid;
+        }
     }
-    out
+    Threshold { code, step, before }
+}
+
+/// Each threshold of a `bits`-bit search, in code order.
+fn thresholds(bits: u32, vx_lsb: f64) -> impl Iterator<Item = Threshold> {
+    (1..1u64 << bits).map(move |code| threshold(bits, vx_lsb, code))
 }
 
 /// The time (in tau) of the decision at step `m` after a hard one: its residue is exactly
@@ -166,7 +166,7 @@ pub fn async_timeouts(bits: u32, tb: f64, vx_lsb: f64, fill: Fill) -> AsyncTimeo
 /// `2 (V_x / sigma_n) phi(0) e^-(tb - E_b - E_a)`: the noise spreads the residue around
 /// zero with density phi(0)/sigma_n there.
 pub fn ln_p_static(bits: u32, tb: f64, vx_lsb: f64, sigma_lsb: f64, code: u64) -> (f64, f64) {
-    let t = thresholds(bits, vx_lsb)[code as usize - 1];
+    let t = threshold(bits, vx_lsb, code);
     let e_after: f64 = (t.step + 1..=bits).map(|m| after(bits, vx_lsb, m)).sum();
     let used = t.before + e_after;
     let ln_phi0 = -0.5 * (2.0 * std::f64::consts::PI).ln();
@@ -180,7 +180,6 @@ pub fn ln_p_static(bits: u32, tb: f64, vx_lsb: f64, sigma_lsb: f64, code: u64) -
 /// decisions take the longest, and that time (in tau).
 pub fn worst_static_code(bits: u32, vx_lsb: f64) -> (u64, f64) {
     thresholds(bits, vx_lsb)
-        .iter()
         .map(|t| {
             let e_after: f64 = (t.step + 1..=bits).map(|m| after(bits, vx_lsb, m)).sum();
             (t.code, t.before + e_after)
