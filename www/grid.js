@@ -157,8 +157,9 @@
       if (!col || col.values.length !== order.length) return;
       var v = col.values;
       order.sort(function (a, b) {
-        var x = v[a] === null ? -Infinity : v[a];
-        var y = v[b] === null ? -Infinity : v[b];
+        // NaN (or null): the figure does not apply to the row.
+        var x = v[a] === null || v[a] !== v[a] ? -Infinity : v[a];
+        var y = v[b] === null || v[b] !== v[b] ? -Infinity : v[b];
         return y - x || a - b;
       });
     }
@@ -208,7 +209,7 @@
 
     function figureText(c, r) {
       var v = c.values.length === layout.rows.length ? c.values[r] : null;
-      return v === null || v === undefined ? '' : wasm_bindgen.format_figure(c.kind, v);
+      return v === null || v === undefined || v !== v ? '' : wasm_bindgen.format_figure(c.kind, v);
     }
 
     // One data row: its line number, a cell input per header column (read-only when the

@@ -64,6 +64,8 @@ struct PageState {
     ignored_total: usize,
     unused: Vec<&'static str>,
     caution: &'static str,
+    /// Set by [`page_to_js`], with each column's values as one `Float64Array`.
+    #[serde(skip)]
     figures: Vec<RowFigures>,
     /// The calculator's short table of results, on pages that show one.
     table: Option<crate::calculator::TextTable>,
@@ -75,6 +77,49 @@ const MOST_IGNORED_NAMED: usize = 10;
 fn to_js<T: Serialize>(v: &T) -> Result<JsValue, JsError> {
     v.serialize(&serde_wasm_bindgen::Serializer::json_compatible())
         .map_err(|e| JsError::new(&e.to_string()))
+}
+
+/// A page state as a JS value. The table figures (one value per data row, tens of
+/// thousands on a large design) go across as one `Float64Array` per column, NaN where a
+/// figure does not apply: element by element through serde they took most of an edit's
+/// time on a 10,000-row design.
+fn page_to_js(mut state: PageState) -> Result<JsValue, JsError> {
+    #[derive(Serialize)]
+    struct ColumnHead<'a> {
+        key: &'a str,
+        label: &'a str,
+        kind: &'a str,
+        sorts: bool,
+    }
+    let figures = std::mem::take(&mut state.figures);
+    let js = to_js(&state)?;
+    let list = js_sys::Array::new();
+    for f in &figures {
+        let columns = js_sys::Array::new();
+        for c in &f.columns {
+            let head = to_js(&ColumnHead {
+                key: c.key,
+                label: &c.label,
+                kind: c.kind,
+                sorts: c.sorts,
+            })?;
+            let values: Vec<f64> = c.values.iter().map(|v| v.unwrap_or(f64::NAN)).collect();
+            set(&head, "values", &js_sys::Float64Array::from(&values[..]))?;
+            columns.push(&head);
+        }
+        let entry = js_sys::Object::new();
+        set(&entry, "field", &JsValue::from_str(f.field))?;
+        set(&entry, "columns", &columns)?;
+        list.push(&entry);
+    }
+    set(&js, "figures", &list)?;
+    Ok(js)
+}
+
+fn set(target: &JsValue, key: &str, value: &JsValue) -> Result<(), JsError> {
+    js_sys::Reflect::set(target, &JsValue::from_str(key), value)
+        .map(|_| ())
+        .map_err(|_| JsError::new("could not set a property of the page state"))
 }
 
 fn unknown(name: &str) -> JsError {
@@ -279,7 +324,7 @@ pub fn report(name: &str, query: &str) -> Result<JsValue, JsError> {
 /// An unknown calculator, or an answer that cannot be converted to a JS value.
 #[wasm_bindgen]
 pub fn page(name: &str, query: &str) -> Result<JsValue, JsError> {
-    to_js(&dispatch(name, Page(Given::query(query))).ok_or_else(|| unknown(name))?)
+    page_to_js(dispatch(name, Page(Given::query(query))).ok_or_else(|| unknown(name))?)
 }
 
 /// [`page`] with the data tables beside the query: `names[i]` holds `texts[i]`.
@@ -298,7 +343,7 @@ pub fn page_with(
         names: &names,
         texts: &texts,
     };
-    to_js(&dispatch(name, Page(given)).ok_or_else(|| unknown(name))?)
+    page_to_js(dispatch(name, Page(given)).ok_or_else(|| unknown(name))?)
 }
 
 /// Draws calculator `name`'s plots into the canvases of the same ids, at `scale` device
