@@ -164,6 +164,47 @@ fn counts_intervals_cover_the_truth_at_the_nominal_rate() {
 }
 
 #[test]
+fn counts_fit_does_not_depend_on_the_order_of_the_rows() {
+    // Rows in ascending tr are taken as they are, others are sorted first: the same rows in
+    // ascending, descending and shuffled order (with repeated tr among them) give one fit.
+    let mut r = Random::new(5);
+    let rows: Vec<String> = (0..3_000)
+        .map(|i| {
+            let tr = (100.0 + (i % 1_500) as f64 * 0.25) * 1e-12;
+            let mu = 1e-3 * 1e9 * 50e6 * 22e-12 * (-tr / 18e-12).exp();
+            format!("{tr:e},{},1e-3", r.poisson(mu))
+        })
+        .collect();
+    let mut sorted = rows.clone();
+    sorted.sort_by(|a, b| {
+        let t = |s: &String| s.split(',').next().unwrap().parse::<f64>().unwrap();
+        t(a).total_cmp(&t(b))
+    });
+    let mut shuffled = rows.clone();
+    for i in (1..shuffled.len()).rev() {
+        shuffled.swap(i, (r.uniform() * (i + 1) as f64) as usize);
+    }
+    let mut descending = sorted.clone();
+    descending.reverse();
+    let set = [("fclk", "1GHz"), ("fdata", "50MHz")];
+    let run = |rows: &[String]| {
+        let v = fit(
+            "counts",
+            &format!("tr,failures,duration\n{}\n", rows.join("\n")),
+            &set,
+        )
+        .unwrap();
+        (v["tau_s"].as_f64().unwrap(), v["tw_s"].as_f64().unwrap())
+    };
+    let want = run(&sorted);
+    for (name, rows) in [("shuffled", &shuffled), ("descending", &descending)] {
+        let got = run(rows);
+        assert_rel(&format!("{name} tau"), got.0, want.0, 1e-12);
+        assert_rel(&format!("{name} tw"), got.1, want.1, 1e-12);
+    }
+}
+
+#[test]
 fn comparator_intervals_cover_the_truth_and_recover_it() {
     let (tau, v0, n) = (14e-12, 0.1, 400);
     let mut r = Random::new(99);

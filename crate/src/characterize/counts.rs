@@ -7,6 +7,7 @@
 
 use std::f64::consts::LN_10;
 
+use crate::numeric::batch::exp_nonpositive;
 use crate::numeric::normal::{ln_sum_exp, ln_sum_exp_of};
 use crate::numeric::special::chi2_sf;
 
@@ -150,18 +151,39 @@ struct Sums {
 }
 
 fn sums(d: &Counts, o: &[f64], b: f64) -> Sums {
-    let max =
-        d.tr.iter()
-            .zip(o)
-            .map(|(t, o)| -b * t + o)
-            .fold(f64::NEG_INFINITY, f64::max);
-    let (mut s0, mut s1, mut s2) = (0.0, 0.0, 0.0);
-    for (t, o) in d.tr.iter().zip(o) {
-        let w = (-b * t + o - max).exp();
-        s0 += w;
-        s1 += w * t;
-        s2 += w * t * t;
+    // The largest exponent, in four lanes as the sums below (the offsets and tr are finite).
+    let mut lanes = [f64::NEG_INFINITY; 4];
+    for (t, o) in d.tr.chunks_exact(4).zip(o.chunks_exact(4)) {
+        for l in 0..4 {
+            let v = -b * t[l] + o[l];
+            lanes[l] = if v > lanes[l] { v } else { lanes[l] };
+        }
     }
+    let n = d.tr.len() / 4 * 4;
+    let max = d.tr[n..].iter().zip(&o[n..]).map(|(t, o)| -b * t + o).fold(
+        lanes.into_iter().fold(f64::NEG_INFINITY, f64::max),
+        f64::max,
+    );
+    // Four lanes of partial sums, so that the pass compiles to vector instructions (a
+    // single running sum would fix the order of the additions and keep it scalar).
+    let mut acc = [[0.0f64; 4]; 3];
+    let (tc, oc) = (d.tr.chunks_exact(4), o.chunks_exact(4));
+    let (t_rest, o_rest) = (tc.remainder(), oc.remainder());
+    for (t, o) in tc.zip(oc) {
+        for l in 0..4 {
+            let w = exp_nonpositive(-b * t[l] + o[l] - max);
+            acc[0][l] += w;
+            acc[1][l] += w * t[l];
+            acc[2][l] += w * t[l] * t[l];
+        }
+    }
+    for (l, (t, o)) in t_rest.iter().zip(o_rest).enumerate() {
+        let w = exp_nonpositive(-b * t + o - max);
+        acc[0][l] += w;
+        acc[1][l] += w * t;
+        acc[2][l] += w * t * t;
+    }
+    let [s0, s1, s2] = acc.map(|a| (a[0] + a[1]) + (a[2] + a[3]));
     Sums { max, s0, s1, s2 }
 }
 
@@ -224,9 +246,31 @@ fn crossing_newton(lo: f64, hi: f64, step: f64, f: impl Fn(f64) -> (f64, f64)) -
 /// rows' own by a constant (`sum k_i o_i` against `sum K_t o_t`), so the estimates and
 /// the profile intervals are the same, at a cost of the distinct tr, not the rows.
 fn grouped(d: &Counts, o: &[f64]) -> (Counts, Vec<f64>) {
-    let mut order: Vec<usize> = (0..d.tr.len()).collect();
-    // The order within equal tr is immaterial (their offsets are summed).
-    order.sort_unstable_by(|&i, &j| d.tr[i].total_cmp(&d.tr[j]));
+    // The order within equal tr is immaterial (their offsets are summed). Rows already in
+    // order (a sweep as a tester writes it) are taken as they are; otherwise each row's
+    // key is sorted with its index beside it (the integer form of `f64::total_cmp`, so
+    // the sort compares integers in one array, not rows through an index).
+    let order: Vec<usize> = if d.tr.windows(2).all(|w| w[0] <= w[1]) {
+        (0..d.tr.len()).collect()
+    } else {
+        let mut keyed: Vec<(u64, usize)> =
+            d.tr.iter()
+                .enumerate()
+                .map(|(i, t)| {
+                    let bits = t.to_bits();
+                    // Negative values' bits reversed, and the sign flipped: ascending as
+                    // total_cmp orders.
+                    let key = if bits >> 63 == 1 {
+                        !bits
+                    } else {
+                        bits | (1 << 63)
+                    };
+                    (key, i)
+                })
+                .collect();
+        keyed.sort_unstable();
+        keyed.into_iter().map(|(_, i)| i).collect()
+    };
     let mut g = Counts {
         tr: Vec::new(),
         failures: Vec::new(),

@@ -1,5 +1,6 @@
 //! Numerical tools the models share: the normal distribution in logarithms and root finding.
 
+pub mod batch;
 pub mod normal;
 pub mod random;
 pub mod solve;
