@@ -11,7 +11,7 @@ const TWO_TO_J16: [f64; 16] = [
     1.241_857_812_073_484,
     1.296_839_554_651_009_6,
     1.354_255_546_936_892_7,
-    1.414_213_562_373_095_1,
+    std::f64::consts::SQRT_2,
     1.476_826_145_939_499_3,
     1.542_210_825_407_940_7,
     1.610_490_331_949_254_3,
@@ -20,6 +20,13 @@ const TWO_TO_J16: [f64; 16] = [
     1.834_008_086_409_342_4,
     1.915_206_561_397_147_4,
 ];
+
+// ln 2 / 16 in two parts: the first with its low 21 bits zero, so that n times it is
+// exact for |n| below 2^14 (n >= -16,360 here).
+// (fdlibm's ln2_hi, bits 0x3fe62e42fee00000, and ln2_lo, bits 0x3dea39ef35793c76, each
+// written as the shortest decimal that reads back as those bits.)
+const STEP_HI: f64 = 0.693_147_180_369_123_8 / 16.0;
+const STEP_LO: f64 = 1.908_214_929_270_587_7e-10 / 16.0;
 
 /// `exp(x)` for `x <= 0`, written so that a loop over rows keeps several in flight (plain
 /// arithmetic, a lookup in a 16-entry table and integer operations on the bits, no call).
@@ -41,10 +48,6 @@ const TWO_TO_J16: [f64; 16] = [
 pub fn exp_nonpositive(x: f64) -> f64 {
     // 1.5 * 2^52: adding it rounds to an integer, kept in the low bits of the sum.
     const SHIFT: f64 = 6_755_399_441_055_744.0;
-    // ln 2 / 16 in two parts: the first with its low 21 bits zero, so that n times it is
-    // exact for |n| below 2^14 (n >= -16,360 here).
-    const STEP_HI: f64 = 0.693_147_180_369_123_816_49 / 16.0;
-    const STEP_LO: f64 = 1.908_214_929_270_587_700_02e-10 / 16.0;
     let x = x.max(-708.0);
     let shifted = x * (16.0 * std::f64::consts::LOG2_E) + SHIFT;
     let n = shifted - SHIFT;
@@ -103,5 +106,8 @@ mod tests {
         assert_eq!(exp_nonpositive(-709.0), 0.0);
         assert_eq!(exp_nonpositive(f64::NEG_INFINITY), 0.0);
         assert_eq!(exp_nonpositive(f64::NAN), 0.0);
+        // The two parts of ln 2 are fdlibm's, bit for bit.
+        assert_eq!((16.0 * STEP_HI).to_bits(), 0x3fe6_2e42_fee0_0000);
+        assert_eq!((16.0 * STEP_LO).to_bits(), 0x3dea_39ef_3579_3c76);
     }
 }
