@@ -10,7 +10,7 @@ use std::sync::Arc;
 
 use crate::crossing::Synchronizer;
 use crate::numeric::exp10;
-use crate::numeric::normal::{ln_q, ln_sum_exp};
+use crate::numeric::normal::{cdf, ln_sum_exp};
 use crate::numeric::solve::{bisect_last, illinois};
 use crate::reliability::FIT_PER_RATE;
 
@@ -321,7 +321,7 @@ impl Rollup {
         let zs: Vec<f64> = (0..n)
             .map(|i| -3.5 + 7.0 * i as f64 / (n - 1) as f64)
             .collect();
-        let phi = |z: f64| 1.0 - ln_q(z).exp();
+        let phi = cdf;
         if tau_sigma <= 0.0 || tw_sigma <= 0.0 {
             let terms = self.terms();
             let g = terms.log10_worst_at(1.0);
@@ -397,7 +397,7 @@ impl Rollup {
         rho: f64,
         ps: &[f64],
     ) -> Vec<f64> {
-        let z_of = |p: f64| bisect_last(-40.0, 40.0, 1e-13, 200, |z| (1.0 - ln_q(z).exp()) <= p);
+        let z_of = |p: f64| bisect_last(-40.0, 40.0, 1e-13, 200, |z| cdf(z) <= p);
         let terms = self.terms_at(stages);
         if tau_sigma <= 0.0 {
             let g = terms.log10_worst_at(1.0) * LN_10;
@@ -477,13 +477,13 @@ fn spread_cdf(nodes: &[(f64, f64, f64)], tw_sigma: f64, rho: f64, x: f64) -> f64
         .map(|(w, ln_g, zt)| {
             let z = (x - ln_g - rho * tw_sigma * zt) / sd;
             // Beyond 9 standard deviations the normal probability is 0 or 1 to within
-            // 1.2e-19, and 1 - Q(z) rounds to exactly that: no need to evaluate Q.
+            // 1.2e-19: no need to evaluate it.
             if z > 9.0 {
                 *w
             } else if z < -9.0 {
                 0.0
             } else {
-                w * (1.0 - ln_q(z).exp())
+                w * cdf(z)
             }
         })
         .sum()
