@@ -271,10 +271,16 @@ impl Formatter for Inert {
         fragment: &str,
     ) -> std::io::Result<()> {
         // DEL is the byte 0x7f and every C1 character starts with the byte 0xc2 in UTF-8:
-        // a fragment with neither (nearly all) is written as it is, after one scan of its
-        // bytes.
-        if !fragment.bytes().any(|b| b == 0x7f || b == 0xc2) {
-            return w.write_all(fragment.as_bytes());
+        // a fragment with neither (nearly all) is written as it is. The test for ASCII and
+        // the search for one byte are the standard library's word-at-a-time scans.
+        let bytes = fragment.as_bytes();
+        let plain = if bytes.is_ascii() {
+            !bytes.contains(&0x7f)
+        } else {
+            !bytes.iter().any(|&b| b == 0x7f || b == 0xc2)
+        };
+        if plain {
+            return w.write_all(bytes);
         }
         let risky = |c: char| c == '\u{7f}' || ('\u{80}'..='\u{9f}').contains(&c);
         let mut rest = fragment;
