@@ -73,9 +73,12 @@ struct PageState {
 /// The most unknown link parameters the page names; the rest are counted.
 const MOST_IGNORED_NAMED: usize = 10;
 
+/// A value as the page reads it: written as JSON by the core and parsed by the browser's
+/// own `JSON.parse`, which builds the objects natively instead of setting each property
+/// across the boundary.
 fn to_js<T: Serialize>(v: &T) -> Result<JsValue, JsError> {
-    v.serialize(&serde_wasm_bindgen::Serializer::json_compatible())
-        .map_err(|e| JsError::new(&e.to_string()))
+    let text = serde_json::to_string(v).map_err(|e| JsError::new(&e.to_string()))?;
+    js_sys::JSON::parse(&text).map_err(|_| JsError::new("the core wrote JSON the page cannot read"))
 }
 
 /// A page state as a JS value. The table figures (one value per data row, tens of
