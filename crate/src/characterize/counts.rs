@@ -151,40 +151,39 @@ struct Sums {
 }
 
 fn sums(d: &Counts, o: &[f64], b: f64) -> Sums {
-    // The largest exponent, in four lanes as the sums below (the offsets and tr are finite).
-    let mut lanes = [f64::NEG_INFINITY; 4];
-    for (t, o) in d.tr.chunks_exact(4).zip(o.chunks_exact(4)) {
-        for l in 0..4 {
-            let v = -b * t[l] + o[l];
-            lanes[l] = if v > lanes[l] { v } else { lanes[l] };
-        }
-    }
-    let n = d.tr.len() / 4 * 4;
-    let max = d.tr[n..].iter().zip(&o[n..]).map(|(t, o)| -b * t + o).fold(
-        lanes.into_iter().fold(f64::NEG_INFINITY, f64::max),
-        f64::max,
-    );
-    // Four lanes of partial sums, so that the pass compiles to vector instructions (a
-    // single running sum would fix the order of the additions and keep it scalar).
+    // The largest exponent (the offsets and tr are finite).
+    let mut top = [f64::NEG_INFINITY; 4];
+    in_lanes(&d.tr, o, |l, t, o| {
+        let v = -b * t + o;
+        top[l] = if v > top[l] { v } else { top[l] };
+    });
+    let max = top.into_iter().fold(f64::NEG_INFINITY, f64::max);
     let mut acc = [[0.0f64; 4]; 3];
-    let (tc, oc) = (d.tr.chunks_exact(4), o.chunks_exact(4));
-    let (t_rest, o_rest) = (tc.remainder(), oc.remainder());
-    for (t, o) in tc.zip(oc) {
-        for l in 0..4 {
-            let w = exp_nonpositive(-b * t[l] + o[l] - max);
-            acc[0][l] += w;
-            acc[1][l] += w * t[l];
-            acc[2][l] += w * t[l] * t[l];
-        }
-    }
-    for (l, (t, o)) in t_rest.iter().zip(o_rest).enumerate() {
+    in_lanes(&d.tr, o, |l, t, o| {
         let w = exp_nonpositive(-b * t + o - max);
         acc[0][l] += w;
         acc[1][l] += w * t;
         acc[2][l] += w * t * t;
-    }
+    });
     let [s0, s1, s2] = acc.map(|a| (a[0] + a[1]) + (a[2] + a[3]));
     Sums { max, s0, s1, s2 }
+}
+
+/// Calls `f(lane, tr, offset)` for every row, the rows dealt to four lanes in turn, so that
+/// a pass keeping one partial result per lane compiles to vector instructions (a single
+/// running sum would fix the order of the additions and keep it scalar).
+#[inline(always)]
+fn in_lanes(tr: &[f64], o: &[f64], mut f: impl FnMut(usize, f64, f64)) {
+    let (tc, oc) = (tr.chunks_exact(4), o.chunks_exact(4));
+    let (t_rest, o_rest) = (tc.remainder(), oc.remainder());
+    for (t, o) in tc.zip(oc) {
+        for l in 0..4 {
+            f(l, t[l], o[l]);
+        }
+    }
+    for (l, (t, o)) in t_rest.iter().zip(o_rest).enumerate() {
+        f(l, *t, *o);
+    }
 }
 
 /// Where a rising `f` (negative at `lo`) crosses zero in `[lo, hi]`, `f` giving its value
