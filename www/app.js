@@ -856,10 +856,13 @@
     each('textarea[data-grid]', function (t) {
       grids.push(new window.LatchwiseGrid(t, {
         changed: function () { update(true); },
-        drop: readInto
+        drop: readInto,
+        drawnByRefresh: true
       }));
     });
     var ok = compute(initial);
+    // Drawn by the first results; drawn without figures when there are none.
+    if (!ok) grids.forEach(function (g) { g.refresh(null); });
     document.body.dataset.firstResultMs = performance.now().toFixed(1);
     // The numbers are painted first; the plots are drawn once that frame is on screen.
     requestAnimationFrame(function () {

@@ -217,9 +217,9 @@
     // and the figures.
     function fillRow(tr, r, active) {
       var line = layout.rows[r];
+      var figs = figureColumns().map(function (c) { return figureText(c, r); });
       var sign = lines[line] + '\u0000' + line + '\u0000' + (r === selected) + '\u0000' + header.length + '\u0000' +
-        (problems[line] ? problems[line].messages.join('\n') : '') + '\u0000' +
-        figureColumns().map(function (c) { return figureText(c, r); }).join('\u0000');
+        (problems[line] ? problems[line].messages.join('\n') : '') + '\u0000' + figs.join('\u0000');
       if (tr.dataset.sign === sign && !forceValues) return;
       tr.dataset.sign = sign;
       var cells = wasm_bindgen.table_split(lines[line], layout.delimiter);
@@ -252,7 +252,7 @@
         var td = tr.children[1 + header.length + k];
         td.className = k === 0 ? 'figure first-figure' : 'figure';
         td.style.right = stickyRight(k);
-        td.textContent = figureText(c, r);
+        td.textContent = figs[k];
       });
     }
 
@@ -275,10 +275,19 @@
 
     // The rows in view (and a few beyond). Rows already in the page are updated where
     // they are, so that typing in a cell is never interrupted by a redraw.
+    // The first draw comes before the page's first paint: it draws the rows in view
+    // alone, and those beyond its edges follow once that frame is on screen.
+    var drawnOnce = false;
+
     function drawRows() {
-      var first = Math.max(0, Math.floor(port.top / ROW_PX) - OVERSCAN);
+      var over = drawnOnce ? OVERSCAN : 0;
+      if (!drawnOnce) {
+        drawnOnce = true;
+        requestAnimationFrame(function () { setTimeout(drawRows, 0); });
+      }
+      var first = Math.max(0, Math.floor(port.top / ROW_PX) - over);
       var inView = Math.ceil(port.height / ROW_PX);
-      var last = Math.min(order.length, first + inView + 2 * OVERSCAN);
+      var last = Math.min(order.length, first + inView + 2 * over);
       var active = document.activeElement;
       var have = {};
       Array.prototype.forEach.call(tbody.children, function (tr) {
@@ -449,7 +458,8 @@
       dupB.disabled = delB.disabled = selected < 0;
     }
 
-    function view(which) {
+    // `later`: the table is not drawn now but by the first refresh (see the end).
+    function view(which, later) {
       flush();
       var table = which === 'table';
       tableB.classList.toggle('on', table);
@@ -459,7 +469,7 @@
       area.hidden = table;
       [addB, dupB, delB, undoB, orderL].forEach(function (b) { b.hidden = !table; });
       box.classList.toggle('text-view', !table);
-      if (table) self.refresh(null); else area.focus();
+      if (table) { if (!later) self.refresh(null); } else area.focus();
     }
 
     bar.addEventListener('click', function (e) {
@@ -563,7 +573,10 @@
     this.current = function () {
       return syncTimer !== null && area.value === synced ? text : area.value;
     };
-    view('table');
+    // A page that computes its first results right away says so (`hooks.drawnByRefresh`):
+    // the table is then drawn once, by the refresh with the case's figures, rather than
+    // twice before the first paint.
+    view('table', hooks.drawnByRefresh === true);
   }
 
   window.LatchwiseGrid = Grid;
