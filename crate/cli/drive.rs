@@ -55,7 +55,7 @@ pub fn help<C: Calculator>() -> String {
 /// Runs calculator `C`: options, help, notes, errors, output and exit status.
 pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
     let name = C::NAME;
-    let parsed = match parse(args, C::FIELDS, C::ALIASES, C::OPERANDS, C::RESULTS_OPTION) {
+    let mut parsed = match parse(args, C::FIELDS, C::ALIASES, C::OPERANDS, C::RESULTS_OPTION) {
         Ok(p) => p,
         Err(msg) => {
             complain(&format!("latchwise {name}: {msg}"));
@@ -158,9 +158,10 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
             #[serde(flatten)]
             report: &'a R,
         }
+        let digest = std::mem::take(&mut parsed.input_sha256).hex();
         let stamped = Stamped {
             version: env!("CARGO_PKG_VERSION"),
-            input_sha256: &parsed.input_sha256,
+            input_sha256: &digest,
             report: &report,
         };
         if let Err(e) = say_json(&stamped) {
