@@ -275,19 +275,20 @@
 
     // The rows in view (and a few beyond). Rows already in the page are updated where
     // they are, so that typing in a cell is never interrupted by a redraw.
-    // The first draw comes before the page's first paint: it draws the rows in view
-    // alone, and those beyond its edges follow once that frame is on screen.
+    // The first draw comes before the page's first paint, which shows the first results:
+    // it sizes the table for its rows and draws none, and the rows follow once that frame
+    // is on screen (as the plots do).
     var drawnOnce = false;
 
     function drawRows() {
-      var over = drawnOnce ? OVERSCAN : 0;
-      if (!drawnOnce) {
+      var later = !drawnOnce;
+      if (later) {
         drawnOnce = true;
         requestAnimationFrame(function () { setTimeout(drawRows, 0); });
       }
-      var first = Math.max(0, Math.floor(port.top / ROW_PX) - over);
+      var first = Math.max(0, Math.floor(port.top / ROW_PX) - OVERSCAN);
       var inView = Math.ceil(port.height / ROW_PX);
-      var last = Math.min(order.length, first + inView + 2 * over);
+      var last = later ? first : Math.min(order.length, first + inView + 2 * OVERSCAN);
       var active = document.activeElement;
       var have = {};
       Array.prototype.forEach.call(tbody.children, function (tr) {
