@@ -36,8 +36,8 @@ fn feed(stamp: &mut Option<Vec<u8>>, tag: &[u8], bytes: &[u8]) {
 }
 
 /// The audit stamp's SHA-256 (with --json), taken on a thread of its own while the case
-/// is read and evaluated: for a 100,000-row design the digest costs about a tenth of the
-/// whole run, which it no longer adds.
+/// is read and evaluated: for a 100,000-row design (3 MB) the run no longer waits for it,
+/// about 5 ms of 255 ms (2 %, paired medians of 41 runs against the build before).
 #[derive(Debug, Default)]
 pub enum Stamp {
     /// No stamp (the text report has none).
