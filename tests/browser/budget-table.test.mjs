@@ -65,6 +65,40 @@ test('a cell edited in the table changes its line of the CSV and the results, as
   await context.close();
 });
 
+test('the first paint has the results and the tables at their full size; the rows follow without moving anything', async () => {
+  const context = await env.browser.newContext({ viewport: { width: 1280, height: 900 } });
+  const page = await context.newPage();
+  // What the page holds when its first task ends (the state its first paint shows): read
+  // as the first result is recorded, in a microtask of that same task.
+  await page.addInitScript(() => {
+    new MutationObserver((changes, seen) => {
+      if (!changes.some((c) => c.attributeName === 'data-first-result-ms')) return;
+      seen.disconnect();
+      const grid = document.querySelector('#grid-design .grid-scroll');
+      window.atFirstResult = {
+        verdict: document.querySelector('output[name="log10_total_fit"]').textContent,
+        rows: document.querySelectorAll('#grid-design tbody tr:not(.spacer)').length,
+        height: grid.getBoundingClientRect().height,
+        below: document.querySelector('.plots').getBoundingClientRect().top,
+      };
+    }).observe(document, { attributes: true, subtree: true, attributeFilter: ['data-first-result-ms'] });
+  });
+  await page.goto(fileUrl('budget.html'));
+  await page.waitForSelector('body[data-ready="yes"]');
+  const first = await page.evaluate(() => window.atFirstResult);
+  const grid = await page.$eval('#grid-design .grid-scroll', (g) => g.getBoundingClientRect().height);
+  const below = await page.$eval('.plots', (p) => p.getBoundingClientRect().top);
+  const rows = await page.$$eval('#grid-design tbody tr:not(.spacer)', (t) => t.length);
+  assert.notEqual(first.verdict, '', 'the results are in before the first paint');
+  assert.equal(first.rows, 0, 'the rows are drawn after the first paint');
+  assert.ok(rows > 0);
+  // The table's box had its full height already, so nothing below it moves when the rows
+  // come (its scrolled content may differ by a border's pixel).
+  assert.equal(first.height, grid);
+  assert.equal(first.below, below);
+  await context.close();
+});
+
 test('rows are added, duplicated, deleted and undone; the table sorts by share', async () => {
   const { context, page, problems } = await open(env.browser, fileUrl('budget.html'));
   const demo = await designText(page);
