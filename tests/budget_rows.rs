@@ -474,6 +474,62 @@ fn classes_and_domains_refuse_what_they_cannot_resolve() {
     assert_eq!(v["rows"][0]["fdata_hz"], 2e6);
 }
 
+/// Rows with the same inputs are read at the corners once and share what was read: each
+/// row still gets its own count, cell class, domain and line. Every row's FIT at every
+/// corner equals that of the same row read alone, and a bad row repeated is refused at
+/// each of its lines.
+#[test]
+fn rows_read_once_keep_their_own_count_class_domain_and_line() {
+    let corners = "corner,tau,tw,tsu,tcq,tau@fast,fclk@core\n\
+                   typ,12ps,20ps,25ps,40ps,8ps,2GHz\n\
+                   slow,20ps,30ps,35ps,60ps,14ps,2GHz\n";
+    let header = "name,fclk,fdata,stages,count,cell,domain\n";
+    let rows = [
+        "a,1GHz,1MHz,2,1,,",
+        "b,1GHz,1MHz,2,8,,",
+        "c,1GHz,1MHz,2,1,fast,",
+        "d,,1MHz,2,1,,core",
+        "e,1GHz,1MHz,2,8,,",
+        "f,1GHz,1MHz,2,1,fast,",
+    ];
+    let all = budget(&format!("{header}{}\n", rows.join("\n")), corners).unwrap();
+    let together = row_fits(&all);
+    for row in rows {
+        let alone = row_fits(&budget(&format!("{header}{row}\n"), corners).unwrap());
+        for (name, corner, fit) in alone {
+            let (_, _, got) = together
+                .iter()
+                .find(|(n, c, _)| *n == name && *c == corner)
+                .unwrap();
+            // The same computation whichever way the row is reached: equal to the bit.
+            assert_eq!(got.to_bits(), fit.to_bits(), "{name} at {corner}");
+        }
+    }
+    let fit = |name: &str| {
+        together
+            .iter()
+            .find(|(n, c, _)| n == name && c == "slow")
+            .unwrap()
+            .2
+    };
+    assert_log10("count 8", fit("b"), fit("a") + 8f64.log10());
+    assert!(fit("c") < fit("a") - 1.0, "{} {}", fit("c"), fit("a"));
+    assert!(fit("d") != fit("a"));
+    let e = budget(
+        &format!("{header}a,1GHz,1MHz,2,1,,\nx,1GHz,zz,2,1,,\ny,1GHz,zz,2,1,,\n"),
+        corners,
+    )
+    .unwrap_err();
+    for line in [3, 4] {
+        assert!(
+            e.contains(&format!(
+                "design, line {line}, column fdata: 'zz' is not a number"
+            )),
+            "{e}"
+        );
+    }
+}
+
 /// The 95th percentile with ln tau and ln tw correlated, against an mpmath quadrature
 /// (to 1e-9 in FIT) and a seeded Monte Carlo of 1e6 draws (within its sampling error:
 /// the 95 % point's standard error is about 0.0005 decades here, so 0.003 is six of

@@ -18,7 +18,7 @@ use super::fields::{
     TCQ, TSU, TW, TW_SIGMA,
 };
 use super::rollup::{Cell, Rollup, MAX_STAGES};
-use super::row::{lent_error, Lent, RowReader, ROW_FIELDS};
+use super::row::{lent_error, Lent, RowCase, RowReader, ROW_FIELDS};
 
 /// A named corner.
 #[derive(Debug, Clone, PartialEq)]
@@ -416,6 +416,110 @@ fn lent_at(c: &Corner, class: &str, domain: &str, launch: &str) -> Lent {
     }
 }
 
+/// A design row read at every corner: its case at each, and its warnings.
+type RowRead = (Vec<Arc<RowCase>>, Vec<String>);
+
+/// Why a row could not be read at the corners: a problem at its line (columns and
+/// message), or a corner of the table that lacks a value the row needs.
+enum RowFailure {
+    Problem(Vec<&'static str>, String),
+    CornerNeeds(usize, &'static str),
+}
+
+/// A design row read at every corner: its case at each (the synchronizer's reader and
+/// model) and its warnings, the farthest extrapolation beyond a corner's characterised
+/// range among them; or why it cannot be read.
+fn read_at_corners(
+    own: &[(&'static str, &str)],
+    class: &str,
+    domain: &str,
+    launch: &str,
+    corners: &[Corner],
+    reader: &mut RowReader,
+) -> Result<RowRead, Vec<RowFailure>> {
+    let has = |f: &str| own.iter().any(|(k, _)| *k == f);
+    let mut cases: Vec<Arc<RowCase>> = Vec::with_capacity(corners.len());
+    let mut warnings: Vec<String> = Vec::new();
+    for (ci, c) in corners.iter().enumerate() {
+        let lent = lent_at(c, class, domain, launch);
+        if !domain.is_empty() && lent.fclk.is_none() && !has(sync::FCLK.name) {
+            return Err(vec![RowFailure::Problem(
+                vec!["domain"],
+                format!(
+                    "corner {} leaves fclk@{} blank, and the row gives no fclk",
+                    c.name,
+                    crate::error::short(&domain.to_ascii_lowercase())
+                ),
+            )]);
+        }
+        match reader.read(own, &lent) {
+            Ok(case) => {
+                for w in &case.warnings {
+                    if !warnings.contains(w) {
+                        warnings.push(w.clone());
+                    }
+                }
+                cases.push(case);
+            }
+            Err(errors) => {
+                let mut failures = Vec::new();
+                for e in &errors.0 {
+                    let lendable = [
+                        sync::TAU.name,
+                        sync::TW.name,
+                        sync::TSU.name,
+                        sync::TCQ.name,
+                    ];
+                    let missing = e.kind == ParamErrorKind::Missing && lendable.contains(&e.field);
+                    // A corner of the table without a value the rows need: said once, at
+                    // the corner's line, not at every row.
+                    if let (true, Some(_)) = (missing, c.line) {
+                        failures.push(RowFailure::CornerNeeds(ci, e.field));
+                        continue;
+                    }
+                    let m = if missing {
+                        "a value is required, in the row or the corner".to_string()
+                    } else {
+                        message_of(e)
+                    };
+                    failures.push(RowFailure::Problem(
+                        vec![e.field],
+                        if lent_error(e, own, &lent) {
+                            format!("at corner {}, with the corner's value: {m}", c.name)
+                        } else {
+                            m
+                        },
+                    ));
+                }
+                return Err(failures);
+            }
+        }
+    }
+    // Beyond the characterised range: the farthest corner, said once per row.
+    let far = cases
+        .iter()
+        .zip(corners)
+        .filter_map(|(case, c)| {
+            let tr = case.sync.resolution_time();
+            c.tr_max
+                .filter(|m| tr > *m)
+                .map(|m| (tr / m, tr, m, &c.name))
+        })
+        .fold(
+            None,
+            |best: Option<(f64, f64, f64, &String)>, x| match best {
+                Some(b) if b.0 >= x.0 => Some(b),
+                _ => Some(x),
+            },
+        );
+    if let Some((_, tr, m, name)) = far {
+        if let Some(e) = crate::crossing::input::extrapolation(tr, m) {
+            warnings.push(format!("At corner {name}: {e}"));
+        }
+    }
+    Ok((cases, warnings))
+}
+
 impl BudgetCase {
     /// Reads a budget case.
     ///
@@ -559,6 +663,13 @@ impl BudgetCase {
         // Each crossing by its own name: the fix plan and the results name rows.
         let mut first_line: crate::table::TextMap<&str, usize> =
             crate::table::TextMap::with_capacity_and_hasher(n_rows, Default::default());
+        // Rows that give the same inputs (the synchronizer's columns, the cell class and the
+        // domains) read the same at every corner: a design's rows mostly repeat a few
+        // clocks, rates and depths, so each distinct row is read at the corners once, and
+        // a row like it takes its cases and warnings (its count and width are its own).
+        let mut same_rows: crate::table::TextMap<Vec<u8>, RowRead> =
+            crate::table::TextMap::default();
+        let mut row_key: Vec<u8> = Vec::new();
         for (i, line) in table.lines.iter().enumerate() {
             let here =
                 |columns: &[&str], m: String| TableProblem::at("design", Some(*line), columns, m);
@@ -626,93 +737,41 @@ impl BudgetCase {
                 ));
                 continue;
             }
-            let mut row = Vec::with_capacity(corners.len());
-            let mut warnings: Vec<String> = Vec::new();
-            let mut failed = false;
-            for (ci, c) in corners.iter().enumerate() {
-                let lent = lent_at(c, class, domain, launch);
-                if !domain.is_empty() && lent.fclk.is_none() && !has(sync::FCLK.name) {
-                    problems.push(here(
-                        &["domain"],
-                        format!(
-                            "corner {} leaves fclk@{} blank, and the row gives no fclk",
-                            c.name,
-                            crate::error::short(&domain.to_ascii_lowercase())
-                        ),
-                    ));
-                    failed = true;
-                    break;
-                }
-                match reader.read(&own, &lent) {
-                    Ok(case) => {
-                        for w in &case.warnings {
-                            if !warnings.contains(w) {
-                                warnings.push(w.clone());
-                            }
-                        }
-                        row.push(Cell::with_terms(Arc::clone(&case.sync), n, case.terms));
+            // Each piece with its length, so that no two different rows run together into
+            // the same key whatever their cells hold.
+            row_key.clear();
+            let pieces = own.iter().flat_map(|(k, t)| [*k, *t]);
+            for piece in pieces.chain([class, domain, launch]) {
+                row_key.extend_from_slice(&(piece.len() as u64).to_le_bytes());
+                row_key.extend_from_slice(piece.as_bytes());
+            }
+            if !same_rows.contains_key(row_key.as_slice()) {
+                match read_at_corners(&own, class, domain, launch, &corners, &mut reader) {
+                    Ok(read) => {
+                        same_rows.insert(row_key.clone(), read);
                     }
-                    Err(errors) => {
-                        for e in &errors.0 {
-                            let lendable = [
-                                sync::TAU.name,
-                                sync::TW.name,
-                                sync::TSU.name,
-                                sync::TCQ.name,
-                            ];
-                            let missing =
-                                e.kind == ParamErrorKind::Missing && lendable.contains(&e.field);
-                            // A corner of the table without a value the rows need: said
-                            // once, at the corner's line, not at every row.
-                            if let (true, Some(_)) = (missing, c.line) {
-                                let at = corner_needs.entry((ci, e.field)).or_insert((*line, 0));
-                                at.1 += 1;
-                                continue;
+                    Err(failures) => {
+                        for f in failures {
+                            match f {
+                                RowFailure::Problem(columns, m) => problems.push(here(&columns, m)),
+                                RowFailure::CornerNeeds(ci, field) => {
+                                    let at = corner_needs.entry((ci, field)).or_insert((*line, 0));
+                                    at.1 += 1;
+                                }
                             }
-                            let m = if missing {
-                                "a value is required, in the row or the corner".to_string()
-                            } else {
-                                message_of(e)
-                            };
-                            problems.push(if lent_error(e, &own, &lent) {
-                                here(
-                                    &[e.field],
-                                    format!("at corner {}, with the corner's value: {m}", c.name),
-                                )
-                            } else {
-                                here(&[e.field], m)
-                            });
                         }
-                        failed = true;
-                        break;
+                        continue;
                     }
                 }
             }
-            if failed {
+            let Some((cases, warnings)) = same_rows.get(row_key.as_slice()) else {
                 continue;
-            }
-            // Beyond the characterised range: the farthest corner, said once per row.
-            let far = row
+            };
+            let row: Vec<Cell> = cases
                 .iter()
-                .zip(&corners)
-                .filter_map(|(cell, c)| {
-                    let tr = cell.sync.resolution_time();
-                    c.tr_max
-                        .filter(|m| tr > *m)
-                        .map(|m| (tr / m, tr, m, &c.name))
-                })
-                .fold(
-                    None,
-                    |best: Option<(f64, f64, f64, &String)>, x| match best {
-                        Some(b) if b.0 >= x.0 => Some(b),
-                        _ => Some(x),
-                    },
-                );
-            if let Some((_, tr, m, name)) = far {
-                if let Some(e) = crate::crossing::input::extrapolation(tr, m) {
-                    warnings.push(format!("At corner {name}: {e}"));
-                }
-            }
+                .map(|case| Cell::with_terms(Arc::clone(&case.sync), n, case.terms))
+                .collect();
+            let warnings = warnings.clone();
             let sync0 = &row[0].sync;
             let st = sync0.stages();
             let trv = sync0.tr().is_some();
