@@ -179,11 +179,11 @@ impl RowReader {
     ) -> Result<Arc<RowCase>, ParamErrors> {
         let key = &mut self.key;
         key.clear();
-        for (k, t) in own {
-            key.extend_from_slice(k.as_bytes());
-            key.push(0);
-            key.extend_from_slice(t.as_bytes());
-            key.push(0);
+        // Each text with its length, so that no two different rows run together into the
+        // same key whatever their cells hold.
+        for piece in own.iter().flat_map(|(k, t)| [*k, *t]) {
+            key.extend_from_slice(&(piece.len() as u64).to_le_bytes());
+            key.extend_from_slice(piece.as_bytes());
         }
         let (w, t0) = lent.window.map_or((None, false), |(w, t0)| (Some(w), t0));
         for v in [lent.tau, w, lent.tsu, lent.tcq, lent.fclk, lent.flaunch] {
