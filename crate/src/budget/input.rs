@@ -416,8 +416,17 @@ fn lent_at(c: &Corner, class: &str, domain: &str, launch: &str) -> Lent {
     }
 }
 
-/// A design row read at every corner: its case at each, and its warnings.
-type RowRead = (Vec<Arc<RowCase>>, Vec<String>);
+/// A design row read at every corner, kept for the rows like it.
+struct RowRead {
+    /// Its case at each corner.
+    cases: Vec<Arc<RowCase>>,
+    /// Its warnings.
+    warnings: Vec<String>,
+    /// It gives its own tau or window, which no corner changes.
+    own_tau_or_window: bool,
+    /// It names a crossing kind other than plain data.
+    kind_given: bool,
+}
 
 /// Why a row could not be read at the corners: a problem at its line (columns and
 /// message), or a corner of the table that lacks a value the row needs.
@@ -436,7 +445,7 @@ fn read_at_corners(
     launch: &str,
     corners: &[Corner],
     reader: &mut RowReader,
-) -> Result<RowRead, Vec<RowFailure>> {
+) -> Result<(Vec<Arc<RowCase>>, Vec<String>), Vec<RowFailure>> {
     let has = |f: &str| own.iter().any(|(k, _)| *k == f);
     let mut cases: Vec<Arc<RowCase>> = Vec::with_capacity(corners.len());
     let mut warnings: Vec<String> = Vec::new();
@@ -702,41 +711,6 @@ impl BudgetCase {
             }
             let (class, domain, launch) =
                 (word(&classes, i), word(&domains, i), word(&launches, i));
-            let has = |f: &str| own.iter().any(|(k, _)| *k == f);
-            // A named domain must give the clock, or the row its own.
-            let missing = |base: &str, dom: &str| {
-                !dom.is_empty()
-                    && !corners
-                        .iter()
-                        .any(|c| c.at.contains_key(&at_key(base, dom)))
-            };
-            if missing("fclk", domain) && !has(sync::FCLK.name) {
-                problems.push(here(
-                    &["domain"],
-                    format!(
-                        "no corner gives fclk@{}, and the row gives no fclk",
-                        crate::error::short(&domain.to_ascii_lowercase())
-                    ),
-                ));
-                continue;
-            }
-            let signal = own
-                .iter()
-                .any(|(k, t)| *k == sync::CROSSING.name && t.eq_ignore_ascii_case("signal"));
-            if signal
-                && missing("flaunch", launch)
-                && missing("fclk", launch)
-                && !has(sync::FLAUNCH.name)
-            {
-                problems.push(here(
-                    &["launch_domain"],
-                    format!(
-                        "no corner gives flaunch@{0} or fclk@{0}, and the row gives no flaunch",
-                        crate::error::short(&launch.to_ascii_lowercase())
-                    ),
-                ));
-                continue;
-            }
             // Each piece with its length, so that no two different rows run together into
             // the same key whatever their cells hold.
             row_key.clear();
@@ -745,9 +719,61 @@ impl BudgetCase {
                 row_key.extend_from_slice(&(piece.len() as u64).to_le_bytes());
                 row_key.extend_from_slice(piece.as_bytes());
             }
+            // A row like one already read passed the same checks and reads the same.
             if !same_rows.contains_key(row_key.as_slice()) {
+                let has = |f: &str| own.iter().any(|(k, _)| *k == f);
+                // A named domain must give the clock, or the row its own.
+                let missing = |base: &str, dom: &str| {
+                    !dom.is_empty()
+                        && !corners
+                            .iter()
+                            .any(|c| c.at.contains_key(&at_key(base, dom)))
+                };
+                if missing("fclk", domain) && !has(sync::FCLK.name) {
+                    problems.push(here(
+                        &["domain"],
+                        format!(
+                            "no corner gives fclk@{}, and the row gives no fclk",
+                            crate::error::short(&domain.to_ascii_lowercase())
+                        ),
+                    ));
+                    continue;
+                }
+                let signal = own
+                    .iter()
+                    .any(|(k, t)| *k == sync::CROSSING.name && t.eq_ignore_ascii_case("signal"));
+                if signal
+                    && missing("flaunch", launch)
+                    && missing("fclk", launch)
+                    && !has(sync::FLAUNCH.name)
+                {
+                    problems.push(here(
+                        &["launch_domain"],
+                        format!(
+                            "no corner gives flaunch@{0} or fclk@{0}, and the row gives no flaunch",
+                            crate::error::short(&launch.to_ascii_lowercase())
+                        ),
+                    ));
+                    continue;
+                }
                 match read_at_corners(&own, class, domain, launch, &corners, &mut reader) {
-                    Ok(read) => {
+                    Ok((cases, warnings)) => {
+                        let read = RowRead {
+                            cases,
+                            warnings,
+                            own_tau_or_window: [
+                                sync::TAU.name,
+                                sync::TAU_MASTER.name,
+                                sync::TAU_SLAVE.name,
+                                sync::TW.name,
+                                sync::T0.name,
+                            ]
+                            .iter()
+                            .any(|f| has(f)),
+                            kind_given: own.iter().any(|(k, t)| {
+                                *k == sync::CROSSING.name && !t.eq_ignore_ascii_case("data")
+                            }),
+                        };
                         same_rows.insert(row_key.clone(), read);
                     }
                     Err(failures) => {
@@ -764,14 +790,15 @@ impl BudgetCase {
                     }
                 }
             }
-            let Some((cases, warnings)) = same_rows.get(row_key.as_slice()) else {
+            let Some(read) = same_rows.get(row_key.as_slice()) else {
                 continue;
             };
-            let row: Vec<Cell> = cases
+            let row: Vec<Cell> = read
+                .cases
                 .iter()
                 .map(|case| Cell::with_terms(Arc::clone(&case.sync), n, case.terms))
                 .collect();
-            let warnings = warnings.clone();
+            let warnings = read.warnings.clone();
             let sync0 = &row[0].sync;
             let st = sync0.stages();
             let trv = sync0.tr().is_some();
@@ -789,12 +816,7 @@ impl BudgetCase {
                     ));
                 }
             }
-            if has(sync::TAU.name)
-                || has(sync::TAU_MASTER.name)
-                || has(sync::TAU_SLAVE.name)
-                || has(sync::TW.name)
-                || has(sync::T0.name)
-            {
+            if read.own_tau_or_window {
                 fixed.push(names[i].clone());
             }
             cells.push(row);
@@ -804,10 +826,7 @@ impl BudgetCase {
             caps.push(most.map_or(MAX_STAGES, |m| m as u32));
             tr_given.push(trv);
             row_warnings.push(warnings);
-            kind_given.push(
-                own.iter()
-                    .any(|(k, t)| *k == sync::CROSSING.name && !t.eq_ignore_ascii_case("data")),
-            );
+            kind_given.push(read.kind_given);
         }
         reader.finish();
         if !problems.is_empty() {
