@@ -436,8 +436,8 @@ enum RowFailure {
 }
 
 /// A design row read at every corner: its case at each (the synchronizer's reader and
-/// model) and its warnings, the farthest extrapolation beyond a corner's characterised
-/// range among them; or why it cannot be read.
+/// model), its warnings (the farthest extrapolation beyond a corner's characterised range
+/// among them) and its flags; or why it cannot be read.
 fn read_at_corners(
     own: &[(&'static str, &str)],
     class: &str,
@@ -445,7 +445,7 @@ fn read_at_corners(
     launch: &str,
     corners: &[Corner],
     reader: &mut RowReader,
-) -> Result<(Vec<Arc<RowCase>>, Vec<String>), Vec<RowFailure>> {
+) -> Result<RowRead, Vec<RowFailure>> {
     let has = |f: &str| own.iter().any(|(k, _)| *k == f);
     let mut cases: Vec<Arc<RowCase>> = Vec::with_capacity(corners.len());
     let mut warnings: Vec<String> = Vec::new();
@@ -526,7 +526,24 @@ fn read_at_corners(
             warnings.push(format!("At corner {name}: {e}"));
         }
     }
-    Ok((cases, warnings))
+    let own_tau_or_window = [
+        sync::TAU.name,
+        sync::TAU_MASTER.name,
+        sync::TAU_SLAVE.name,
+        sync::TW.name,
+        sync::T0.name,
+    ]
+    .iter()
+    .any(|f| has(f));
+    let kind_given = own
+        .iter()
+        .any(|(k, t)| *k == sync::CROSSING.name && !t.eq_ignore_ascii_case("data"));
+    Ok(RowRead {
+        cases,
+        warnings,
+        own_tau_or_window,
+        kind_given,
+    })
 }
 
 impl BudgetCase {
@@ -757,23 +774,7 @@ impl BudgetCase {
                     continue;
                 }
                 match read_at_corners(&own, class, domain, launch, &corners, &mut reader) {
-                    Ok((cases, warnings)) => {
-                        let read = RowRead {
-                            cases,
-                            warnings,
-                            own_tau_or_window: [
-                                sync::TAU.name,
-                                sync::TAU_MASTER.name,
-                                sync::TAU_SLAVE.name,
-                                sync::TW.name,
-                                sync::T0.name,
-                            ]
-                            .iter()
-                            .any(|f| has(f)),
-                            kind_given: own.iter().any(|(k, t)| {
-                                *k == sync::CROSSING.name && !t.eq_ignore_ascii_case("data")
-                            }),
-                        };
+                    Ok(read) => {
                         same_rows.insert(row_key.clone(), read);
                     }
                     Err(failures) => {
