@@ -210,24 +210,31 @@ for (const size of only === '' || only === 'fit' ? [3000] : []) {
 // Pasting 3.2 MB of design (100,000 rows) into the budget page: from the paste to the
 // results and the table on screen.
 for (const size of only === '' || only === 'budget' ? [100000] : []) {
-  const { context, page } = await open(browser, fileUrl('budget.html'));
-  const took = await page.evaluate(async (size) => {
-    const clocks = ['1.2GHz', '400MHz', '125MHz'];
-    const rates = ['1kHz', '1MHz', '20MHz', '100MHz'];
-    let t = 'name,fclk,fdata,stages,count\n';
-    for (let i = 0; i < size; i++) t += `crossing_${i},${clocks[i % 3]},${rates[i % 4]},${[2, 2, 2, 3][i % 4]},${[1, 1, 8, 32][i % 4]}\n`;
-    const area = document.querySelector('[name=design]');
-    const before = document.body.dataset.drawnAt;
-    const t0 = performance.now();
-    area.value = t;
-    area.dispatchEvent(new Event('input', { bubbles: true }));
-    const frame = () => new Promise((r) => requestAnimationFrame(() => r()));
-    while (document.body.dataset.drawnAt === before) await frame();
-    return { ms: performance.now() - t0, chars: t.length };
-  }, size);
-  rows.push([`budget.html, pasting ${(took.chars / 1e6).toFixed(1)} MB (${size.toLocaleString('en-US')} rows) to results and plots on screen`,
-    `${took.ms.toFixed(0)} ms`]);
-  await context.close();
+  // Five new tabs, the median: the first paste of a run is often the slowest.
+  const samples = [];
+  let chars = 0;
+  for (let k = 0; k < 5; k++) {
+    const { context, page } = await open(browser, fileUrl('budget.html'));
+    const took = await page.evaluate(async (size) => {
+      const clocks = ['1.2GHz', '400MHz', '125MHz'];
+      const rates = ['1kHz', '1MHz', '20MHz', '100MHz'];
+      let t = 'name,fclk,fdata,stages,count\n';
+      for (let i = 0; i < size; i++) t += `crossing_${i},${clocks[i % 3]},${rates[i % 4]},${[2, 2, 2, 3][i % 4]},${[1, 1, 8, 32][i % 4]}\n`;
+      const area = document.querySelector('[name=design]');
+      const before = document.body.dataset.drawnAt;
+      const t0 = performance.now();
+      area.value = t;
+      area.dispatchEvent(new Event('input', { bubbles: true }));
+      const frame = () => new Promise((r) => requestAnimationFrame(() => r()));
+      while (document.body.dataset.drawnAt === before) await frame();
+      return { ms: performance.now() - t0, chars: t.length };
+    }, size);
+    samples.push(took.ms);
+    chars = took.chars;
+    await context.close();
+  }
+  rows.push([`budget.html, pasting ${(chars / 1e6).toFixed(1)} MB (${size.toLocaleString('en-US')} rows) to results and plots on screen (median of 5 new tabs)`,
+    `${median(samples).toFixed(0)} ms (${samples.map((x) => x.toFixed(0)).join(', ')})`]);
 }
 for (const size of only === '' || only === 'budget' ? [1000, 10000] : []) {
   const label = `budget.html, ${size.toLocaleString('en-US')}-row design`;
