@@ -273,13 +273,13 @@
       }).observe(scroll);
     }
 
-    // The rows in view (and a few beyond). Rows already in the page are updated where
-    // they are, so that typing in a cell is never interrupted by a redraw.
     // The first draw comes before the page's first paint, which shows the first results:
     // it sizes the table for its rows and draws none, and the rows follow once that frame
     // is on screen (as the plots do).
     var drawnOnce = false;
 
+    // The rows in view (and a few beyond). Rows already in the page are updated where
+    // they are, so that typing in a cell is never interrupted by a redraw.
     function drawRows() {
       var later = !drawnOnce;
       if (later) {
