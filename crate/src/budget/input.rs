@@ -693,8 +693,9 @@ impl BudgetCase {
         // domains) read the same at every corner: a design's rows mostly repeat a few
         // clocks, rates and depths, so each distinct row is read at the corners once, and
         // a row like it takes its cases and warnings (its count and width are its own).
-        let mut same_rows: crate::table::TextMap<Vec<u8>, RowRead> =
-            crate::table::TextMap::default();
+        // The distinct rows read, and where each is by its key (one lookup per row).
+        let mut reads: Vec<RowRead> = Vec::new();
+        let mut same_rows: crate::table::TextMap<Vec<u8>, usize> = crate::table::TextMap::default();
         let mut row_key: Vec<u8> = Vec::new();
         for (i, line) in table.lines.iter().enumerate() {
             let here =
@@ -737,7 +738,9 @@ impl BudgetCase {
                 row_key.extend_from_slice(piece.as_bytes());
             }
             // A row like one already read passed the same checks and reads the same.
-            if !same_rows.contains_key(row_key.as_slice()) {
+            let k = if let Some(&k) = same_rows.get(row_key.as_slice()) {
+                k
+            } else {
                 let has = |f: &str| own.iter().any(|(k, _)| *k == f);
                 // A named domain must give the clock, or the row its own.
                 let missing = |base: &str, dom: &str| {
@@ -775,7 +778,9 @@ impl BudgetCase {
                 }
                 match read_at_corners(&own, class, domain, launch, &corners, &mut reader) {
                     Ok(read) => {
-                        same_rows.insert(row_key.clone(), read);
+                        reads.push(read);
+                        same_rows.insert(row_key.clone(), reads.len() - 1);
+                        reads.len() - 1
                     }
                     Err(failures) => {
                         for f in failures {
@@ -790,10 +795,8 @@ impl BudgetCase {
                         continue;
                     }
                 }
-            }
-            let Some(read) = same_rows.get(row_key.as_slice()) else {
-                continue;
             };
+            let read = &reads[k];
             let row: Vec<Cell> = read
                 .cases
                 .iter()
