@@ -7,7 +7,7 @@ use std::io::Write;
 use serde_json::ser::{CompactFormatter, Formatter, PrettyFormatter};
 use std::process::ExitCode;
 
-use latchwise::calculator::{Calculator, Outcome, TextTable, Visit};
+use latchwise::calculator::{Calculator, Outcome, RowsApart, TextTable, Visit};
 use latchwise::error::ParamErrorKind;
 use latchwise::reliability::CAUTION;
 
@@ -134,7 +134,7 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
         }
         return ExitCode::from(EXIT_BAD_INPUT);
     }
-    let report = C::evaluate(&case);
+    let mut report = C::evaluate(&case);
     let outcome = C::outcome(&report);
     if let Some(path) = &parsed.results {
         let Some(csv) = C::results_csv(&case, &report) else {
@@ -151,20 +151,8 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
     }
     if parsed.json {
         // The report with its audit stamp: the version and the inputs' digest first.
-        #[derive(serde::Serialize)]
-        struct Stamped<'a, R: serde::Serialize> {
-            version: &'static str,
-            input_sha256: &'a str,
-            #[serde(flatten)]
-            report: &'a R,
-        }
         let digest = std::mem::take(&mut parsed.input_sha256).hex();
-        let stamped = Stamped {
-            version: env!("CARGO_PKG_VERSION"),
-            input_sha256: &digest,
-            report: &report,
-        };
-        if let Err(e) = say_json(&stamped) {
+        if let Err(e) = C::rows_apart(&mut report, JsonOut { digest: &digest }) {
             complain(&format!("latchwise {name}: cannot write JSON: {e}"));
             return ExitCode::from(EXIT_BAD_INPUT);
         }
@@ -235,13 +223,179 @@ pub fn say(text: &str) {
 /// A value that cannot be serialised.
 pub fn say_json(value: &impl serde::Serialize) -> Result<(), serde_json::Error> {
     let out = std::io::BufWriter::with_capacity(1 << 16, std::io::stdout().lock());
-    let mut ser = serde_json::Serializer::with_formatter(out, Inert(PrettyFormatter::new(), 0));
-    match value.serialize(&mut ser) {
-        Err(e) if e.is_io() => return Ok(()),
-        r => r?,
+    match write_json(out, value) {
+        Err(e) if e.is_io() => Ok(()),
+        r => r,
     }
+}
+
+/// `value` as [`say_json`] writes it, to `out`, with a line end.
+///
+/// # Errors
+/// A value that cannot be serialised, or an output that fails.
+fn write_json<W: Write>(out: W, value: &impl serde::Serialize) -> Result<(), serde_json::Error> {
+    let mut ser = serde_json::Serializer::with_formatter(out, Inert(PrettyFormatter::new(), 0));
+    value.serialize(&mut ser)?;
     let mut out = ser.into_inner();
-    let _ = out.write_all(b"\n").and_then(|()| out.flush());
+    out.write_all(b"\n")
+        .and_then(|()| out.flush())
+        .map_err(serde_json::Error::io)
+}
+
+/// A report as `--json` writes it: its audit stamp (the version and the inputs' digest)
+/// first.
+#[derive(serde::Serialize)]
+struct Stamped<'a, R: serde::Serialize> {
+    version: &'static str,
+    input_sha256: &'a str,
+    #[serde(flatten)]
+    report: &'a R,
+}
+
+/// Writes a report as `--json` does, its bulk rows (if it has them apart) on more than
+/// one thread.
+struct JsonOut<'a> {
+    digest: &'a str,
+}
+
+impl<R: serde::Serialize> RowsApart<R> for JsonOut<'_> {
+    type Out = Result<(), serde_json::Error>;
+
+    fn whole(self, report: &R) -> Self::Out {
+        say_json(&Stamped {
+            version: env!("CARGO_PKG_VERSION"),
+            input_sha256: self.digest,
+            report,
+        })
+    }
+
+    fn apart<T: serde::Serialize + Sync>(
+        self,
+        rest: &R,
+        key: &'static str,
+        rows: &[T],
+    ) -> Self::Out {
+        let stamped = Stamped {
+            version: env!("CARGO_PKG_VERSION"),
+            input_sha256: self.digest,
+            report: rest,
+        };
+        let out = std::io::BufWriter::with_capacity(1 << 16, std::io::stdout().lock());
+        match write_json_apart(out, &stamped, key, rows) {
+            Err(e) if e.is_io() => Ok(()),
+            r => r,
+        }
+    }
+}
+
+/// The rows written at a time by each of the two writers of [`write_json_apart`] (about
+/// 1.4 MB of a budget's rows).
+const ROWS_PER_BLOCK: usize = 4096;
+
+/// Writes `rest` as [`say_json`] does, with `rows` in place of its empty array under
+/// `key` (a key at the top level): the same bytes as writing the whole report at once,
+/// with the rows written by two threads in turns, block by block: this one writes its
+/// blocks straight out, the other into two buffers that this one writes out between its
+/// own (buffers used again, so that the memory stays small and warm).
+///
+/// # Errors
+/// A value that cannot be serialised, an output that fails, or `rest` without an empty
+/// array under `key`.
+pub fn write_json_apart<W: Write, R: serde::Serialize, T: serde::Serialize + Sync>(
+    mut out: W,
+    rest: &R,
+    key: &str,
+    rows: &[T],
+) -> Result<(), serde_json::Error> {
+    use serde::ser::Error;
+    let mut head = Vec::new();
+    rest.serialize(&mut serde_json::Serializer::with_formatter(
+        &mut head,
+        Inert(PrettyFormatter::new(), 0),
+    ))?;
+    // The top level's keys are on lines of their own, indented by two spaces; a string
+    // cannot hold a raw line break, so this is the key itself.
+    let marker = format!("\n  \"{key}\": []");
+    let Some(at) = head
+        .windows(marker.len())
+        .position(|w| w == marker.as_bytes())
+    else {
+        return Err(serde_json::Error::custom(format!(
+            "the report has no empty '{key}' to fill"
+        )));
+    };
+    let bracket = at + marker.len() - 1;
+    let io = serde_json::Error::io;
+    out.write_all(&head[..bracket]).map_err(io)?;
+    if !rows.is_empty() {
+        let blocks: Vec<&[T]> = rows.chunks(ROWS_PER_BLOCK).collect();
+        let two =
+            blocks.len() > 1 && std::thread::available_parallelism().is_ok_and(|n| n.get() > 1);
+        std::thread::scope(|s| -> Result<(), serde_json::Error> {
+            // The other writer takes the odd blocks; its buffers come back to it once
+            // written out. Either side stopping (an error, a reader gone) stops the other.
+            let (full_tx, full_rx) =
+                std::sync::mpsc::sync_channel::<Result<Vec<u8>, serde_json::Error>>(2);
+            let (free_tx, free_rx) = std::sync::mpsc::channel::<Vec<u8>>();
+            let helper = if two {
+                for _ in 0..2 {
+                    let _ = free_tx.send(Vec::new());
+                }
+                let odd = &blocks;
+                std::thread::Builder::new()
+                    .spawn_scoped(s, move || {
+                        for k in (1..odd.len()).step_by(2) {
+                            let Ok(mut buf) = free_rx.recv() else { return };
+                            buf.clear();
+                            let done =
+                                write_rows(&mut buf, odd[k], k * ROWS_PER_BLOCK).map(|()| buf);
+                            if full_tx.send(done).is_err() {
+                                return;
+                            }
+                        }
+                    })
+                    .is_ok()
+            } else {
+                false
+            };
+            for (k, block) in blocks.iter().enumerate() {
+                if helper && k % 2 == 1 {
+                    let buf = full_rx
+                        .recv()
+                        .map_err(|_| serde_json::Error::custom("a JSON writer thread failed"))??;
+                    out.write_all(&buf).map_err(io)?;
+                    let _ = free_tx.send(buf);
+                } else {
+                    write_rows(&mut out, block, k * ROWS_PER_BLOCK)?;
+                }
+            }
+            Ok(())
+        })?;
+        out.write_all(b"\n  ").map_err(io)?;
+    }
+    out.write_all(&head[bracket..]).map_err(io)?;
+    out.write_all(b"\n").and_then(|()| out.flush()).map_err(io)
+}
+
+/// Rows of the report's top-level array, as [`Inert`] lays them out: a line each, the
+/// first of the whole array (`first` is the index of `rows[0]` in it) without a comma.
+fn write_rows<W: Write, T: serde::Serialize>(
+    w: &mut W,
+    rows: &[T],
+    first: usize,
+) -> Result<(), serde_json::Error> {
+    for (i, row) in rows.iter().enumerate() {
+        let sep: &[u8] = if first + i == 0 {
+            b"\n    "
+        } else {
+            b",\n    "
+        };
+        w.write_all(sep).map_err(serde_json::Error::io)?;
+        row.serialize(&mut serde_json::Serializer::with_formatter(
+            &mut *w,
+            Inert(PrettyFormatter::new(), COMPACT_FROM),
+        ))?;
+    }
     Ok(())
 }
 
@@ -467,4 +621,97 @@ pub fn text_report(title: &str, o: &Outcome, table: Option<&TextTable>) -> Strin
     }
     s.push_str(&format!("Caution: {CAUTION}\n"));
     s
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[derive(serde::Serialize)]
+    struct Row {
+        name: String,
+        x: f64,
+        corners: Vec<(String, f64)>,
+    }
+
+    #[derive(serde::Serialize)]
+    struct Report {
+        title: String,
+        nested: Vec<std::collections::BTreeMap<String, Vec<u8>>>,
+        rows: Vec<Row>,
+        after: Option<Vec<u32>>,
+    }
+
+    /// The rows written apart, by two threads in blocks, give the bytes of the whole
+    /// report written at once: for no row, one, a block and one either side of it, and
+    /// several blocks, odd and even in number; with names holding control characters,
+    /// quotes and the key's own text (escaped inside a string, so never taken for it).
+    #[test]
+    fn rows_written_apart_are_the_bytes_of_the_whole_report() {
+        let names = [
+            "plain",
+            "line\n  \"rows\": []",
+            "del\u{7f} c1\u{85} esc\u{1b}",
+            "quote\" back\\",
+            "",
+        ];
+        for n in [
+            0,
+            1,
+            2,
+            ROWS_PER_BLOCK - 1,
+            ROWS_PER_BLOCK,
+            ROWS_PER_BLOCK + 1,
+            2 * ROWS_PER_BLOCK + 7,
+            3 * ROWS_PER_BLOCK,
+        ] {
+            let rows: Vec<Row> = (0..n)
+                .map(|i| Row {
+                    name: format!("{}{i}", names[i % names.len()]),
+                    x: (i as f64).mul_add(0.1, -3.0) * 1e-7,
+                    corners: vec![("slow\u{9f}".into(), -(i as f64)), ("fast".into(), 1.5)],
+                })
+                .collect();
+            let mut nested = std::collections::BTreeMap::new();
+            nested.insert("rows".to_string(), Vec::new());
+            let mut report = Report {
+                title: "a\n  \"rows\": []".into(),
+                nested: vec![nested],
+                rows,
+                after: Some(vec![1, 2]),
+            };
+            let mut whole = Vec::new();
+            write_json(&mut whole, &report).unwrap();
+            let rows = std::mem::take(&mut report.rows);
+            let mut apart = Vec::new();
+            write_json_apart(&mut apart, &report, "rows", &rows).unwrap();
+            assert!(
+                whole == apart,
+                "{n} rows:\n{}\n---\n{}",
+                String::from_utf8_lossy(&whole),
+                String::from_utf8_lossy(&apart)
+            );
+            let v: serde_json::Value = serde_json::from_slice(&apart).unwrap();
+            assert_eq!(v["rows"].as_array().map(Vec::len), Some(n));
+        }
+    }
+
+    /// A report without an empty array under the key is refused, not written short.
+    #[test]
+    fn rows_apart_need_their_empty_array() {
+        let report = Report {
+            title: String::new(),
+            nested: Vec::new(),
+            rows: Vec::new(),
+            after: None,
+        };
+        let rows = [Row {
+            name: "a".into(),
+            x: 1.0,
+            corners: Vec::new(),
+        }];
+        let mut out = Vec::new();
+        let e = write_json_apart(&mut out, &report, "crossings", &rows).unwrap_err();
+        assert!(e.to_string().contains("no empty 'crossings'"), "{e}");
+    }
 }

@@ -92,6 +92,24 @@ pub trait Calculator: 'static {
     fn text_table(_report: &Self::Report, _most: Option<usize>) -> Option<TextTable> {
         None
     }
+
+    /// Hands the report to `w` with its bulk rows (the budget's crossings) apart from the
+    /// rest, so that a writer can put the rows out on more than one thread; a report
+    /// without bulk rows goes whole (the default). The report is as it was afterwards.
+    fn rows_apart<W: RowsApart<Self::Report>>(report: &mut Self::Report, w: W) -> W::Out {
+        w.whole(report)
+    }
+}
+
+/// A writer of a report that may take its bulk rows apart (see
+/// [`Calculator::rows_apart`]).
+pub trait RowsApart<R> {
+    /// What writing gives.
+    type Out;
+    /// The report with nothing apart.
+    fn whole(self, report: &R) -> Self::Out;
+    /// The report with the array under `key` left empty, and that array's `rows`.
+    fn apart<T: Serialize + Sync>(self, rest: &R, key: &'static str, rows: &[T]) -> Self::Out;
 }
 
 /// A table of the command's text report (see [`Calculator::text_table`]).

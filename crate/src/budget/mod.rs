@@ -11,7 +11,7 @@ pub mod report;
 pub mod rollup;
 pub mod row;
 
-use crate::calculator::{Calculator, Outcome, RowFigures, TextTable};
+use crate::calculator::{Calculator, Outcome, RowFigures, RowsApart, TextTable};
 use crate::chart::Plot;
 use crate::error::ParamErrors;
 use crate::params::{FieldSpec, RawInputs};
@@ -111,5 +111,12 @@ Example:
 
     fn text_table(report: &BudgetReport, most: Option<usize>) -> Option<TextTable> {
         Some(report::text_table(report, most))
+    }
+
+    fn rows_apart<W: RowsApart<BudgetReport>>(report: &mut BudgetReport, w: W) -> W::Out {
+        let rows = std::mem::take(&mut report.rows);
+        let out = w.apart(report, "rows", &rows);
+        report.rows = rows;
+        out
     }
 }
