@@ -139,8 +139,28 @@ fn bench(c: &mut Criterion) {
     });
     g.bench_function("fix_plan", |b| b.iter(|| black_box(&case).rollup.fix(1.0)));
     let report = BudgetCalculator::evaluate(&case);
-    g.bench_function("json_report", |b| {
-        b.iter(|| serde_json::to_vec_pretty(black_box(&report)).unwrap())
+    // A budget's rows as JSON into a buffer: by their own code (as the command writes
+    // them), and through serde_json, side by side.
+    g.bench_function("json_rows_by_hand", |b| {
+        b.iter(|| {
+            let mut v = Vec::with_capacity(4 << 20);
+            for r in &black_box(&report).rows {
+                latchwise::json_line::JsonLine::json_line(
+                    r,
+                    &mut latchwise::json_line::Line(&mut v),
+                );
+            }
+            v
+        })
+    });
+    g.bench_function("json_rows_serde", |b| {
+        b.iter(|| {
+            let mut v = Vec::with_capacity(4 << 20);
+            for r in &black_box(&report).rows {
+                serde_json::to_writer(&mut v, r).unwrap();
+            }
+            v
+        })
     });
     g.bench_function("percentiles", |b| {
         b.iter(|| black_box(&case).rollup.percentiles(0.05, 0.3, &[0.5, 0.95]))

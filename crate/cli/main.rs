@@ -3,6 +3,7 @@
 
 mod args;
 mod drive;
+mod json;
 
 use std::io::Write;
 use std::process::ExitCode;

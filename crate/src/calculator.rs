@@ -7,6 +7,7 @@ use serde::Serialize;
 
 use crate::chart::Plot;
 use crate::error::{ParamError, ParamErrors};
+use crate::json_line::JsonLine;
 use crate::params::{FieldSpec, RawInputs};
 use crate::readout::Readout;
 
@@ -109,7 +110,7 @@ pub trait RowsApart<R> {
     /// The report with nothing apart.
     fn whole(self, report: &R) -> Self::Out;
     /// The report with the array under `key` left empty, and that array's `rows`.
-    fn apart<T: Serialize + Sync>(self, rest: &R, key: &'static str, rows: &[T]) -> Self::Out;
+    fn apart<T: JsonLine + Sync>(self, rest: &R, key: &'static str, rows: &[T]) -> Self::Out;
 }
 
 /// A table of the command's text report (see [`Calculator::text_table`]).

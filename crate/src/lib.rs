@@ -34,6 +34,7 @@ pub mod converter;
 pub mod crossing;
 pub mod digest;
 pub mod error;
+pub mod json_line;
 pub mod latch;
 pub mod link;
 pub mod numeric;
