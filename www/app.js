@@ -276,8 +276,13 @@
 
   // Plots of a query (a string) or of query parts (see queryParts).
   function drawOnce(q, dpr) {
-    var drawn = typeof q === 'string' ? wasm_bindgen.draw(page, q, dpr)
-      : wasm_bindgen.draw_with(page, q.plain, q.names, q.texts, dpr);
+    // The query just computed is drawn from the core's evaluation of it, by number,
+    // without handing the core its tables again; any other query, by its parts.
+    var drawn = q === computed.q ? wasm_bindgen.draw_evaluation(page, computed.id, dpr) : undefined;
+    if (drawn === undefined || drawn === null) {
+      drawn = typeof q === 'string' ? wasm_bindgen.draw(page, q, dpr)
+        : wasm_bindgen.draw_with(page, q.plain, q.names, q.texts, dpr);
+    }
     each('.plots canvas', function (c) {
       c.dataset.drawn = drawn.indexOf(c.id) >= 0 ? 'yes' : 'no';
       c.parentNode.dataset.stale = c.dataset.drawn === 'yes' ? 'no' : 'yes';
@@ -320,11 +325,17 @@
     });
   }
 
+  // The query last computed, and the number of the core's evaluation of it.
+  var computed = { q: null, id: 0 };
+
   // Numbers of a query (a string: a link as given) or of query parts (the form).
   function compute(q) {
     try {
-      render(typeof q === 'string' ? wasm_bindgen.page(page, q)
-        : wasm_bindgen.page_with(page, q.plain, q.names, q.texts));
+      var state = typeof q === 'string' ? wasm_bindgen.page(page, q)
+        : wasm_bindgen.page_with(page, q.plain, q.names, q.texts);
+      computed = { q: q, id: state.evaluation };
+      document.body.dataset.evaluation = String(state.evaluation);
+      render(state);
       document.body.dataset.computes = String((Number(document.body.dataset.computes) || 0) + 1);
       return true;
     } catch (e) {

@@ -17,7 +17,7 @@ use web_sys::CanvasRenderingContext2d;
 use web_sys::HtmlCanvasElement;
 
 use std::any::Any;
-use std::cell::RefCell;
+use std::cell::{Cell, RefCell};
 use std::rc::Rc;
 
 use crate::calculator::{
@@ -68,6 +68,8 @@ struct PageState {
     figures: Vec<RowFigures>,
     /// The calculator's short table of results, on pages that show one.
     table: Option<crate::calculator::TextTable>,
+    /// The evaluation it comes from, by number, for [`draw_evaluation`].
+    evaluation: u32,
 }
 
 /// The most unknown link parameters the page names; the rest are counted.
@@ -133,6 +135,8 @@ fn unknown(name: &str) -> JsError {
 
 /// A query as calculator `C` reads and evaluates it.
 struct Evaluation<C: Calculator> {
+    /// Its number: each new evaluation has the next.
+    id: u32,
     raw: RawInputs,
     result: Result<(C::Case, C::Report), ParamErrors>,
 }
@@ -169,6 +173,8 @@ thread_local! {
     /// draws its plots from the same query in the next frame, and a large design is read
     /// and evaluated once for both.
     static LAST: RefCell<Remembered> = const { RefCell::new(None) };
+    /// The number of the next new evaluation.
+    static NEXT_EVALUATION: Cell<u32> = const { Cell::new(1) };
 }
 
 /// Calculator `C`'s evaluation of `given`, from the last one when it is the same.
@@ -188,7 +194,12 @@ fn evaluation<C: Calculator>(given: Given) -> Rc<Evaluation<C>> {
             let report = C::evaluate(&case);
             (case, report)
         });
-        let e = Rc::new(Evaluation::<C> { raw, result });
+        let id = NEXT_EVALUATION.with(|n| {
+            let id = n.get();
+            n.set(id.wrapping_add(1));
+            id
+        });
+        let e = Rc::new(Evaluation::<C> { id, raw, result });
         let value: Rc<dyn Any> = e.clone();
         let key = (
             given.query.to_string(),
@@ -244,6 +255,7 @@ impl Visit for Page<'_> {
             caution: CAUTION,
             figures: Vec::new(),
             table: None,
+            evaluation: e.id,
         };
         if let Ok((case, report)) = &e.result {
             state.figures = C::figures(case, report);
@@ -381,13 +393,55 @@ pub fn draw_with(
 
 fn draw_given(name: &str, given: Given, scale: f64) -> Result<Vec<String>, JsError> {
     let plots = dispatch(name, Plots(given)).ok_or_else(|| unknown(name))?;
+    draw_plots(&plots, scale)
+}
+
+/// Draws `plots` into the canvases of their ids; the ids drawn.
+fn draw_plots(plots: &[Plot], scale: f64) -> Result<Vec<String>, JsError> {
     let mut drawn = Vec::new();
-    for plot in &plots {
+    for plot in plots {
         if draw_into(plot, plot.id, scale)? {
             drawn.push(plot.id.to_string());
         }
     }
     Ok(drawn)
+}
+
+/// The plots of calculator `C`'s evaluation number `id`, when it is still the last one.
+struct LastPlots(u32);
+
+impl Visit for LastPlots {
+    type Out = Option<Vec<Plot>>;
+
+    fn visit<C: Calculator>(self) -> Option<Vec<Plot>> {
+        let e = LAST.with(|last| match &*last.borrow() {
+            Some((name, _, value)) if *name == C::NAME => {
+                Rc::clone(value).downcast::<Evaluation<C>>().ok()
+            }
+            _ => None,
+        })?;
+        if e.id != self.0 {
+            return None;
+        }
+        Some(match &e.result {
+            Ok((case, report)) => C::plots(case, report),
+            Err(_) => Vec::new(),
+        })
+    }
+}
+
+/// [`draw`] for the evaluation a page state just came from (its `evaluation` number), so
+/// that a large design is not handed to the core again to draw its plots: `None` when
+/// that evaluation is no longer the last one (the page then draws with [`draw_with`]).
+///
+/// # Errors
+/// As [`draw`].
+#[wasm_bindgen]
+pub fn draw_evaluation(name: &str, id: u32, scale: f64) -> Result<Option<Vec<String>>, JsError> {
+    let Some(plots) = dispatch(name, LastPlots(id)).ok_or_else(|| unknown(name))? else {
+        return Ok(None);
+    };
+    draw_plots(&plots, scale).map(Some)
 }
 
 struct Csv<'a> {

@@ -65,6 +65,44 @@ test('a cell edited in the table changes its line of the CSV and the results, as
   await context.close();
 });
 
+test('an edit draws its plots from the evaluation that gave its numbers, without handing the core the tables again', async () => {
+  const { context, page, problems } = await open(env.browser, fileUrl('budget.html'));
+  await page.evaluate(() => {
+    window.calls = { draw_with: 0, draw: 0, draw_evaluation: 0 };
+    for (const name of Object.keys(window.calls)) {
+      const real = wasm_bindgen[name];
+      wasm_bindgen[name] = function () { window.calls[name]++; return real.apply(this, arguments); };
+    }
+  });
+  const drawnAt = await page.evaluate(() => document.body.dataset.drawnAt);
+  await fill(page, cell(0, 4), '160');
+  await page.waitForFunction((t) => document.body.dataset.drawnAt !== t, drawnAt);
+  const calls = await page.evaluate(() => window.calls);
+  assert.ok(calls.draw_evaluation >= 1, JSON.stringify(calls));
+  assert.equal(calls.draw_with + calls.draw, 0, JSON.stringify(calls));
+  const drawn = await page.$$eval('.plots canvas[data-drawn="yes"]', (c) => c.map((x) => x.id).sort());
+  assert.ok(drawn.length >= 2, drawn.join());
+  // The evaluation's number is the page state's; another number draws nothing, and the
+  // page then draws from the query's parts.
+  const id = Number(await page.evaluate(() => document.body.dataset.evaluation));
+  assert.ok(id >= 2, String(id));
+  assert.deepEqual((await page.evaluate((n) => wasm_bindgen.draw_evaluation('budget', n, 1), id)).sort(), drawn);
+  assert.equal(await page.evaluate((n) => wasm_bindgen.draw_evaluation('budget', n + 1, 1), id), undefined);
+  assert.equal(await page.evaluate((n) => wasm_bindgen.draw_evaluation('budget', n - 1, 1), id), undefined);
+  // Once the core has evaluated another case (the JSON export's), the next draw of the
+  // same numbers goes by the query's parts, and the plots are the same.
+  await page.evaluate(() => wasm_bindgen.report('budget', 'design=name,fclk,fdata,stages%0Aa,1GHz,1MHz,2&tau=20ps&tw=40ps&tsu=30ps&tcq=50ps'));
+  await page.evaluate(() => { window.calls.draw_with = 0; window.calls.draw = 0; });
+  const again = await page.evaluate(() => document.body.dataset.drawnAt);
+  await page.evaluate(() => window.dispatchEvent(new Event('resize')));
+  await page.waitForFunction((t) => document.body.dataset.drawnAt !== t, again);
+  const after = await page.evaluate(() => window.calls);
+  assert.ok(after.draw_with + after.draw >= 1, JSON.stringify(after));
+  assert.deepEqual(await page.$$eval('.plots canvas[data-drawn="yes"]', (c) => c.map((x) => x.id).sort()), drawn);
+  assert.deepEqual(problems, []);
+  await context.close();
+});
+
 test('the first paint has the results and the tables at their full size; the rows follow without moving anything', async () => {
   const context = await env.browser.newContext({ viewport: { width: 1280, height: 900 } });
   const page = await context.newPage();
