@@ -729,14 +729,9 @@ impl BudgetCase {
             }
             let (class, domain, launch) =
                 (word(&classes, i), word(&domains, i), word(&launches, i));
-            // Each piece with its length, so that no two different rows run together into
-            // the same key whatever their cells hold.
             row_key.clear();
             let pieces = own.iter().flat_map(|(k, t)| [*k, *t]);
-            for piece in pieces.chain([class, domain, launch]) {
-                row_key.extend_from_slice(&(piece.len() as u64).to_le_bytes());
-                row_key.extend_from_slice(piece.as_bytes());
-            }
+            super::row::push_pieces(&mut row_key, pieces.chain([class, domain, launch]));
             // A row like one already read passed the same checks and reads the same.
             let k = if let Some(&k) = same_rows.get(row_key.as_slice()) {
                 k

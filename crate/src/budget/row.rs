@@ -179,12 +179,7 @@ impl RowReader {
     ) -> Result<Arc<RowCase>, ParamErrors> {
         let key = &mut self.key;
         key.clear();
-        // Each text with its length, so that no two different rows run together into the
-        // same key whatever their cells hold.
-        for piece in own.iter().flat_map(|(k, t)| [*k, *t]) {
-            key.extend_from_slice(&(piece.len() as u64).to_le_bytes());
-            key.extend_from_slice(piece.as_bytes());
-        }
+        push_pieces(key, own.iter().flat_map(|(k, t)| [*k, *t]));
         let (w, t0) = lent.window.map_or((None, false), |(w, t0)| (Some(w), t0));
         for v in [lent.tau, w, lent.tsu, lent.tcq, lent.fclk, lent.flaunch] {
             key.extend_from_slice(&v.map_or(u64::MAX, f64::to_bits).to_le_bytes());
@@ -245,5 +240,14 @@ pub fn lent_error(e: &ParamError, own: &[(&'static str, &str)], lent: &Lent) -> 
         f => inputs(own, lent)
             .iter()
             .any(|(k, _)| *k == f && !own.iter().any(|(o, _)| *o == f)),
+    }
+}
+
+/// Appends texts to a key, each with its length first, so that no two different lists of
+/// texts run together into the same key whatever the texts hold.
+pub(super) fn push_pieces<'a>(key: &mut Vec<u8>, pieces: impl IntoIterator<Item = &'a str>) {
+    for piece in pieces {
+        key.extend_from_slice(&(piece.len() as u64).to_le_bytes());
+        key.extend_from_slice(piece.as_bytes());
     }
 }
