@@ -225,9 +225,25 @@ impl About {
 
 /// The raw inputs of a link's query for calculator `C`: old names read as their new ones.
 pub fn query_inputs<C: Calculator>(query: &str) -> RawInputs {
-    RawInputs::from_query(query)
-        .renamed(C::ALIASES)
-        .unpack_tables(&table_fields(C::FIELDS))
+    let raw = RawInputs::from_query(query).renamed(C::ALIASES);
+    if const { has_tables(C::FIELDS) } {
+        raw.unpack_tables(&table_fields(C::FIELDS))
+    } else {
+        raw
+    }
+}
+
+/// Whether `fields` hold a data table (a field a link may pack). Known when compiling: a
+/// page whose calculator has none carries no packing code in its module.
+pub const fn has_tables(fields: &[FieldSpec]) -> bool {
+    let mut i = 0;
+    while i < fields.len() {
+        if matches!(fields[i].dim, crate::units::Dim::Text) {
+            return true;
+        }
+        i += 1;
+    }
+    false
 }
 
 /// The names of the data-table fields among `fields` (the ones a link may pack).
@@ -267,6 +283,9 @@ pub fn plot_csv<C: Calculator>(raw: &RawInputs, plot: &str, link: &str) -> Optio
 /// A link's query for calculator `C` with its long text values (data tables) packed,
 /// where that makes them shorter (see [`crate::link`]).
 pub fn compact_query<C: Calculator>(query: &str) -> String {
+    if !const { has_tables(C::FIELDS) } {
+        return crate::link::encode_pairs(RawInputs::from_query(query).pairs());
+    }
     let texts = table_fields(C::FIELDS);
     crate::link::pack_pairs(
         RawInputs::from_query(query).unpack_tables(&texts).pairs(),

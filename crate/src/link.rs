@@ -100,6 +100,9 @@ pub fn unpack(value: &str) -> Option<Result<String, String>> {
 /// shorter; other values are kept as they are. Keys and plain values are percent-encoded
 /// as a browser's form encoding does.
 pub fn pack_pairs(pairs: &[(String, String)], fields: &[&str]) -> String {
+    if fields.is_empty() {
+        return encode_pairs(pairs);
+    }
     pairs
         .iter()
         .map(|(k, v)| {
@@ -108,6 +111,16 @@ pub fn pack_pairs(pairs: &[(String, String)], fields: &[&str]) -> String {
                 .filter(|p| p.len() < encode(v).len());
             format!("{}={}", encode(k), packed.unwrap_or_else(|| encode(v)))
         })
+        .collect::<Vec<_>>()
+        .join("&")
+}
+
+/// A query of `pairs`, nothing packed: what [`pack_pairs`] gives without data tables,
+/// without its packing code.
+pub fn encode_pairs(pairs: &[(String, String)]) -> String {
+    pairs
+        .iter()
+        .map(|(k, v)| format!("{}={}", encode(k), encode(v)))
         .collect::<Vec<_>>()
         .join("&")
 }

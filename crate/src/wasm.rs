@@ -546,18 +546,21 @@ pub fn compact_query(name: &str, query: &str) -> Result<String, JsError> {
 ///
 /// # Errors
 /// A layout that cannot be converted to a JS value.
+#[cfg(feature = "tables")]
 #[wasm_bindgen]
 pub fn table_layout(text: &str) -> Result<JsValue, JsError> {
     to_js(&crate::table::layout(text))
 }
 
 /// One line's cells, as the core reads them.
+#[cfg(feature = "tables")]
 #[wasm_bindgen]
 pub fn table_split(line: &str, delimiter: char) -> Vec<String> {
     crate::table::split(line, delimiter)
 }
 
 /// One row's cells as a line, quoted where a cell needs it.
+#[cfg(feature = "tables")]
 #[wasm_bindgen]
 pub fn table_join(cells: Vec<String>, delimiter: char) -> String {
     crate::table::join(&cells, delimiter)
@@ -565,12 +568,14 @@ pub fn table_join(cells: Vec<String>, delimiter: char) -> String {
 
 /// Whether tables are read again only where their lines changed (on from the start; the
 /// page benchmark turns it off to time the same edits without it, in the same run).
+#[cfg(feature = "tables")]
 #[wasm_bindgen]
 pub fn remember_table_rows(on: bool) {
     crate::table::remember_rows(on);
 }
 
 /// A figure of a table's row as the page shows it.
+#[cfg(feature = "tables")]
 #[wasm_bindgen]
 pub fn format_figure(kind: &str, value: f64) -> String {
     crate::calculator::format_figure(kind, value)
