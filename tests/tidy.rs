@@ -321,7 +321,8 @@ fn every_page_is_a_calculator_and_the_parts_carry_the_navigation() {
 
 /// Each page's module is built with its calculator's cargo feature alone (scripts/build),
 /// so every calculator has a feature by its name, on by default and required by the
-/// command line, and its page names that calculator.
+/// command line (enabling `tables` exactly when it has a data table), and its page names
+/// that calculator.
 #[test]
 fn every_calculator_is_a_cargo_feature_and_its_page_names_it() {
     let cargo = read(&root().join("Cargo.toml"));
@@ -336,10 +337,17 @@ fn every_calculator_is_a_cargo_feature_and_its_page_names_it() {
     let required = line("required-features = [");
     for about in ALL {
         let quoted = format!("\"{}\"", about.name);
+        // A calculator with a data table brings the table editor's exports ("tables");
+        // one without has none, and no packing code.
+        let tables = latchwise::calculator::has_tables(about.fields);
+        let want = if tables {
+            format!("{} = [\"tables\"]", about.name)
+        } else {
+            format!("{} = []", about.name)
+        };
         assert!(
-            cargo.lines().any(|l| l == format!("{} = []", about.name)),
-            "feature {}",
-            about.name
+            cargo.lines().any(|l| l == want),
+            "Cargo.toml: the feature line should be `{want}`"
         );
         assert!(
             default.contains(&quoted),

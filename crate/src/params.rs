@@ -233,12 +233,25 @@ impl<'a> FieldReader<'a> {
         self.raw.get_nonblank(spec.name).is_some()
     }
 
-    /// The trimmed text given for the field, `None` when absent or blank.
-    /// A packed value that could not be unpacked (see [`crate::link`]) is an error.
+    /// The trimmed text given for the field, `None` when absent or blank. A data table is
+    /// read with [`FieldReader::table`] instead.
     pub fn text(&mut self, spec: &FieldSpec) -> Option<&'a str> {
+        debug_assert!(
+            spec.dim != Dim::Text,
+            "{}: a data table is read with FieldReader::table",
+            spec.name
+        );
+        self.raw.get_nonblank(spec.name).map(str::trim)
+    }
+
+    /// The trimmed text given for a data-table field, `None` when absent or blank. A
+    /// packed value that could not be unpacked (see [`crate::link`]) is an error. (Apart
+    /// from [`FieldReader::text`], so that a page without data tables carries no
+    /// unpacking code.)
+    pub fn table(&mut self, spec: &FieldSpec) -> Option<&'a str> {
         let text = self.raw.get_nonblank(spec.name).map(str::trim)?;
         // A data table still packed here is one that did not unpack: say why.
-        if spec.dim == Dim::Text && text.starts_with(crate::link::MARK) {
+        if text.starts_with(crate::link::MARK) {
             if let Some(Err(why)) = crate::link::unpack(text) {
                 self.push(ParamError::new(spec.name, ParamErrorKind::Damaged(why)));
                 return None;

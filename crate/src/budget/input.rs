@@ -234,7 +234,7 @@ fn message_of(e: &ParamError) -> String {
 
 /// The corners from the corners file, or the one corner `given` by options.
 fn read_corners(r: &mut FieldReader) -> Option<Vec<Corner>> {
-    if let Some(text) = r.text(&CORNERS) {
+    if let Some(text) = r.table(&CORNERS) {
         let table = match read_keeping(text, &CORNER_COLUMNS, corner_column) {
             Ok(t) => t,
             Err(p) => {
@@ -634,7 +634,7 @@ impl BudgetCase {
                 false
             }
         };
-        let Some(text) = r.text(&DESIGN) else {
+        let Some(text) = r.table(&DESIGN) else {
             r.push(ParamError::new(DESIGN.name, ParamErrorKind::Missing));
             return Err(r.into_errors());
         };

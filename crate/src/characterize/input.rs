@@ -75,7 +75,7 @@ const fn positive(name: &'static str, dim: Dim) -> Column {
 
 /// Reads the table for `columns`, recording its problems on the `data` field.
 fn table(r: &mut FieldReader, columns: &[Column]) -> Option<Table> {
-    let Some(text) = r.text(&DATA) else {
+    let Some(text) = r.table(&DATA) else {
         r.push(ParamError::new(DATA.name, ParamErrorKind::Missing));
         return None;
     };

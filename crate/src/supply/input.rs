@@ -153,7 +153,7 @@ fn read_table(
     field: &'static crate::params::FieldSpec,
     columns: &[Column],
 ) -> Option<Table> {
-    let Some(text) = r.text(field) else {
+    let Some(text) = r.table(field) else {
         r.push(ParamError::new(field.name, ParamErrorKind::Missing));
         return None;
     };
