@@ -129,7 +129,9 @@ impl RawInputs {
     /// refused as the text it is.
     pub fn unpack_tables(mut self, names: &[&str]) -> Self {
         for (k, v) in &mut self.pairs {
-            if names.contains(&k.as_str()) {
+            // Only a packed value reaches the unpacking code (which a page compiles on
+            // its first call).
+            if v.starts_with(crate::link::MARK) && names.contains(&k.as_str()) {
                 if let Some(Ok(text)) = crate::link::unpack(v) {
                     *v = text;
                 }
