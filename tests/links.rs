@@ -119,6 +119,59 @@ fn a_non_utf8_argument_is_an_error_not_an_abort() {
     assert!(!err.contains("panicked"), "{err}");
 }
 
+/// An output that cannot be written (a full disk, here Linux's /dev/full) is said on
+/// standard error with exit status 2, for the text report, the JSON (the budget's rows
+/// written by two threads too) and the help, never a silent success with a cut report;
+/// a reader that closes the pipe early (below) is not such a failure.
+#[cfg(target_os = "linux")]
+#[test]
+fn an_output_that_cannot_be_written_is_an_error() {
+    let Ok(full) = std::fs::OpenOptions::new().write(true).open("/dev/full") else {
+        return;
+    };
+    let design: String = std::iter::once("name,fclk,fdata,stages\n".to_string())
+        .chain((0..20_000).map(|i| format!("x{i},1GHz,1MHz,2\n")))
+        .collect();
+    let file = std::env::temp_dir().join(format!("latchwise-full-{}.csv", std::process::id()));
+    std::fs::write(&file, design).unwrap();
+    let budget = [
+        "budget",
+        file.to_str().unwrap(),
+        "--tau",
+        "20ps",
+        "--tw",
+        "40ps",
+        "--tsu",
+        "30ps",
+        "--tcq",
+        "50ps",
+    ];
+    let json: Vec<&str> = budget.iter().copied().chain(["--json"]).collect();
+    let sync_json: Vec<&str> = DEMO.iter().copied().chain(["--json"]).collect();
+    for args in [
+        DEMO,
+        &sync_json,
+        &budget,
+        &json,
+        &["sync", "--help"],
+        &["--version"],
+    ] {
+        let out = Command::new(env!("CARGO_BIN_EXE_latchwise"))
+            .args(args)
+            .stdout(full.try_clone().unwrap())
+            .output()
+            .unwrap();
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert_eq!(out.status.code(), Some(2), "{args:?}: {err}");
+        assert!(
+            err.contains("cannot write") && err.contains("No space left"),
+            "{args:?}: {err}"
+        );
+        assert!(!err.contains("panicked"), "{err}");
+    }
+    let _ = std::fs::remove_file(file);
+}
+
 #[test]
 fn a_closed_pipe_ends_quietly() {
     let mut child = Command::new(env!("CARGO_BIN_EXE_latchwise"))

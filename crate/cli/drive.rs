@@ -44,7 +44,8 @@ pub fn help<C: Calculator>() -> String {
          --from-url URL    read parameters from a bookmarked page URL or '?query';\n                    \
          options given explicitly override it\n  --json            print one JSON object \
          instead of the report\n  --help            this text\n\nExit status: 0 success, 1 a \
-         target was given and is not met, 2 bad input.\n\nCaution: {CAUTION}\n",
+         target was given and is not met, 2 bad input or output that could not be \
+         written.\n\nCaution: {CAUTION}\n",
         C::NAME,
         C::SUMMARY,
         C::HELP,
@@ -63,8 +64,7 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
         }
     };
     if parsed.help {
-        say(&help::<C>());
-        return ExitCode::SUCCESS;
+        return said(name, say(&help::<C>()), ExitCode::SUCCESS);
     }
     if !parsed.ignored.is_empty() {
         let more = parsed.ignored_total - parsed.ignored.len();
@@ -157,7 +157,9 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
             return ExitCode::from(EXIT_BAD_INPUT);
         }
     } else if let Some(text) = C::replaces_text_report(&report) {
-        say(&format!("{text}\n"));
+        if let Err(code) = said_ok(name, say(&format!("{text}\n"))) {
+            return code;
+        }
     } else {
         let table = C::text_table(&report, (!parsed.all_rows).then_some(TABLE_ROWS_MOST));
         if parsed.all_rows && table.is_none() {
@@ -166,7 +168,9 @@ pub fn drive<C: Calculator>(args: &[String]) -> ExitCode {
             ));
             return ExitCode::from(EXIT_BAD_INPUT);
         }
-        say(&text_report(C::TITLE, &outcome, table.as_ref()));
+        if let Err(code) = said_ok(name, say(&text_report(C::TITLE, &outcome, table.as_ref()))) {
+            return code;
+        }
     }
     let missed = outcome.target_missed;
     // The process ends here: its memory goes back whole, so the case and the report
@@ -210,8 +214,33 @@ pub const TABLE_ROWS_MOST: usize = 20;
 
 /// Writes to standard output; a reader that has gone away (a closed pipe) ends the
 /// output quietly instead of aborting.
-pub fn say(text: &str) {
-    write_out(&clean(text));
+///
+/// # Errors
+/// Any other failure to write (a full disk, say), for the caller to report.
+pub fn say(text: &str) -> std::io::Result<()> {
+    write_out(&clean(text))
+}
+
+/// `code` when the output was written, else the failure reported and the bad-output status.
+pub fn said(name: &str, written: std::io::Result<()>, code: ExitCode) -> ExitCode {
+    match said_ok(name, written) {
+        Ok(()) => code,
+        Err(failed) => failed,
+    }
+}
+
+/// The output's failure to be written, reported, as the exit status to end with.
+fn said_ok(name: &str, written: std::io::Result<()>) -> Result<(), ExitCode> {
+    written.map_err(|e| {
+        complain(&format!("latchwise {name}: cannot write the output: {e}"));
+        ExitCode::from(EXIT_BAD_INPUT)
+    })
+}
+
+/// Whether an output failure is the reader's going away (a closed pipe), which ends the
+/// output quietly.
+fn reader_gone(e: &serde_json::Error) -> bool {
+    e.io_error_kind() == Some(std::io::ErrorKind::BrokenPipe)
 }
 
 /// Writes `value` as pretty JSON to standard output as it is serialised (no copy of the
@@ -220,11 +249,11 @@ pub fn say(text: &str) {
 /// JSON and inert on a terminal. A reader that has gone away ends the output quietly.
 ///
 /// # Errors
-/// A value that cannot be serialised.
+/// A value that cannot be serialised, or an output that fails otherwise.
 pub fn say_json(value: &impl serde::Serialize) -> Result<(), serde_json::Error> {
     let out = std::io::BufWriter::with_capacity(1 << 16, std::io::stdout().lock());
     match write_json(out, value) {
-        Err(e) if e.is_io() => Ok(()),
+        Err(e) if reader_gone(&e) => Ok(()),
         r => r,
     }
 }
@@ -269,16 +298,19 @@ impl<R: serde::Serialize> RowsApart<R> for JsonOut<'_> {
         };
         let out = std::io::BufWriter::with_capacity(1 << 16, std::io::stdout().lock());
         match write_json_apart(out, &stamped, key, rows) {
-            Err(e) if e.is_io() => Ok(()),
+            Err(e) if reader_gone(&e) => Ok(()),
             r => r,
         }
     }
 }
 
-fn write_out(text: &str) {
+fn write_out(text: &str) -> std::io::Result<()> {
     let mut out = std::io::stdout().lock();
-    // A closed pipe is the reader's choice; any other failure has nowhere to be told.
-    let _ = out.write_all(text.as_bytes()).and_then(|()| out.flush());
+    // A closed pipe is the reader's choice; any other failure is the caller's to report.
+    match out.write_all(text.as_bytes()).and_then(|()| out.flush()) {
+        Err(e) if e.kind() == std::io::ErrorKind::BrokenPipe => Ok(()),
+        r => r,
+    }
 }
 
 /// Writes one message line to standard error, every control character escaped (a line

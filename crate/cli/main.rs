@@ -37,7 +37,8 @@ Usage:
 Values take engineering notation: 20p, 20ps, 20 ps, 2e-11, 0.02ns, 1.5GHz, 250M, 1meg.
 Prefixes are case-sensitive (m milli, M mega; meg is mega; u or µ micro).
 
-Exit status: 0 success, 1 a target was given and is not met, 2 bad input.
+Exit status: 0 success, 1 a target was given and is not met, 2 bad input or output
+that could not be written.
 
 Caution: {CAUTION}
 ",
@@ -73,13 +74,13 @@ fn main() -> ExitCode {
                 .first()
                 .and_then(|c| registry::dispatch(c, drive::Help))
                 .unwrap_or_else(usage);
-            drive::say(&text);
-            ExitCode::SUCCESS
+            drive::said("help", drive::say(&text), ExitCode::SUCCESS)
         }
-        "--version" | "-V" => {
-            drive::say(&format!("latchwise {}\n", env!("CARGO_PKG_VERSION")));
-            ExitCode::SUCCESS
-        }
+        "--version" | "-V" => drive::said(
+            "--version",
+            drive::say(&format!("latchwise {}\n", env!("CARGO_PKG_VERSION"))),
+            ExitCode::SUCCESS,
+        ),
         other => {
             drive::complain(&format!(
                 "latchwise: unknown command '{other}' (try: latchwise help)"
