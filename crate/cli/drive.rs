@@ -243,16 +243,18 @@ fn reader_gone(e: &serde_json::Error) -> bool {
     e.io_error_kind() == Some(std::io::ErrorKind::BrokenPipe)
 }
 
-/// Writes `value` as pretty JSON to standard output as it is serialised (no copy of the
-/// whole text), with the control characters that JSON strings may hold raw (DEL and the
-/// C1 range; serde_json escapes the rest) written as `\\u` escapes, which keep it valid
-/// JSON and inert on a terminal. A reader that has gone away ends the output quietly.
+/// Standard output as the JSON writers take it (a buffer in front, the text written as it
+/// is serialised, no copy of the whole); a reader that has gone away ends it quietly.
 ///
 /// # Errors
-/// A value that cannot be serialised, or an output that fails otherwise.
-pub fn say_json(value: &impl serde::Serialize) -> Result<(), serde_json::Error> {
+/// What `write` fails with, but for a closed pipe.
+fn json_to_stdout(
+    write: impl FnOnce(
+        std::io::BufWriter<std::io::StdoutLock<'static>>,
+    ) -> Result<(), serde_json::Error>,
+) -> Result<(), serde_json::Error> {
     let out = std::io::BufWriter::with_capacity(1 << 16, std::io::stdout().lock());
-    match write_json(out, value) {
+    match write(out) {
         Err(e) if reader_gone(&e) => Ok(()),
         r => r,
     }
@@ -274,15 +276,22 @@ struct JsonOut<'a> {
     digest: &'a str,
 }
 
+impl JsonOut<'_> {
+    /// `report` with the stamp before it.
+    fn stamped<'r, R: serde::Serialize>(&'r self, report: &'r R) -> Stamped<'r, R> {
+        Stamped {
+            version: env!("CARGO_PKG_VERSION"),
+            input_sha256: self.digest,
+            report,
+        }
+    }
+}
+
 impl<R: serde::Serialize> RowsApart<R> for JsonOut<'_> {
     type Out = Result<(), serde_json::Error>;
 
     fn whole(self, report: &R) -> Self::Out {
-        say_json(&Stamped {
-            version: env!("CARGO_PKG_VERSION"),
-            input_sha256: self.digest,
-            report,
-        })
+        json_to_stdout(|out| write_json(out, &self.stamped(report)))
     }
 
     fn apart<T: latchwise::json_line::JsonLine + Sync>(
@@ -291,16 +300,7 @@ impl<R: serde::Serialize> RowsApart<R> for JsonOut<'_> {
         key: &'static str,
         rows: &[T],
     ) -> Self::Out {
-        let stamped = Stamped {
-            version: env!("CARGO_PKG_VERSION"),
-            input_sha256: self.digest,
-            report: rest,
-        };
-        let out = std::io::BufWriter::with_capacity(1 << 16, std::io::stdout().lock());
-        match write_json_apart(out, &stamped, key, rows) {
-            Err(e) if reader_gone(&e) => Ok(()),
-            r => r,
-        }
+        json_to_stdout(|out| write_json_apart(out, &self.stamped(rest), key, rows))
     }
 }
 

@@ -100,9 +100,6 @@ pub fn unpack(value: &str) -> Option<Result<String, String>> {
 /// shorter; other values are kept as they are. Keys and plain values are percent-encoded
 /// as a browser's form encoding does.
 pub fn pack_pairs(pairs: &[(String, String)], fields: &[&str]) -> String {
-    if fields.is_empty() {
-        return encode_pairs(pairs);
-    }
     pairs
         .iter()
         .map(|(k, v)| {

@@ -141,6 +141,16 @@ struct Evaluation<C: Calculator> {
     result: Result<(C::Case, C::Report), ParamErrors>,
 }
 
+impl<C: Calculator> Evaluation<C> {
+    /// Its plots (none when its inputs are not valid).
+    fn plots(&self) -> Vec<Plot> {
+        match &self.result {
+            Ok((case, report)) => C::plots(case, report),
+            Err(_) => Vec::new(),
+        }
+    }
+}
+
 /// A page's inputs: a query, and data tables passed beside it as (names, texts), so that
 /// a large design need not be encoded into the query and decoded again on every edit.
 #[derive(Clone, Copy)]
@@ -280,10 +290,7 @@ impl Visit for Plots<'_> {
     type Out = Vec<Plot>;
 
     fn visit<C: Calculator>(self) -> Vec<Plot> {
-        match &evaluation::<C>(self.0).result {
-            Ok((case, report)) => C::plots(case, report),
-            Err(_) => Vec::new(),
-        }
+        evaluation::<C>(self.0).plots()
     }
 }
 
@@ -423,10 +430,7 @@ impl Visit for LastPlots {
         if e.id != self.0 {
             return None;
         }
-        Some(match &e.result {
-            Ok((case, report)) => C::plots(case, report),
-            Err(_) => Vec::new(),
-        })
+        Some(e.plots())
     }
 }
 
