@@ -110,6 +110,68 @@ fn zero_count_rows_are_kept_and_matter() {
     );
 }
 
+/// A row with no failures far beyond the others (an hour at 1 us) adds almost nothing
+/// (its expected count at the fit is e^-55,000): the fit is the demo's. It once capped
+/// 1/tau at 1e4 over the tr span, so that row alone made tau 100 ps (the cap) with an
+/// interval that missed its own estimate.
+#[test]
+fn a_zero_row_far_out_leaves_the_fit_where_it_was() {
+    let set = [("fclk", "1GHz"), ("fdata", "50MHz")];
+    let demo = file("fit-counts.csv");
+    let base = fit("counts", &demo, &set).unwrap();
+    let far = fit("counts", &format!("{demo}1us,0,1h\n"), &set).unwrap();
+    for key in [
+        "tau_s",
+        "tau_s_ci_low",
+        "tau_s_ci_high",
+        "tw_s",
+        "tw_s_ci_low",
+        "tw_s_ci_high",
+        "sd_ln_tau",
+        "sd_ln_tw",
+    ] {
+        assert_rel(
+            key,
+            far[key].as_f64().unwrap(),
+            base[key].as_f64().unwrap(),
+            1e-6,
+        );
+    }
+    assert_eq!(far["tr_max_s"].as_f64(), Some(1e-6));
+}
+
+/// Counts far apart in tr whose peak lies beyond the old cap: the estimate is inside its
+/// intervals, and a row with more failures than data edges (7e13 in 1 ns at 50 MHz) is
+/// said to be impossible. (A case found by `scripts/explore`.)
+#[test]
+fn counts_beyond_the_old_cap_fit_inside_their_intervals() {
+    let data = "tr,failures,duration\n1e0,1,1e-9\n7.757196048108886e-6,1,1e10\n1e-21,71925035978605,1e-9\n";
+    let r = fit("counts", data, &[("fclk", "1GHz"), ("fdata", "50MHz")]).unwrap();
+    for k in ["tau_s", "tw_s"] {
+        let (x, lo, hi) = (
+            r[k].as_f64().unwrap(),
+            r[format!("{k}_ci_low")].as_f64().unwrap(),
+            r[format!("{k}_ci_high")].as_f64().unwrap(),
+        );
+        assert!(lo <= x && x <= hi, "{k}: {lo:e} <= {x:e} <= {hi:e}");
+    }
+    // At the peak the expected counts sum to the failures (the score in ln w is zero).
+    let rows = r["rows"].as_array().unwrap();
+    let (k, mu): (f64, f64) = rows.iter().fold((0.0, 0.0), |(k, m), row| {
+        (
+            k + row["failures"].as_f64().unwrap(),
+            m + row["expected"].as_f64().unwrap(),
+        )
+    });
+    assert_rel("expected counts against the failures", mu, k, 1e-9);
+    let warnings = r["warnings"].to_string();
+    assert!(
+        warnings.contains("more failures than data edges") && warnings.contains("line 4"),
+        "{warnings}"
+    );
+    assert!(r["sd_ln_tau"].as_f64().is_some_and(f64::is_finite));
+}
+
 /// Synthetic counts from tau, tw at the demo's resolution times and durations.
 fn synthetic_counts(r: &mut Random, tau: f64, tw: f64) -> String {
     let mut s = String::from("tr,failures,duration\n");

@@ -77,6 +77,24 @@ fn problems_of(json: &Value, text: &str) -> Vec<String> {
             }
         }
     }
+    // An estimate lies inside its own interval (`K_ci_low` to `K_ci_high`), where both
+    // are numbers.
+    if let Value::Object(o) = json {
+        for (k, v) in o {
+            let Some(x) = v.as_f64() else { continue };
+            let end = |side: &str| o.get(&format!("{k}_ci_{side}")).and_then(Value::as_f64);
+            let slack = 1e-9 * x.abs();
+            if end("low").is_some_and(|lo| lo > x + slack)
+                || end("high").is_some_and(|hi| hi < x - slack)
+            {
+                out.push(format!(
+                    "{k} = {x} outside its interval {:?} to {:?}",
+                    end("low"),
+                    end("high")
+                ));
+            }
+        }
+    }
     out
 }
 

@@ -379,7 +379,25 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
     // on g = ln(mean - tmin) - ln(k_mean - tmin) in x = ln b, nearly a straight line there
     // (dg/dx = -b var / (mean - tmin)), kept inside a bracket that every step narrows
     // (bisecting where a step would leave it).
+    // The bracket's top starts where exp(-b span) is e^-10000 and grows until the mean
+    // there has fallen to the failures' mean, so that the root is inside it however far
+    // out it lies (tr spread over many decades puts it far beyond 1/span). The mean tends
+    // to tmin, below k_mean, as b grows, so the growth ends; b tr stays finite.
+    let b_most = 1e300 / tmax;
     let (mut lo, mut hi) = (0.0, 1e4 / span);
+    while w_moments(hi).0 > k_mean {
+        if hi >= b_most {
+            return Err(CountsProblem::AllAtShortest(tmin));
+        }
+        hi = (hi * 1e3).min(b_most);
+    }
+    // Where the intervals' upper ends in b are sought up to: 1e4/span, or with a top
+    // that had to grow, nine decades above it (as the lower ends go nine below b).
+    let b_top = if hi > 1e4 / span {
+        (hi * 1e9).min(b_most)
+    } else {
+        hi
+    };
     let mut b = start_b(d)
         .filter(|x| *x > lo && *x < hi)
         .unwrap_or(1.0 / span);
@@ -453,15 +471,30 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
     };
     // Standard errors from the observed information at the peak, the first guesses of
     // each interval end's distance (the profile falls by 1.92 about 1.96 of them away).
-    let (mut i_aa, mut i_ab, mut i_bb) = (0.0, 0.0, 0.0);
-    for (t, o) in d.tr.iter().zip(&o) {
-        let mu = (a - b * t + o).exp();
-        i_aa += mu;
-        i_ab += mu * t;
-        i_bb += mu * t * t;
-    }
-    let det = i_aa * i_bb - i_ab * i_ab;
-    let (se_a, se_b) = ((i_bb / det).sqrt(), (i_aa / det).sqrt());
+    // The information about b is taken about the expected counts' mean tr (c_bb, a sum
+    // of squares), not as i_bb - i_ab^2 / i_aa, whose difference of near-equal terms
+    // loses every digit when the expected counts sit almost all at one tr: det = i_aa
+    // c_bb. Where they sit all at one tr, c_bb is 0 and the errors are not computable
+    // (infinite: the report says so).
+    let mu: Vec<f64> =
+        d.tr.iter()
+            .zip(&o)
+            .map(|(t, o)| (a - b * t + o).exp())
+            .collect();
+    let i_aa: f64 = mu.iter().sum();
+    let i_ab: f64 = mu.iter().zip(&d.tr).map(|(m, t)| m * t).sum();
+    let t_bar = i_ab / i_aa;
+    let c_bb: f64 = mu
+        .iter()
+        .zip(&d.tr)
+        .map(|(m, t)| m * (t - t_bar) * (t - t_bar))
+        .sum();
+    let i_bb = c_bb + i_aa * t_bar * t_bar;
+    // var a = i_bb / det = 1/i_aa + t_bar^2 / c_bb, var b = i_aa / det = 1 / c_bb.
+    let (se_a, se_b) = (
+        (1.0 / i_aa + t_bar * t_bar / c_bb).sqrt(),
+        (1.0 / c_bb).sqrt(),
+    );
     // b's interval: below b (towards 0, in x = -ln b, where the slope in x is minus b
     // times the slope in b) and above; None where the drop never comes.
     let in_x = |g: &dyn Fn(f64) -> (f64, f64), x: f64| {
@@ -473,7 +506,7 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
         in_x(&drop_b, x)
     })
     .map(|x| (-x).exp());
-    let b_hi = crossing_newton(b, 1e4 / span, 1.5 * se_b, drop_b);
+    let b_hi = crossing_newton(b, b_top, 1.5 * se_b, drop_b);
     // No lower end of b: tau unbounded above, the counts indistinguishable from flat.
     if b_lo.is_none() {
         return Err(CountsProblem::NotSignificantlyFalling(
@@ -488,7 +521,7 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
         in_x(&drop_trace, x)
     })
     .map(|x| trace((-x).exp()).0);
-    let a_hi = crossing_newton(b, 1e4 / span, step_b, drop_trace).map(|x| trace(x).0);
+    let a_hi = crossing_newton(b, b_top, step_b, drop_trace).map(|x| trace(x).0);
     let d = rows;
     // Each row's expected count, and its unit deviance from ln mu (a count far below the
     // f64 range has a finite log, where k ln(k / mu) would be infinite).

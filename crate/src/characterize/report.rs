@@ -285,10 +285,33 @@ pub fn evaluate(f: &Fitted) -> FitReport {
                 counts: d,
                 lines,
                 t0,
+                fdata,
                 ..
             },
             Fit::Counts(fit),
         ) => {
+            // Each data edge fails at most once: a row with more failures than its
+            // duration holds edges (and more than one) has a unit or a column wrong.
+            let over: Vec<usize> = (0..d.tr.len())
+                .filter(|&i| d.failures[i] > (d.duration[i] * fdata.get()).max(1.0))
+                .collect();
+            if let Some(&first) = over.first() {
+                r.warnings.push(format!(
+                    "{} more failures than data edges in {} duration (line {}: {} failures, \
+                     {} edges at fdata = {}); a data edge fails at most once: check the \
+                     durations' units and fdata.",
+                    if over.len() == 1 {
+                        "One row counts".to_string()
+                    } else {
+                        format!("{} rows count", over.len())
+                    },
+                    if over.len() == 1 { "its" } else { "their" },
+                    lines[first],
+                    crate::units::format_number(d.failures[first]),
+                    crate::units::format_number(d.duration[first] * fdata.get()),
+                    fdata.display()
+                ));
+            }
             r.tau_s = fit.tau;
             (r.tau_s_ci_low, r.tau_s_ci_high) = fit.tau_ci;
             for (key, v) in [
@@ -317,11 +340,30 @@ pub fn evaluate(f: &Fitted) -> FitReport {
                 }
             }
             r.tr_max_s = d.tr.iter().copied().reduce(f64::max);
-            r.sd_ln_tau = Some(fit.sd_ln_tau);
-            if *t0 {
-                (r.sd_ln_t0, r.corr_ln_tau_ln_t0) = (Some(fit.sd_ln_window), Some(fit.corr));
+            // The joint uncertainty, from the curvature at the peak: not computable where
+            // the expected counts sit all at one tr (the curvature does not tell tau and
+            // the window apart there), said rather than shown as a number.
+            let joint = [fit.sd_ln_tau, fit.sd_ln_window, fit.corr];
+            let joint = joint.iter().all(|v| v.is_finite()).then_some(joint);
+            r.sd_ln_tau = joint.map(|j| j[0]);
+            let (w, c) = (joint.map(|j| j[1]), joint.map(|j| j[2]));
+            let keys = if *t0 {
+                (r.sd_ln_t0, r.corr_ln_tau_ln_t0) = (w, c);
+                ["sd_ln_tau", "sd_ln_t0", "corr_ln_tau_ln_t0"]
             } else {
-                (r.sd_ln_tw, r.corr_ln_tau_ln_tw) = (Some(fit.sd_ln_window), Some(fit.corr));
+                (r.sd_ln_tw, r.corr_ln_tau_ln_tw) = (w, c);
+                ["sd_ln_tau", "sd_ln_tw", "corr_ln_tau_ln_tw"]
+            };
+            if joint.is_none() {
+                for key in keys {
+                    r.not_applicable.push((
+                        key,
+                        "not computable: at the fit the expected failures sit almost all at \
+                         one resolution time, so the likelihood's curvature does not tell \
+                         tau and the window apart"
+                            .to_string(),
+                    ));
+                }
             }
             r.deviance = Some(fit.deviance);
             r.deviance_df = Some(fit.df);
