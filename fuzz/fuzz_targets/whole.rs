@@ -10,9 +10,11 @@ use plotters::prelude::*;
 /// A calculator's inputs, checked whole.
 pub struct Whole(pub RawInputs);
 
-fn clean(what: &str, s: &str) {
+/// `s` shows no NaN, infinity or integer sentinel, except as text the inputs hold (a
+/// corner may be named "NaN", and its name comes back as it was typed).
+fn clean(what: &str, s: &str, typed: &str) {
     for bad in ["NaN", "inf", "1e300 ", "18446744073709551615", "9223372036854775807"] {
-        assert!(!s.contains(bad), "{what}: {s}");
+        assert!(!s.contains(bad) || typed.contains(bad), "{what}: {s}");
     }
 }
 
@@ -21,13 +23,14 @@ impl Visit for Whole {
 
     fn visit<C: Calculator>(self) {
         let raw = self.0;
+        let typed: String = raw.pairs().iter().map(|(_, v)| v.as_str()).collect();
         let Ok(case) = C::read(&raw) else {
             return;
         };
         let report = C::evaluate(&case);
         let outcome = C::outcome(&report);
         for r in &outcome.readouts {
-            clean(r.name, &r.text);
+            clean(r.name, &r.text, &typed);
             assert!(r.value.is_none_or(f64::is_finite), "{}: {:?}", r.name, r.value);
         }
         let json = serde_json::to_value(&report).expect("a report serialises");
