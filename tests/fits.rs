@@ -140,6 +140,44 @@ fn a_zero_row_far_out_leaves_the_fit_where_it_was() {
     assert_eq!(far["tr_max_s"].as_f64(), Some(1e-6));
 }
 
+/// The same over many data sets: a zero row at 3 ns to 300 us, counted for 1 s to a day
+/// (expected count at the fit below e^-100), moves no estimate or interval end by more
+/// than 1e-6 of itself.
+#[test]
+fn zero_rows_far_out_never_move_the_fit() {
+    let set = [("fclk", "1GHz"), ("fdata", "50MHz")];
+    let mut r = Random::new(20261204);
+    let keys = [
+        "tau_s",
+        "tau_s_ci_low",
+        "tau_s_ci_high",
+        "tw_s",
+        "tw_s_ci_low",
+        "tw_s_ci_high",
+    ];
+    for _ in 0..200 {
+        let tau = 10f64.powf(-11.3 + 0.6 * r.uniform());
+        let tw = 10f64.powf(-11.5 + 1.0 * r.uniform());
+        let data = synthetic_counts(&mut r, tau, tw);
+        let Ok(base) = fit("counts", &data, &set) else {
+            continue;
+        };
+        let tr = 3e-9 * 10f64.powf(5.0 * r.uniform());
+        let duration = 10f64.powf(4.9 * r.uniform());
+        let far = fit("counts", &format!("{data}{tr:e},0,{duration:e}\n"), &set).unwrap();
+        for key in keys {
+            if let (Some(a), Some(b)) = (far[key].as_f64(), base[key].as_f64()) {
+                assert_rel(&format!("{key} with a zero row at {tr:e} s"), a, b, 1e-6);
+            } else {
+                assert_eq!(
+                    far[key], base[key],
+                    "{key} with a zero row at {tr:e} s for {duration:e} s\n{data}"
+                );
+            }
+        }
+    }
+}
+
 /// Counts far apart in tr whose peak lies beyond the old cap: the estimate is inside its
 /// intervals, and a row with more failures than data edges (7e13 in 1 ns at 50 MHz) is
 /// said to be impossible. (A case found by `scripts/explore`.)

@@ -391,13 +391,6 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
         }
         hi = (hi * 1e3).min(b_most);
     }
-    // Where the intervals' upper ends in b are sought up to: 1e4/span, or with a top
-    // that had to grow, nine decades above it (as the lower ends go nine below b).
-    let b_top = if hi > 1e4 / span {
-        (hi * 1e9).min(b_most)
-    } else {
-        hi
-    };
     let mut b = start_b(d)
         .filter(|x| *x > lo && *x < hi)
         .unwrap_or(1.0 / span);
@@ -506,6 +499,10 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
         in_x(&drop_b, x)
     })
     .map(|x| (-x).exp());
+    // The upper ends in b are sought up to nine decades above b, as the lower ends down
+    // to nine below: not up to a bound set by the tr span, which one row far out (a zero
+    // count at 1 us beside counts at 100 ps) would bring below the interval's end.
+    let b_top = (1e9 * b).min(b_most);
     let b_hi = crossing_newton(b, b_top, 1.5 * se_b, drop_b);
     // No lower end of b: tau unbounded above, the counts indistinguishable from flat.
     if b_lo.is_none() {
