@@ -335,6 +335,63 @@ fn comparator_intervals_cover_the_truth_and_recover_it() {
     );
 }
 
+/// A comparator sweep's outliers are named by line, one at the end of the sweep too (it
+/// pulls the least-squares line towards itself, so its own residual looks small), and an
+/// input above the fitted v0 (a saturated decision) is said to be outside the law; clean
+/// sweeps (Gaussian timing noise) are flagged about once in a hundred, as the rule says.
+#[test]
+fn comparator_outliers_are_named_and_clean_sweeps_pass() {
+    let demo = file("fit-comparator.csv");
+    let warned = |data: &str| fit("comparator", data, &[]).unwrap()["warnings"].to_string();
+    assert_eq!(warned(&demo), "[]");
+    // The demo's line 8 (0.1 mV) 30 ps late; a point at 1 pV, 105 ps early; 1 V at 20 ps.
+    let late = demo.replace("0.0001V,96.177ps", "0.0001V,126.177ps");
+    assert!(
+        warned(&late).contains("line 8 stands far out"),
+        "{}",
+        warned(&late)
+    );
+    let lines = demo.lines().count();
+    let early_end = format!("{demo}1e-12V,250ps\n");
+    let w = warned(&early_end);
+    assert!(
+        w.contains(&format!("line {} stands far out", lines + 1)),
+        "{w}"
+    );
+    let saturated = format!("{demo}1V,20ps\n");
+    let w = warned(&saturated);
+    assert!(
+        w.contains(&format!("line {} stands far out", lines + 1)),
+        "{w}"
+    );
+    assert!(
+        w.contains("above the fitted v0") && w.contains("vin = 1 V"),
+        "{w}"
+    );
+    // False alarms: sweeps of 10 points with 0.4 ps of noise, as the demo's.
+    let mut r = Random::new(20261204);
+    let n = 2000;
+    let flagged = (0..n)
+        .filter(|_| {
+            let mut data = String::from("vin,time\n");
+            for e in -6..-1 {
+                for m in [1.0, 3.0] {
+                    let vin = m * 10f64.powi(e);
+                    let t = 14e-12 * (0.1 / vin).ln() + 0.4e-12 * r.normal();
+                    data.push_str(&format!("{vin:e},{t:e}\n"));
+                }
+            }
+            warned(&data).contains("far out")
+        })
+        .count();
+    // 1 % by construction; 3 standard errors of 2000 draws either side.
+    let p = flagged as f64 / n as f64;
+    assert!(
+        (p - 0.01).abs() < 3.0 * (0.01f64 * 0.99 / n as f64).sqrt(),
+        "{flagged} of {n}"
+    );
+}
+
 #[test]
 fn delay_sweep_recovers_its_parameters() {
     // The demo sweep was drawn from tau 16 ps, tw 30 ps, balance offset 3.2 ps

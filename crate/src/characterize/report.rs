@@ -469,33 +469,12 @@ pub fn evaluate(f: &Fitted) -> FitReport {
             if let Some((st, sw, c)) = fit.joint {
                 (r.sd_ln_tau, r.sd_ln_tw, r.corr_ln_tau_ln_tw) = (Some(st), Some(sw), Some(c));
             }
-            // Points whose residual stands far out of the rest (beyond 5 robust standard
-            // deviations, from the median absolute residual): said by line.
             if let Some(res) = &fit.residuals {
-                let used: Vec<f64> = (0..res.len())
+                let used: Vec<(usize, f64)> = (0..res.len())
                     .filter(|&i| fit.uses[i] == Use::Used)
-                    .map(|i| res[i].abs())
+                    .map(|i| (lines[i], res[i]))
                     .collect();
-                let mut sorted = used.clone();
-                sorted.sort_by(f64::total_cmp);
-                let mad = sorted.get(sorted.len() / 2).copied().unwrap_or(0.0);
-                let far: Vec<String> = (0..res.len())
-                    .filter(|&i| fit.uses[i] == Use::Used && res[i].abs() > 5.0 * 1.4826 * mad)
-                    .map(|i| format!("line {}", lines[i]))
-                    .collect();
-                if !far.is_empty() && mad > 0.0 {
-                    r.warnings.push(format!(
-                        "{} stand{} far out of the fit (residual beyond 5 robust standard \
-                         deviations): check {} before trusting tau and tw.",
-                        far.join(", "),
-                        if far.len() == 1 { "s" } else { "" },
-                        if far.len() == 1 {
-                            "that point"
-                        } else {
-                            "those points"
-                        }
-                    ));
-                }
+                r.warnings.extend(far_out(&used, "tau and tw"));
             }
             if let Some(d) = fit.slope_drift.filter(|d| *d > 0.05) {
                 r.warnings.push(format!(
@@ -513,7 +492,68 @@ pub fn evaluate(f: &Fitted) -> FitReport {
                 ));
             }
         }
-        (FitCase::Comparator { .. }, Fit::Comparator(fit)) => {
+        (
+            FitCase::Comparator {
+                vin, time, lines, ..
+            },
+            Fit::Comparator(fit),
+        ) => {
+            // Each point's residual against the line fitted without it (externally
+            // studentized: a point at the end of the sweep pulls the line towards itself,
+            // so its plain residual understates it), named where it is beyond Student's t
+            // at a 1 % chance over the whole sweep (Bonferroni), so that a clean sweep is
+            // flagged once in a hundred. Cook and Weisberg, "Residuals and Influence in
+            // Regression", Chapman & Hall 1982, section 2.2.
+            let x: Vec<f64> = vin.iter().map(|v| v.ln()).collect();
+            let n = x.len() as f64;
+            let limit = crate::numeric::special::t_quantile(1.0 - 0.005 / n, n - 3.0);
+            let mean = x.iter().sum::<f64>() / n;
+            let sxx: f64 = x.iter().map(|v| (v - mean) * (v - mean)).sum();
+            let e: Vec<f64> = (0..x.len())
+                .map(|i| time[i] - (fit.line.intercept + fit.line.slope * x[i]))
+                .collect();
+            let sse: f64 = e.iter().map(|v| v * v).sum();
+            let far: Vec<String> = (0..x.len())
+                .filter(|&i| {
+                    let h = 1.0 / n + (x[i] - mean) * (x[i] - mean) / sxx;
+                    let s2 = (sse - e[i] * e[i] / (1.0 - h)) / (n - 3.0);
+                    n > 3.0 && h < 1.0 && s2 > 0.0 && e[i].abs() > limit * (s2 * (1.0 - h)).sqrt()
+                })
+                .map(|i| format!("line {}", lines[i]))
+                .collect();
+            if !far.is_empty() {
+                r.warnings.push(format!(
+                    "{} stand{} far out of the fit (beyond the line fitted without {} by more \
+                     than a 1 % chance over the sweep allows): check {} before trusting tau \
+                     and v0.",
+                    far.join(", "),
+                    if far.len() == 1 { "s" } else { "" },
+                    if far.len() == 1 { "it" } else { "each" },
+                    if far.len() == 1 {
+                        "that point"
+                    } else {
+                        "those points"
+                    }
+                ));
+            }
+            // The law gives a regeneration time only below v0: an input above it (a
+            // saturated decision, or a unit off by a factor) is outside it.
+            let above: Vec<usize> = (0..vin.len()).filter(|&i| vin[i] > fit.v0).collect();
+            if let Some(&first) = above.first() {
+                r.warnings.push(format!(
+                    "{} above the fitted v0 = {} (line {}: vin = {}), where tau ln(v0/vin) \
+                     is below zero: the law holds for inputs below v0 only. Leave such rows \
+                     out, or check their units.",
+                    if above.len() == 1 {
+                        "One row's input is".to_string()
+                    } else {
+                        format!("{} rows' inputs are", above.len())
+                    },
+                    format_si(fit.v0, "V"),
+                    lines[first],
+                    format_si(vin[first], "V")
+                ));
+            }
             r.tau_s = fit.tau;
             (r.tau_s_ci_low, r.tau_s_ci_high) = fit.tau_ci;
             r.v0_v = Some(fit.v0);
@@ -537,6 +577,33 @@ pub fn evaluate(f: &Fitted) -> FitReport {
         r.corner_csv = r.corner_table();
     }
     r
+}
+
+/// The warning naming the points whose residual stands far out of the rest (beyond 5
+/// robust standard deviations, from the median absolute residual), by line: `points`
+/// are (line, residual), `what` the estimates to check before trusting.
+fn far_out(points: &[(usize, f64)], what: &str) -> Option<String> {
+    let mut sorted: Vec<f64> = points.iter().map(|(_, r)| r.abs()).collect();
+    sorted.sort_by(f64::total_cmp);
+    let mad = sorted.get(sorted.len() / 2).copied().unwrap_or(0.0);
+    let far: Vec<String> = points
+        .iter()
+        .filter(|(_, r)| r.abs() > 5.0 * 1.4826 * mad)
+        .map(|(line, _)| format!("line {line}"))
+        .collect();
+    (!far.is_empty() && mad > 0.0).then(|| {
+        format!(
+            "{} stand{} far out of the fit (residual beyond 5 robust standard deviations): \
+             check {} before trusting {what}.",
+            far.join(", "),
+            if far.len() == 1 { "s" } else { "" },
+            if far.len() == 1 {
+                "that point"
+            } else {
+                "those points"
+            }
+        )
+    })
 }
 
 impl FitReport {
