@@ -347,7 +347,7 @@ fn comparator_outliers_are_named_and_clean_sweeps_pass() {
     // The demo's line 8 (0.1 mV) 30 ps late; a point at 1 pV, 105 ps early; 1 V at 20 ps.
     let late = demo.replace("0.0001V,96.177ps", "0.0001V,126.177ps");
     assert!(
-        warned(&late).contains("line 8 stands far out"),
+        warned(&late).contains("Line 8 stands far out"),
         "{}",
         warned(&late)
     );
@@ -355,13 +355,13 @@ fn comparator_outliers_are_named_and_clean_sweeps_pass() {
     let early_end = format!("{demo}1e-12V,250ps\n");
     let w = warned(&early_end);
     assert!(
-        w.contains(&format!("line {} stands far out", lines + 1)),
+        w.contains(&format!("Line {} stands far out", lines + 1)),
         "{w}"
     );
     let saturated = format!("{demo}1V,20ps\n");
     let w = warned(&saturated);
     assert!(
-        w.contains(&format!("line {} stands far out", lines + 1)),
+        w.contains(&format!("Line {} stands far out", lines + 1)),
         "{w}"
     );
     assert!(
@@ -861,7 +861,7 @@ fn an_outlier_in_a_sweep_is_named() {
     let v = fit("delay", &(lines.join("\n") + "\n"), &[]).unwrap();
     let w = v["warnings"].to_string();
     assert!(
-        w.contains(&format!("line {} stands far out of the fit", at + 1)),
+        w.contains(&format!("Line {} stands far out of the fit", at + 1)),
         "{w}"
     );
 }

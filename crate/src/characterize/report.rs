@@ -519,7 +519,8 @@ pub fn evaluate(f: &Fitted) -> FitReport {
                     let s2 = (sse - e[i] * e[i] / (1.0 - h)) / (n - 3.0);
                     n > 3.0 && h < 1.0 && s2 > 0.0 && e[i].abs() > limit * (s2 * (1.0 - h)).sqrt()
                 })
-                .map(|i| format!("line {}", lines[i]))
+                .enumerate()
+                .map(|(k, i)| format!("{} {}", if k == 0 { "Line" } else { "line" }, lines[i]))
                 .collect();
             if !far.is_empty() {
                 r.warnings.push(format!(
@@ -589,7 +590,8 @@ fn far_out(points: &[(usize, f64)], what: &str) -> Option<String> {
     let far: Vec<String> = points
         .iter()
         .filter(|(_, r)| r.abs() > 5.0 * 1.4826 * mad)
-        .map(|(line, _)| format!("line {line}"))
+        .enumerate()
+        .map(|(k, (line, _))| format!("{} {line}", if k == 0 { "Line" } else { "line" }))
         .collect();
     (!far.is_empty() && mad > 0.0).then(|| {
         format!(
