@@ -69,7 +69,7 @@ pub const WORST_AT: FieldSpec = FieldSpec {
     name: "worst-at",
     dim: Dim::Time,
     help: "the resolution time at which the joint 95 % region's worst point is taken for \
-           the pessimistic link (default: the longest tr in the data; give the design's)",
+           the pessimistic link (default: the longest tr the data characterise, tr_max; give the design's)",
     limits: (1e-21, 1e6),
     usual: (1e-12, 1e-5),
 };

@@ -118,9 +118,9 @@ pub struct FitReport {
     /// High end of t0's 95 % interval, s.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub t0_s_ci_high: Option<Option<f64>>,
-    /// The longest resolution time the data cover, s (counts: the longest tr; delay: the
-    /// longest extra delay over tcq among the points used): beyond it the exponential is
-    /// extrapolated. Give it to the synchronizer as `tr-max`, to a corner as `tr_max`.
+    /// The longest resolution time the data cover, s (counts: the longest tr of a row
+    /// with failures or expecting at least 0.1 at the fit; delay: the longest extra delay
+    /// over tcq among the points used): beyond it the exponential is extrapolated. Give it to the synchronizer as `tr-max`, to a corner as `tr_max`.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub tr_max_s: Option<f64>,
     /// How a delay sweep was fitted: `coth` (the whole sweep) or `log` (the log law over
@@ -214,6 +214,10 @@ fn lines(case: &FitCase) -> &[usize] {
         | FitCase::Comparator { lines, .. } => lines,
     }
 }
+
+/// The fewest failures a counts row must be expected to show at the fit for its zero to
+/// test the law at its tr (a zero then has a chance of at most e^-0.1 = 90 %).
+const TESTING_EXPECTED: f64 = 0.1;
 
 /// The inputs as understood.
 fn echo(case: &FitCase) -> Vec<(&'static str, String)> {
@@ -339,7 +343,41 @@ pub fn evaluate(f: &Fitted) -> FitReport {
                     r.not_applicable.push((key, unbounded.to_string()));
                 }
             }
-            r.tr_max_s = d.tr.iter().copied().reduce(f64::max);
+            // The longest tr at which the data test the law: a row with failures, or one
+            // whose zero the fit makes a test (at least 0.1 failures expected). A row
+            // expecting far fewer (no failures in an hour at 1 us, beside counts at 100
+            // ps) bounds the rate there but would show none whatever tau is near the fit:
+            // taking its tr would hide the extrapolation from the synchronizer and the
+            // budget.
+            let tests = |i: usize| d.failures[i] > 0.0 || fit.expected[i] >= TESTING_EXPECTED;
+            let longest = d.tr.iter().copied().fold(f64::NEG_INFINITY, f64::max);
+            let tested = (0..d.tr.len())
+                .filter(|&i| tests(i))
+                .map(|i| d.tr[i])
+                .fold(f64::NEG_INFINITY, f64::max);
+            r.tr_max_s = Some(tested);
+            if longest > tested {
+                let beyond = (0..d.tr.len()).filter(|&i| d.tr[i] > tested).count();
+                r.warnings.push(format!(
+                    "{} beyond tr = {} count{} no failures where the fit expects fewer than \
+                     {TESTING_EXPECTED}: {} the failure rate there but cannot test the \
+                     exponential, so the data characterise tr up to {} (tr_max), not {}.",
+                    if beyond == 1 {
+                        "One row".to_string()
+                    } else {
+                        format!("{beyond} rows")
+                    },
+                    format_si(tested, "s"),
+                    if beyond == 1 { "s" } else { "" },
+                    if beyond == 1 {
+                        "it bounds"
+                    } else {
+                        "they bound"
+                    },
+                    format_si(tested, "s"),
+                    format_si(longest, "s")
+                ));
+            }
             // The joint uncertainty, from the curvature at the peak: not computable where
             // the expected counts sit all at one tr (the curvature does not tell tau and
             // the window apart there), said rather than shown as a number.
