@@ -383,7 +383,7 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
     // there has fallen to the failures' mean, so that the root is inside it however far
     // out it lies (tr spread over many decades puts it far beyond 1/span). The mean tends
     // to tmin, below k_mean, as b grows, so the growth ends; b tr stays finite.
-    let b_most = 1e300 / tmax;
+    let b_most = (1e300 / tmax).min(f64::MAX);
     let (mut lo, mut hi) = (0.0, 1e4 / span);
     while w_moments(hi).0 > k_mean {
         if hi >= b_most {
