@@ -379,52 +379,61 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
     // on g = ln(mean - tmin) - ln(k_mean - tmin) in x = ln b, nearly a straight line there
     // (dg/dx = -b var / (mean - tmin)), kept inside a bracket that every step narrows
     // (bisecting where a step would leave it).
-    // The bracket's top starts where exp(-b span) is e^-10000 and grows until the mean
-    // there has fallen to the failures' mean, so that the root is inside it however far
-    // out it lies (tr spread over many decades puts it far beyond 1/span). The mean tends
-    // to tmin, below k_mean, as b grows, so the growth ends; b tr stays finite.
+    // The bracket's top starts where exp(-b span) is e^-10000. A root beyond it (tr spread
+    // over many decades puts it far beyond 1/span) leaves the search at the top: the top
+    // then grows a thousandfold and the search runs again, until the root is inside. The
+    // mean tends to tmin, below k_mean, as b grows, so the growth ends; b tr stays finite.
     let b_most = (1e300 / tmax).min(f64::MAX);
-    let (mut lo, mut hi) = (0.0, 1e4 / span);
-    while w_moments(hi).0 > k_mean {
-        if hi >= b_most {
+    let ln_target = (k_mean - tmin).ln();
+    let solve = |top: f64| {
+        let (mut lo, mut hi) = (0.0, top);
+        let mut b = start_b(d)
+            .filter(|x| *x > lo && *x < hi)
+            .unwrap_or((1.0 / span).min(0.5 * hi));
+        for _ in 0..300 {
+            let (mean, var) = w_moments(b);
+            if mean > k_mean {
+                lo = b;
+            } else {
+                hi = b;
+            }
+            let above = mean - tmin;
+            let g = above.ln() - ln_target;
+            let slope = -b * var / above;
+            let newton = b * (-g / slope).exp();
+            // Converged: Newton's method converges quadratically, so a step of 1e-10
+            // relative leaves b within about 1e-20 of the root once taken (and a smaller
+            // one may fall either side of the bracket's end that b itself is).
+            if (newton - b).abs() <= 1e-10 * b && newton.is_finite() {
+                return newton;
+            }
+            let next = if newton > lo && newton < hi && var > 0.0 && newton.is_finite() {
+                newton
+            } else {
+                0.5 * (lo + hi)
+            };
+            let done = (next - b).abs() <= 4.0 * f64::EPSILON * b.abs()
+                || hi - lo <= 4.0 * f64::EPSILON * hi;
+            b = next;
+            if done {
+                break;
+            }
+        }
+        b
+    };
+    let mut top = 1e4 / span;
+    let b = loop {
+        let b = solve(top);
+        // Inside the bracket, or at a top where the mean has fallen below k_mean (the
+        // root is there).
+        if b < top * (1.0 - 1e-6) || w_moments(top).0 <= k_mean {
+            break b;
+        }
+        if top >= b_most {
             return Err(CountsProblem::AllAtShortest(tmin));
         }
-        hi = (hi * 1e3).min(b_most);
-    }
-    let mut b = start_b(d)
-        .filter(|x| *x > lo && *x < hi)
-        .unwrap_or(1.0 / span);
-    let ln_target = (k_mean - tmin).ln();
-    for _ in 0..300 {
-        let (mean, var) = w_moments(b);
-        if mean > k_mean {
-            lo = b;
-        } else {
-            hi = b;
-        }
-        let above = mean - tmin;
-        let g = above.ln() - ln_target;
-        let slope = -b * var / above;
-        let newton = b * (-g / slope).exp();
-        // Converged: Newton's method converges quadratically, so a step of 1e-10 relative
-        // leaves b within about 1e-20 of the root once taken (and a smaller one may fall
-        // either side of the bracket's end that b itself is).
-        if (newton - b).abs() <= 1e-10 * b && newton.is_finite() {
-            b = newton;
-            break;
-        }
-        let next = if newton > lo && newton < hi && var > 0.0 && newton.is_finite() {
-            newton
-        } else {
-            0.5 * (lo + hi)
-        };
-        let done =
-            (next - b).abs() <= 4.0 * f64::EPSILON * b.abs() || hi - lo <= 4.0 * f64::EPSILON * hi;
-        b = next;
-        if done {
-            break;
-        }
-    }
+        top = (top * 1e3).min(b_most);
+    };
     let a = best_a(d, &o, b);
     let peak = log_lik(d, &o, a, b);
     // The profile in b in one pass over the rows: at the best a the expected counts sum
@@ -465,23 +474,22 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
     // Standard errors from the observed information at the peak, the first guesses of
     // each interval end's distance (the profile falls by 1.92 about 1.96 of them away).
     // The information about b is taken about the expected counts' mean tr (c_bb, a sum
-    // of squares), not as i_bb - i_ab^2 / i_aa, whose difference of near-equal terms
-    // loses every digit when the expected counts sit almost all at one tr: det = i_aa
-    // c_bb. Where they sit all at one tr, c_bb is 0 and the errors are not computable
-    // (infinite: the report says so).
-    let mu: Vec<f64> =
-        d.tr.iter()
-            .zip(&o)
-            .map(|(t, o)| (a - b * t + o).exp())
-            .collect();
-    let i_aa: f64 = mu.iter().sum();
-    let i_ab: f64 = mu.iter().zip(&d.tr).map(|(m, t)| m * t).sum();
-    let t_bar = i_ab / i_aa;
-    let c_bb: f64 = mu
-        .iter()
-        .zip(&d.tr)
-        .map(|(m, t)| m * (t - t_bar) * (t - t_bar))
-        .sum();
+    // of squares, in one pass by West's weighted update), not as i_bb - i_ab^2 / i_aa,
+    // whose difference of near-equal terms loses every digit when the expected counts sit
+    // almost all at one tr: det = i_aa c_bb. Where they sit all at one tr, c_bb is 0 and
+    // the errors are not computable (infinite: the report says so). D. H. D. West,
+    // "Updating mean and variance estimates: an improved method", CACM 22(9), 1979.
+    let (mut i_aa, mut t_bar, mut c_bb) = (0.0, 0.0, 0.0);
+    for (t, o) in d.tr.iter().zip(&o) {
+        let mu = (a - b * t + o).exp();
+        if mu > 0.0 {
+            i_aa += mu;
+            let step = t - t_bar;
+            t_bar += step * mu / i_aa;
+            c_bb += mu * step * (t - t_bar);
+        }
+    }
+    let i_ab = i_aa * t_bar;
     let i_bb = c_bb + i_aa * t_bar * t_bar;
     // var a = i_bb / det = 1/i_aa + t_bar^2 / c_bb, var b = i_aa / det = 1 / c_bb.
     let (se_a, se_b) = (
