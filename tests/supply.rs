@@ -6,7 +6,9 @@ use std::process::Command;
 
 use latchwise::calculator::Calculator;
 use latchwise::params::RawInputs;
-use latchwise::supply::model::{ageing_factor, ln_linear, tau_at, tau_bound_below, Rule};
+use latchwise::supply::model::{
+    ageing_factor, ln_linear, premise_breaks, tau_at, tau_bound_below, Rule,
+};
 use latchwise::supply::{SupplyCalculator, SupplyReport};
 use proptest::prelude::*;
 
@@ -188,7 +190,49 @@ proptest! {
         let (t, rule) = tau_at(&known, v, Some(ss)).unwrap();
         prop_assert_eq!(rule, Rule::Bounded);
         prop_assert!(t >= ekv_tau(v, vt, n, ut) * (1.0 - 1e-12), "bounded at {v}");
+        // And the model's points break none of the premises the rules rest on.
+        let breaks = premise_breaks(&known, Some(ss));
+        prop_assert!(breaks.is_empty(), "{breaks:?}");
     }
+}
+
+/// A characterisation that breaks the premises is said to: tau rising with VDD (a table
+/// upside down), a middle point above the chord in ln tau, and a fall steeper than the
+/// given ss allows (with the ss that fits: ln 10 / (2 ln(1270/60) / 0.15 V) = 56.58
+/// mV/decade, by hand). The demo's breaks none.
+#[test]
+fn a_characterisation_that_breaks_the_premises_is_said_to() {
+    let said = |char: &str| -> Vec<String> {
+        let mut set = DEMO.to_vec();
+        if !char.contains("tsu") {
+            set.extend([("tsu", "20ps"), ("tcq", "30ps")]);
+        }
+        check(char, &example("supply-points.csv"), &set)
+            .warnings
+            .into_iter()
+            .filter(|w| w.starts_with("The characterisation"))
+            .collect()
+    };
+    assert_eq!(said(&example("supply-char.csv")), Vec::<String>::new());
+    let rising = said("vdd,tau,tw\n0.6,12ps,20ps\n0.75,28ps,40ps\n0.9,127ps,200ps\n");
+    assert_eq!(rising.len(), 1, "{rising:?}");
+    assert!(
+        rising[0]
+            .contains("tau rises from 12 ps at 600 mV to 28 ps at 750 mV (and between 1 more pair"),
+        "{rising:?}"
+    );
+    let concave = said("vdd,tau,tw\n0.6,127ps,20ps\n0.75,60ps,40ps\n0.9,12ps,200ps\n");
+    assert_eq!(concave.len(), 1, "{concave:?}");
+    assert!(
+        concave[0].contains("tau at 750 mV lies above the line in ln tau"),
+        "{concave:?}"
+    );
+    let steep = said("vdd,tau,tw\n0.6,1270ps,20ps\n0.75,60ps,40ps\n0.9,12ps,200ps\n");
+    assert_eq!(steep.len(), 1, "{steep:?}");
+    assert!(
+        steep[0].contains("an ss of at most 56.58 mV/decade"),
+        "{steep:?}"
+    );
 }
 
 #[test]

@@ -114,3 +114,58 @@ pub fn tau_at(known: &[Known], vdd: f64, ss: Option<f64>) -> Option<(f64, Rule)>
     }
     Some(ln_linear(known, vdd))
 }
+
+/// Where characterised taus (sorted by rising VDD) break the premises the rules rest on
+/// (domain notes section 10): tau falls as VDD rises, ln tau is convex in VDD (P1), and
+/// falls no faster than ln 10 / (2 SS) per volt (P2, with `ss`).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Break {
+    /// tau does not fall from the first voltage to the second.
+    Rises(Known, Known),
+    /// The middle point lies above the chord of its neighbours in ln tau.
+    Concave(Known, Known, Known),
+    /// tau falls faster between the two than `ss` allows; the largest SS that allows it.
+    Steeper(Known, Known, f64),
+}
+
+/// The [`Break`]s of characterised taus sorted by rising VDD.
+///
+/// # Examples
+/// ```
+/// use latchwise::supply::model::{premise_breaks, Break};
+/// // Falling, convex, and within 62.5 mV/decade: no break.
+/// let good = [(0.6, 127e-12), (0.75, 28.1e-12), (0.9, 12.0e-12)];
+/// assert!(premise_breaks(&good, Some(62.5e-3)).is_empty());
+/// // The same table upside down rises with VDD.
+/// let bad = [(0.6, 12.0e-12), (0.75, 28.1e-12), (0.9, 127e-12)];
+/// assert!(matches!(premise_breaks(&bad, None)[0], Break::Rises(..)));
+/// ```
+pub fn premise_breaks(tau: &[Known], ss: Option<f64>) -> Vec<Break> {
+    let mut out = Vec::new();
+    // Slopes of ln tau between neighbours, per volt.
+    let slope = |a: Known, b: Known| (b.1.ln() - a.1.ln()) / (b.0 - a.0);
+    for w in tau.windows(2) {
+        let (a, b) = (w[0], w[1]);
+        if b.1 >= a.1 {
+            out.push(Break::Rises(a, b));
+        } else if let Some(ss) = ss {
+            let s = -slope(a, b);
+            // 1e-9: a table written from the bound itself is not flagged by rounding.
+            if s > std::f64::consts::LN_10 / (2.0 * ss) * (1.0 + 1e-9) {
+                out.push(Break::Steeper(a, b, std::f64::consts::LN_10 / (2.0 * s)));
+            }
+        }
+    }
+    // A table that rises is wrong at its root: the finer premises are not judged on it.
+    if out.iter().any(|b| matches!(b, Break::Rises(..))) {
+        out.retain(|b| matches!(b, Break::Rises(..)));
+        return out;
+    }
+    for w in tau.windows(3) {
+        // Convex: the slopes rise (grow less negative) with VDD.
+        if slope(w[0], w[1]) > slope(w[1], w[2]) * (1.0 - 1e-9) + 1e-12 {
+            out.push(Break::Concave(w[0], w[1], w[2]));
+        }
+    }
+    out
+}

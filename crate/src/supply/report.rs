@@ -15,7 +15,7 @@ use crate::reliability::{CAUTION, FIT_PER_RATE, YEAR_S};
 use crate::units::{format_duration_log10, format_log10, format_number, format_si};
 
 use super::input::{PointCase, SupplyCase};
-use super::model::Rule;
+use super::model::{premise_breaks, Break, Known, Rule};
 
 /// One operating point at one temperature.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -161,6 +161,60 @@ pub fn evaluate(case: &SupplyCase) -> SupplyReport {
             if !warnings.contains(&w) {
                 warnings.push(w);
             }
+        }
+    }
+    // The characterisation against the premises the rules rest on: where it breaks
+    // them, the rules' bounds are not proven for it.
+    for set in &case.sets {
+        let at = at_temp(set.temp);
+        let tau = |k: Known| format!("{} at {}", format_si(k.1, "s"), format_si(k.0, "V"));
+        let breaks = premise_breaks(&set.tau, case.ss);
+        let rises = breaks
+            .iter()
+            .filter(|b| matches!(b, Break::Rises(..)))
+            .count();
+        // One warning for a set that rises: its first rise, and how many more there are.
+        let first_rise = breaks.iter().position(|b| matches!(b, Break::Rises(..)));
+        for (k, b) in breaks.into_iter().enumerate() {
+            if matches!(b, Break::Rises(..)) && Some(k) != first_rise {
+                continue;
+            }
+            warnings.push(match b {
+                Break::Rises(a, b) => format!(
+                    "The characterisation{at}: tau rises from {} to {}{}, where it falls as \
+                     VDD rises; check the table's rows and units. The rules' bounds do not \
+                     hold for it.",
+                    tau(a),
+                    tau(b),
+                    if rises > 1 {
+                        format!(
+                            " (and between {} more pair{} of voltages)",
+                            rises - 1,
+                            if rises == 2 { "" } else { "s" }
+                        )
+                    } else {
+                        String::new()
+                    }
+                ),
+                Break::Concave(a, m, b) => format!(
+                    "The characterisation{at}: tau at {} lies above the line in ln tau from \
+                     {} to {} (ln tau is convex in VDD): between those voltages the \
+                     interpolation is not proven to over-estimate tau; check that point.",
+                    format_si(m.0, "V"),
+                    tau(a),
+                    tau(b)
+                ),
+                Break::Steeper(a, b, fits) => format!(
+                    "The characterisation{at}: tau falls from {} to {}, faster than ss = \
+                     {}/decade allows (at most x10 per 2 ss); an ss of at most {}/decade fits \
+                     the data, and the bound below the lowest VDD taken with the larger ss \
+                     may under-estimate tau.",
+                    tau(a),
+                    tau(b),
+                    format_si(case.ss.unwrap_or(0.0), "V"),
+                    format_si(fits, "V")
+                ),
+            });
         }
     }
     if case.dvt.is_some() {
