@@ -919,3 +919,91 @@ fn the_delay_plots_show_the_whole_sweep_fit() {
     // Within a few noise widths (0.15 ps in the demo) everywhere.
     assert!(got.iter().all(|r| r.abs() < 1e-12), "{got:?}");
 }
+
+/// Changes of the data whose effect on the fit follows from the law alone: the comparator's
+/// inputs ten times larger give v0 ten times larger and the same tau (time = tau ln(v0 /
+/// vin)); counts at twice the clock give half the window and the same tau (mu = d fclk
+/// fdata w e^(-tr/tau)); a delay sweep's offsets shifted by 50 ps give the same tau, tw and
+/// tcq, and its delays 10 ps longer give tcq 10 ps longer and the same tau and tw.
+#[test]
+fn fits_follow_changes_the_law_predicts() {
+    let rows = |name: &str| -> Vec<Vec<String>> {
+        file(name)
+            .lines()
+            .filter(|l| !l.starts_with('#') && !l.is_empty())
+            .skip(1)
+            .map(|l| l.split(',').map(str::to_string).collect())
+            .collect()
+    };
+    fn si(field: &'static str, s: &str, dim: latchwise::units::Dim) -> f64 {
+        latchwise::quantity::parse(field, s, dim).unwrap()
+    }
+    use latchwise::units::Dim;
+    let n = |v: &Value, k: &str| v[k].as_f64().unwrap();
+
+    let base = fit("comparator", &file("fit-comparator.csv"), &[]).unwrap();
+    let scaled: String = rows("fit-comparator.csv")
+        .iter()
+        .fold("vin,time\n".into(), |mut t, r| {
+            t.push_str(&format!(
+                "{:e},{}\n",
+                10.0 * si("vin", &r[0], Dim::Voltage),
+                r[1]
+            ));
+            t
+        });
+    let v = fit("comparator", &scaled, &[]).unwrap();
+    assert_rel("tau, vin x10", n(&v, "tau_s"), n(&base, "tau_s"), 1e-9);
+    assert_rel("v0, vin x10", n(&v, "v0_v"), 10.0 * n(&base, "v0_v"), 1e-9);
+
+    let at = |fclk: &str| {
+        fit(
+            "counts",
+            &file("fit-counts.csv"),
+            &[("fclk", fclk), ("fdata", "50MHz")],
+        )
+        .unwrap()
+    };
+    let (one, two) = (at("1GHz"), at("2GHz"));
+    assert_rel("tau, fclk x2", n(&two, "tau_s"), n(&one, "tau_s"), 1e-9);
+    for k in ["tw_s", "tw_s_ci_low", "tw_s_ci_high"] {
+        assert_rel(k, n(&two, k), 0.5 * n(&one, k), 1e-9);
+    }
+
+    let base = fit("delay", &file("fit-delay.csv"), &[]).unwrap();
+    let moved = |d_off: f64, d_delay: f64| -> Value {
+        let t = rows("fit-delay.csv")
+            .iter()
+            .fold("offset,delay\n".to_string(), |mut t, r| {
+                let o = si("offset", &r[0], Dim::Time) + d_off;
+                let d = si("delay", &r[1], Dim::Time) + d_delay;
+                t.push_str(&format!("{o:e},{d:e}\n"));
+                t
+            });
+        fit("delay", &t, &[]).unwrap()
+    };
+    let shifted = moved(50e-12, 0.0);
+    for k in ["tau_s", "tw_s", "tcq_s"] {
+        assert_rel(
+            &format!("{k}, offsets +50 ps"),
+            n(&shifted, k),
+            n(&base, k),
+            1e-6,
+        );
+    }
+    let later = moved(0.0, 10e-12);
+    for k in ["tau_s", "tw_s"] {
+        assert_rel(
+            &format!("{k}, delays +10 ps"),
+            n(&later, k),
+            n(&base, k),
+            1e-6,
+        );
+    }
+    assert_rel(
+        "tcq, delays +10 ps",
+        n(&later, "tcq_s"),
+        n(&base, "tcq_s") + 10e-12,
+        1e-6,
+    );
+}
