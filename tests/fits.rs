@@ -1007,3 +1007,13 @@ fn fits_follow_changes_the_law_predicts() {
         1e-6,
     );
 }
+
+/// Counts whose fit would need a window beyond any number (10^782 s: 4.8e14 failures in
+/// 1 ns at 423 ns, one in 11 days at 434 ns, 741,906 in 1 ns at 39 us) are refused with
+/// why, not printed as an infinite tw. (A case found by `scripts/explore`.)
+#[test]
+fn counts_needing_a_window_beyond_any_number_are_refused() {
+    let data = "tr,failures,duration\n3.859344222855318e-5,741906,1e-9\n4.3405204170618586e-7,1,9.536633765894008e5\n4.2299029578442304e-7,482832146502469,1e-9\n";
+    let e = fit("counts", data, &[("fclk", "1GHz"), ("fdata", "50MHz")]).unwrap_err();
+    assert!(e.contains("a window of 10^782 s, beyond any time"), "{e}");
+}

@@ -78,6 +78,9 @@ pub enum CountsProblem {
     NotSignificantlyFalling(Option<f64>),
     /// Every failure is at the shortest resolution time: tau is below what the rows resolve.
     AllAtShortest(f64),
+    /// The window the counts imply is beyond any time a number holds (its log10, s): the
+    /// counts do not follow one exponential in tr.
+    WindowBeyondRange(f64),
 }
 
 impl CountsProblem {
@@ -108,6 +111,12 @@ impl CountsProblem {
                     " (tau above {})",
                     format_si(t, "s")
                 ))
+            ),
+            CountsProblem::WindowBeyondRange(log10_w) => format!(
+                "the counts imply a window of 10^{log10_w:.0} s, beyond any time: they do \
+                 not fall as one exponential in tr (rows with more failures than data \
+                 edges, or counts that rise again at long tr, do this); check the rows and \
+                 their units"
             ),
             CountsProblem::AllAtShortest(t) => format!(
                 "every failure is at the shortest tr ({}): tau is too small for these \
@@ -435,6 +444,11 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
         top = (top * 1e3).min(b_most);
     };
     let a = best_a(d, &o, b);
+    // A window beyond 1e300 s is no estimate (the invariant of every report): said, not
+    // printed as a number or an infinity.
+    if a > 1e300f64.ln() {
+        return Err(CountsProblem::WindowBeyondRange(a / LN_10));
+    }
     let peak = log_lik(d, &o, a, b);
     // The profile in b in one pass over the rows: at the best a the expected counts sum
     // to the failures, so log_lik = K a - b sum k t + sum k o - K, a = ln K - ln S0; its
@@ -557,7 +571,11 @@ pub fn fit(d: &Counts, fclk: f64, fdata: f64) -> Result<CountsFit, CountsProblem
         // tau = 1/b: the interval's ends swap.
         tau_ci: (b_hi.map(|x| 1.0 / x), b_lo.map(|x| 1.0 / x)),
         window: a.exp(),
-        window_ci: (a_lo.map(f64::exp), a_hi.map(f64::exp)),
+        // An end beyond 1e300 s is left open, as one the likelihood never reaches.
+        window_ci: (
+            a_lo.map(f64::exp).filter(|w| *w <= 1e300),
+            a_hi.map(f64::exp).filter(|w| *w <= 1e300),
+        ),
         // The inverse information: var a = I_bb/det, var b = I_aa/det, and I_ab = -i_ab
         // (d eta/d b = -t), so cov(a, b) = i_ab/det > 0; ln tau = -ln b, so sd(ln tau) =
         // sd(b)/b and the correlation of ln tau and ln w is minus that of a and b.
