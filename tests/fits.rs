@@ -855,6 +855,32 @@ fn an_outlier_in_a_sweep_is_named() {
         w.contains(&format!("Line {} stands far out of the fit", at + 1)),
         "{w}"
     );
+    // A point on the plateau 16 ps late pulls tcq, and with it every other plateau
+    // point's residual beyond 5 robust deviations of the first fit: it alone is named,
+    // as is a point near the balance 20 ps late, and one in the transition 10 ps late.
+    for (line, from, to) in [
+        (18, "1067.640168ps,44.750ps", "1067.640168ps,60.750ps"),
+        (9, "3.021750ps,115.875ps", "3.021750ps,135.875ps"),
+        (14, "-28.497864ps,45.623ps", "-28.497864ps,55.623ps"),
+    ] {
+        assert!(demo.contains(from));
+        let v = fit("delay", &demo.replace(from, to), &[]).unwrap();
+        let far: Vec<String> = v["warnings"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .filter_map(|w| {
+                w.as_str()
+                    .filter(|w| w.contains("far out"))
+                    .map(str::to_string)
+            })
+            .collect();
+        assert_eq!(far.len(), 1, "{far:?}");
+        assert!(
+            far[0].starts_with(&format!("Line {line} stands far out")),
+            "{far:?}"
+        );
+    }
 }
 
 /// Counts that fall too little to tell from flat are refused with what they do say (tau

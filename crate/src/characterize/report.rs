@@ -438,6 +438,7 @@ pub fn evaluate(f: &Fitted) -> FitReport {
                 offset,
                 delay,
                 lines,
+                tcq,
                 ..
             },
             Fit::Delay(fit),
@@ -508,12 +509,33 @@ pub fn evaluate(f: &Fitted) -> FitReport {
             if let Some((st, sw, c)) = fit.joint {
                 (r.sd_ln_tau, r.sd_ln_tw, r.corr_ln_tau_ln_tw) = (Some(st), Some(sw), Some(c));
             }
-            if let Some(res) = &fit.residuals {
-                let used: Vec<(usize, f64)> = (0..res.len())
-                    .filter(|&i| fit.uses[i] == Use::Used)
-                    .map(|i| (lines[i], res[i]))
-                    .collect();
-                r.warnings.extend(far_out(&used, "tau and tw"));
+            if fit.residuals.is_some() {
+                let far = far_delay_points(offset, delay, tcq.map(|t| t.get()), fit);
+                if !far.is_empty() {
+                    let named: Vec<String> = far
+                        .iter()
+                        .enumerate()
+                        .map(|(k, &i)| {
+                            format!("{} {}", if k == 0 { "Line" } else { "line" }, lines[i])
+                        })
+                        .collect();
+                    r.warnings.push(format!(
+                        "{} stand{} far out of the fit (residual beyond 5 robust standard \
+                         deviations{}): check {} before trusting tau and tw.",
+                        named.join(", "),
+                        if far.len() == 1 { "s" } else { "" },
+                        if far.len() == 1 {
+                            ""
+                        } else {
+                            "; each named with the sweep fitted again without those before"
+                        },
+                        if far.len() == 1 {
+                            "that point"
+                        } else {
+                            "those points"
+                        }
+                    ));
+                }
             }
             if let Some(d) = fit.slope_drift.filter(|d| *d > 0.05) {
                 r.warnings.push(format!(
@@ -624,32 +646,53 @@ pub fn evaluate(f: &Fitted) -> FitReport {
     r
 }
 
-/// The warning naming the points whose residual stands far out of the rest (beyond 5
-/// robust standard deviations, from the median absolute residual), by line: `points`
-/// are (line, residual), `what` the estimates to check before trusting.
-fn far_out(points: &[(usize, f64)], what: &str) -> Option<String> {
-    let mut sorted: Vec<f64> = points.iter().map(|(_, r)| r.abs()).collect();
-    sorted.sort_by(f64::total_cmp);
-    let mad = sorted.get(sorted.len() / 2).copied().unwrap_or(0.0);
-    let far: Vec<String> = points
-        .iter()
-        .filter(|(_, r)| r.abs() > 5.0 * 1.4826 * mad)
-        .enumerate()
-        .map(|(k, (line, _))| format!("{} {line}", if k == 0 { "Line" } else { "line" }))
-        .collect();
-    (!far.is_empty() && mad > 0.0).then(|| {
-        format!(
-            "{} stand{} far out of the fit (residual beyond 5 robust standard deviations): \
-             check {} before trusting {what}.",
-            far.join(", "),
-            if far.len() == 1 { "s" } else { "" },
-            if far.len() == 1 {
-                "that point"
-            } else {
-                "those points"
+/// The most points a sweep's search for far-out points names.
+const FAR_POINTS_MOST: usize = 5;
+
+/// The points of a whole-sweep delay fit that stand far out of it, one at a time: the
+/// used point with the largest residual, where it is beyond 5 robust standard deviations
+/// (from the median absolute residual of the used points), is named and the sweep fitted
+/// again without it, until none is (at most [`FAR_POINTS_MOST`]). One bad point pulls the
+/// fit (tcq, say) and so the residuals of its neighbours; named against the first fit
+/// alone, they would be named with it. Returns indices into the rows.
+fn far_delay_points(
+    offset: &[f64],
+    delay: &[f64],
+    tcq: Option<f64>,
+    fit: &super::delay::DelayFit,
+) -> Vec<usize> {
+    let mut far: Vec<usize> = Vec::new();
+    let (mut res, mut uses, mut keep) = (
+        fit.residuals.clone().unwrap_or_default(),
+        fit.uses.clone(),
+        (0..offset.len()).collect::<Vec<usize>>(),
+    );
+    while far.len() < FAR_POINTS_MOST {
+        let used: Vec<usize> = (0..res.len()).filter(|&k| uses[k] == Use::Used).collect();
+        let mut sorted: Vec<f64> = used.iter().map(|&k| res[k].abs()).collect();
+        sorted.sort_by(f64::total_cmp);
+        let mad = sorted.get(sorted.len() / 2).copied().unwrap_or(0.0);
+        let Some(&worst) = used
+            .iter()
+            .max_by(|&&a, &&b| res[a].abs().total_cmp(&res[b].abs()))
+        else {
+            break;
+        };
+        if mad <= 0.0 || res[worst].abs() <= 5.0 * 1.4826 * mad {
+            break;
+        }
+        far.push(keep[worst]);
+        keep.remove(worst);
+        let (o, d): (Vec<f64>, Vec<f64>) = keep.iter().map(|&i| (offset[i], delay[i])).unzip();
+        match super::delay::fit_coth(&o, &d, tcq) {
+            Ok(again) if again.residuals.is_some() => {
+                res = again.residuals.unwrap_or_default();
+                uses = again.uses;
             }
-        )
-    })
+            _ => break,
+        }
+    }
+    far
 }
 
 impl FitReport {
