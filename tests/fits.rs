@@ -1024,3 +1024,20 @@ fn counts_needing_a_window_beyond_any_number_are_refused() {
     let e = fit("counts", data, &[("fclk", "1GHz"), ("fdata", "50MHz")]).unwrap_err();
     assert!(e.contains("a window of 10^782 s, beyond any time"), "{e}");
 }
+
+/// A given tcq above the delay the sweep returns to far from the balance point (the
+/// demo's plateau is 45 ps) breaks the law (the delay never falls below tcq) and is said
+/// to; the demo's own 45 ps is not, nor one 1 ps below it.
+#[test]
+fn a_given_tcq_above_the_far_delays_is_said_to_be_wrong() {
+    let demo = file("fit-delay.csv");
+    let said = |tcq: &str| {
+        fit("delay", &demo, &[("tcq", tcq)]).unwrap()["warnings"]
+            .to_string()
+            .contains("is above the delay of the points farthest")
+    };
+    assert!(said("60ps"));
+    assert!(said("47ps"));
+    assert!(!said("45ps"));
+    assert!(!said("44ps"));
+}

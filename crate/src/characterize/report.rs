@@ -461,6 +461,23 @@ pub fn evaluate(f: &Fitted) -> FitReport {
             }
             r.offset_m_s = Some(fit.offset_m);
             r.tcq_s = Some(fit.tcq);
+            // The delay never falls below tcq: a given tcq above the delay of the points
+            // farthest from the balance point (the quarter the fit would take tcq from)
+            // by more than their own scatter is wrong, and every point's residual with it.
+            if fit.tcq_given {
+                if let Some((far, scatter)) = far_delay(offset, delay) {
+                    if fit.tcq - far > (5.0 * scatter).max(1e-3 * fit.tcq) {
+                        r.warnings.push(format!(
+                            "The given tcq = {} is above the delay of the points farthest \
+                             from the balance point (their median {}), and the delay never \
+                             falls below tcq: check tcq, or leave it empty to fit it with \
+                             the sweep.",
+                            format_si(fit.tcq, "s"),
+                            format_si(far, "s")
+                        ));
+                    }
+                }
+            }
             r.tcq_source = Some(if fit.tcq_given {
                 "given"
             } else if fit.residuals.is_some() {
@@ -644,6 +661,28 @@ pub fn evaluate(f: &Fitted) -> FitReport {
         r.corner_csv = r.corner_table();
     }
     r
+}
+
+/// The median delay of the quarter of a sweep's points farthest from its largest delay
+/// (where the delay has returned to tcq), and their scatter (1.4826 times the median
+/// absolute deviation). None for fewer than eight points.
+fn far_delay(offset: &[f64], delay: &[f64]) -> Option<(f64, f64)> {
+    let n = offset.len();
+    if n < 8 {
+        return None;
+    }
+    let peak = (0..n).max_by(|&i, &j| delay[i].total_cmp(&delay[j]))?;
+    let mut order: Vec<usize> = (0..n).collect();
+    let from = |i: usize| (offset[i] - offset[peak]).abs();
+    order.sort_by(|&i, &j| from(j).total_cmp(&from(i)));
+    let median = |mut v: Vec<f64>| {
+        v.sort_by(f64::total_cmp);
+        v[v.len() / 2]
+    };
+    let far: Vec<f64> = order[..n / 4].iter().map(|&i| delay[i]).collect();
+    let mid = median(far.clone());
+    let scatter = 1.4826 * median(far.iter().map(|d| (d - mid).abs()).collect());
+    Some((mid, scatter))
 }
 
 /// The most points a sweep's search for far-out points names.
