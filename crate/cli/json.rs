@@ -157,6 +157,17 @@ impl Inert {
     }
 }
 
+/// `$method` of the compact formatter where `$compact` holds, else of the pretty one.
+macro_rules! either {
+    ($s:ident, $compact:expr, $method:ident($($arg:expr),*)) => {
+        if $compact {
+            CompactFormatter.$method($($arg),*)
+        } else {
+            $s.0.$method($($arg),*)
+        }
+    };
+}
+
 impl Formatter for Inert {
     fn write_string_fragment<W: ?Sized + Write>(
         &mut self,
@@ -186,81 +197,45 @@ impl Formatter for Inert {
         w.write_all(rest.as_bytes())
     }
     fn begin_array<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
-        let r = if self.opening_compact() {
-            CompactFormatter.begin_array(w)
-        } else {
-            self.0.begin_array(w)
-        };
+        let r = either!(self, self.opening_compact(), begin_array(w));
         self.1 += 1;
         r
     }
     fn end_array<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
         self.1 -= 1;
-        if self.opening_compact() {
-            CompactFormatter.end_array(w)
-        } else {
-            self.0.end_array(w)
-        }
+        either!(self, self.opening_compact(), end_array(w))
     }
     fn begin_array_value<W: ?Sized + Write>(
         &mut self,
         w: &mut W,
         first: bool,
     ) -> std::io::Result<()> {
-        if self.inside_compact() {
-            CompactFormatter.begin_array_value(w, first)
-        } else {
-            self.0.begin_array_value(w, first)
-        }
+        either!(self, self.inside_compact(), begin_array_value(w, first))
     }
     fn end_array_value<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
-        if self.inside_compact() {
-            CompactFormatter.end_array_value(w)
-        } else {
-            self.0.end_array_value(w)
-        }
+        either!(self, self.inside_compact(), end_array_value(w))
     }
     fn begin_object<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
-        let r = if self.opening_compact() {
-            CompactFormatter.begin_object(w)
-        } else {
-            self.0.begin_object(w)
-        };
+        let r = either!(self, self.opening_compact(), begin_object(w));
         self.1 += 1;
         r
     }
     fn end_object<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
         self.1 -= 1;
-        if self.opening_compact() {
-            CompactFormatter.end_object(w)
-        } else {
-            self.0.end_object(w)
-        }
+        either!(self, self.opening_compact(), end_object(w))
     }
     fn begin_object_key<W: ?Sized + Write>(
         &mut self,
         w: &mut W,
         first: bool,
     ) -> std::io::Result<()> {
-        if self.inside_compact() {
-            CompactFormatter.begin_object_key(w, first)
-        } else {
-            self.0.begin_object_key(w, first)
-        }
+        either!(self, self.inside_compact(), begin_object_key(w, first))
     }
     fn begin_object_value<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
-        if self.inside_compact() {
-            CompactFormatter.begin_object_value(w)
-        } else {
-            self.0.begin_object_value(w)
-        }
+        either!(self, self.inside_compact(), begin_object_value(w))
     }
     fn end_object_value<W: ?Sized + Write>(&mut self, w: &mut W) -> std::io::Result<()> {
-        if self.inside_compact() {
-            CompactFormatter.end_object_value(w)
-        } else {
-            self.0.end_object_value(w)
-        }
+        either!(self, self.inside_compact(), end_object_value(w))
     }
 }
 
