@@ -1041,3 +1041,21 @@ fn a_given_tcq_above_the_far_delays_is_said_to_be_wrong() {
     assert!(!said("45ps"));
     assert!(!said("44ps"));
 }
+
+/// The warning about a given tcq quotes the same far-out median as the log-law fit takes
+/// tcq from: with an even number of far-out points, the mean of the middle two.
+#[test]
+fn the_wrong_tcq_warning_quotes_the_median_the_fit_takes_tcq_from() {
+    // The demo's 24 points and eight farther out, four at 44 ps and four at 47 ps: the
+    // far quarter is those eight, and their median 45.5 ps.
+    let mut data = file("fit-delay.csv");
+    for k in 2..6 {
+        data.push_str(&format!("-{k}ns,44ps\n{k}ns,47ps\n"));
+    }
+    let log = fit("delay", &data, &[("method", "log")]).unwrap();
+    let far = log["tcq_s"].as_f64().unwrap();
+    assert!((far - 45.5e-12).abs() < 1e-18, "{far:e}");
+    let warned = fit("delay", &data, &[("tcq", "60ps")]).unwrap()["warnings"].to_string();
+    let quoted = format!("their median {}", latchwise::units::format_si(far, "s"));
+    assert!(warned.contains(&quoted), "{quoted} not in {warned}");
+}

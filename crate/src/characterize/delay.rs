@@ -71,7 +71,8 @@ pub struct DelayFit {
     pub slope_drift: Option<f64>,
 }
 
-fn median(mut v: Vec<f64>) -> f64 {
+/// The median of `v` (the mean of the middle two for an even count).
+pub(crate) fn median(mut v: Vec<f64>) -> f64 {
     v.sort_by(f64::total_cmp);
     let n = v.len();
     if n % 2 == 1 {
@@ -79,6 +80,23 @@ fn median(mut v: Vec<f64>) -> f64 {
     } else {
         0.5 * (v[n / 2 - 1] + v[n / 2])
     }
+}
+
+/// The delays of the quarter of a sweep's points farthest in offset from its longest
+/// delay (at least one point): where the delay has returned to tcq.
+pub(crate) fn far_quarter(offset: &[f64], delay: &[f64]) -> Vec<f64> {
+    let n = offset.len();
+    let Some(peak) = (0..n).max_by(|&i, &j| delay[i].total_cmp(&delay[j])) else {
+        return Vec::new();
+    };
+    let centre = offset[peak];
+    let mut far: Vec<usize> = (0..n).collect();
+    far.sort_by(|&i, &j| {
+        (offset[j] - centre)
+            .abs()
+            .total_cmp(&(offset[i] - centre).abs())
+    });
+    far.iter().take((n / 4).max(1)).map(|&i| delay[i]).collect()
 }
 
 /// Fits tau, tw and the balance offset to (offset, delay) rows; `tcq` when known.
@@ -102,15 +120,7 @@ pub fn fit(offset: &[f64], delay: &[f64], tcq: Option<f64>) -> Result<DelayFit, 
         .max_by(|&i, &j| delay[i].total_cmp(&delay[j]))
         .unwrap_or(0);
     let centre = offset[peak];
-    let tcq_value = tcq.unwrap_or_else(|| {
-        let mut far: Vec<usize> = (0..n).collect();
-        far.sort_by(|&i, &j| {
-            (offset[j] - centre)
-                .abs()
-                .total_cmp(&(offset[i] - centre).abs())
-        });
-        median(far.iter().take((n / 4).max(1)).map(|&i| delay[i]).collect())
-    });
+    let tcq_value = tcq.unwrap_or_else(|| median(far_quarter(offset, delay)));
     let extra: Vec<f64> = delay.iter().map(|d| d - tcq_value).collect();
     let top = extra[peak];
     if top <= 0.0 || top.is_nan() {

@@ -667,19 +667,11 @@ pub fn evaluate(f: &Fitted) -> FitReport {
 /// (where the delay has returned to tcq), and their scatter (1.4826 times the median
 /// absolute deviation). None for fewer than eight points.
 fn far_delay(offset: &[f64], delay: &[f64]) -> Option<(f64, f64)> {
-    let n = offset.len();
-    if n < 8 {
+    use super::delay::{far_quarter, median};
+    if offset.len() < 8 {
         return None;
     }
-    let peak = (0..n).max_by(|&i, &j| delay[i].total_cmp(&delay[j]))?;
-    let mut order: Vec<usize> = (0..n).collect();
-    let from = |i: usize| (offset[i] - offset[peak]).abs();
-    order.sort_by(|&i, &j| from(j).total_cmp(&from(i)));
-    let median = |mut v: Vec<f64>| {
-        v.sort_by(f64::total_cmp);
-        v[v.len() / 2]
-    };
-    let far: Vec<f64> = order[..n / 4].iter().map(|&i| delay[i]).collect();
+    let far = far_quarter(offset, delay);
     let mid = median(far.clone());
     let scatter = 1.4826 * median(far.iter().map(|d| (d - mid).abs()).collect());
     Some((mid, scatter))
