@@ -1040,6 +1040,52 @@ fn a_given_tcq_above_the_far_delays_is_said_to_be_wrong() {
     assert!(said("47ps"));
     assert!(!said("45ps"));
     assert!(!said("44ps"));
+    // Every residual is off with a wrong tcq: the good plateau points are not named.
+    let wrong = fit("delay", &demo, &[("tcq", "60ps")]).unwrap()["warnings"].to_string();
+    assert!(!wrong.contains("far out of the fit (a residual"), "{wrong}");
+    // A bad point with the right tcq is still named.
+    let bad = format!("{demo}0.5ns,90ps\n");
+    let named = fit("delay", &bad, &[("tcq", "45ps")]).unwrap()["warnings"].to_string();
+    assert!(named.contains("far out of the fit (a residual"), "{named}");
+}
+
+/// A bad point can pull the whole-sweep fit so far that it hides in the spread it
+/// causes: 90 ps at 0.5 ns, where the demo's sweep is back at 45 ps, halves tau and leaves
+/// every residual near 15 ps, its own (43 ps) within 5 robust deviations. It is named by
+/// its distance from the sweep fitted without it, with tcq given and fitted. Clean
+/// synthetic sweeps have a point named by either test 4 times in 200 (at most 10 allowed
+/// here); a point 6 ps (40 sigma) off in the tail is named every time.
+#[test]
+fn a_bad_point_hiding_in_the_spread_it_causes_is_named() {
+    use latchwise::characterize::delay::ln_coth;
+    let bad = format!("{}0.5ns,90ps\n", file("fit-delay.csv"));
+    for given in [&[][..], &[("tcq", "45ps")][..]] {
+        let w = fit("delay", &bad, given).unwrap()["warnings"].to_string();
+        assert!(
+            w.contains("Line 30 stands far out of the fit"),
+            "{given:?}: {w}"
+        );
+    }
+    let mut r = Random::new(20_261_204);
+    let (mut flagged, mut caught, n) = (0, 0, 200);
+    for k in 0..n {
+        let given: &[(&str, &str)] = if k % 2 == 0 { &[] } else { &[("tcq", "45ps")] };
+        let clean = sweep(&mut r, 16e-12, 30e-12, ln_coth, 0.15e-12);
+        let said = |data: &str| {
+            fit("delay", data, given).unwrap()["warnings"]
+                .to_string()
+                .contains("far out of the fit")
+        };
+        flagged += usize::from(said(&clean));
+        // One of the 12 points 15 ps to 1 ns from the balance point, 6 ps late.
+        let mut lines: Vec<String> = clean.lines().map(str::to_string).collect();
+        let at = 1 + 6 + (k % 6) + if k % 4 < 2 { 0 } else { 12 };
+        let cells: Vec<f64> = lines[at].split(',').map(|c| c.parse().unwrap()).collect();
+        lines[at] = format!("{:e},{:e}", cells[0], cells[1] + 6e-12);
+        caught += usize::from(said(&(lines.join("\n") + "\n")));
+    }
+    assert!(flagged <= n / 20, "{flagged} of {n} clean sweeps flagged");
+    assert_eq!(caught, n, "{caught} of {n} planted points named");
 }
 
 /// The warning about a given tcq quotes the same far-out median as the log-law fit takes

@@ -69,6 +69,18 @@ pub struct DelayFit {
     /// The log-law fit: how far the local slope drifts across the points it used (the
     /// slope of the nearer half against the farther half, relative).
     pub slope_drift: Option<f64>,
+    /// The whole-sweep fit: each used point's leverage h, from the fit's tangent plane
+    /// (J (J'J)^-1 J' at the fit; None for a point not used). None for the log-law fit.
+    pub leverage: Option<Vec<Option<f64>>>,
+}
+
+impl DelayFit {
+    /// The whole-sweep fit's delay at `offset`, s (None for the log-law fit).
+    pub fn predict(&self, offset: f64) -> Option<f64> {
+        let k = self.tail_shape?;
+        let x = ((offset - self.offset_m).abs() / (self.tw / 2.0)).max(1e-300);
+        Some(self.tcq + self.tau * tail_law(x, k))
+    }
 }
 
 /// The median of `v` (the mean of the middle two for an even count).
@@ -231,6 +243,7 @@ pub fn fit(offset: &[f64], delay: &[f64], tcq: Option<f64>) -> Result<DelayFit, 
         line: l,
         residuals: None,
         slope_drift: None,
+        leverage: None,
         tail_shape: None,
         joint: None,
     })
@@ -426,10 +439,13 @@ pub fn fit_coth(offset: &[f64], delay: &[f64], tcq: Option<f64>) -> Result<Delay
     };
     let all: Vec<usize> = (0..p).collect();
     let held: Vec<usize> = (0..p).filter(|&u| u != 3).collect();
-    let inv = curvature(&all)
-        .filter(|m| (0..p).all(|u| m[u][u] > 0.0))
-        .or_else(|| curvature(&held))
-        .ok_or("the sweep cannot separate tau from the window: widen it")?;
+    let (inv, free) = match curvature(&all).filter(|m| (0..p).all(|u| m[u][u] > 0.0)) {
+        Some(m) => (m, all),
+        None => (
+            curvature(&held).ok_or("the sweep cannot separate tau from the window: widen it")?,
+            held,
+        ),
+    };
     let df = idx.len() - p;
     let s2 = sse / df as f64;
     let t = crate::numeric::special::t_quantile(0.975, df as f64);
@@ -441,6 +457,20 @@ pub fn fit_coth(offset: &[f64], delay: &[f64], tcq: Option<f64>) -> Result<Delay
         return Err("the fitted tw is beyond any time: check the data".into());
     }
     let residuals: Vec<f64> = (0..n).map(|i| delay[i] - value(&th, i)).collect();
+    let leverage: Vec<Option<f64>> = (0..n)
+        .map(|i| {
+            (uses[i] == Use::Used).then(|| {
+                let j = jac(&th, i);
+                let mut h = 0.0;
+                for (u, &fu) in free.iter().enumerate() {
+                    for (v, &fv) in free.iter().enumerate() {
+                        h += j[fu] * inv[u][v] * j[fv];
+                    }
+                }
+                h.clamp(0.0, 1.0)
+            })
+        })
+        .collect();
     Ok(DelayFit {
         tau,
         tau_ci: (line::bound(tau - t * se_tau), line::bound(tau + t * se_tau)),
@@ -456,6 +486,7 @@ pub fn fit_coth(offset: &[f64], delay: &[f64], tcq: Option<f64>) -> Result<Delay
         line: start.line,
         residuals: Some(residuals),
         slope_drift: None,
+        leverage: Some(leverage),
         tail_shape: Some(th[3].exp()),
         // ln tw = ln 2 + ln ds; sd(ln tau) = sd(tau)/tau.
         // Undefined for a sweep the model fits exactly (no spread to correlate).
