@@ -1049,6 +1049,44 @@ fn a_given_tcq_above_the_far_delays_is_said_to_be_wrong() {
     assert!(named.contains("far out of the fit (a residual"), "{named}");
 }
 
+/// A mistyped count pulls the counts fit, and with it its neighbours' residuals: it alone
+/// is named, with what the fit without it expects there (the demo's row at 220 ps counts
+/// 50). Clean synthetic counts have a row named 3 times in 400 (at most 20 allowed); a count
+/// typed ten times over is named every time.
+#[test]
+fn a_count_far_out_of_the_fit_is_named_alone() {
+    let demo = file("fit-counts.csv");
+    let bad = demo.replace("\n220ps,50,10s\n", "\n220ps,500,10s\n");
+    assert_ne!(bad, demo);
+    let rates = [("fclk", "1GHz"), ("fdata", "50MHz")];
+    let w = fit("counts", &bad, &rates).unwrap()["warnings"].to_string();
+    assert!(
+        w.contains("Line 7 (500 failures, where the fit without it expects 50.9) stands far"),
+        "{w}"
+    );
+    let said = |data: &str| {
+        fit("counts", data, &rates).unwrap()["warnings"]
+            .to_string()
+            .contains("far out of the fit")
+    };
+    assert!(!said(&demo));
+    let mut r = Random::new(20_261_205);
+    let (mut flagged, mut caught, n) = (0, 0, 400);
+    for k in 0..n {
+        let clean = synthetic_counts(&mut r, 18e-12, 22e-12);
+        flagged += usize::from(said(&clean));
+        // One of the four rows expecting 50 failures or more, ten times over.
+        let mut lines: Vec<String> = clean.lines().map(str::to_string).collect();
+        let at = 1 + k % 4;
+        let cells: Vec<String> = lines[at].split(',').map(str::to_string).collect();
+        let tenfold = cells[1].parse::<f64>().unwrap() * 10.0;
+        lines[at] = format!("{},{tenfold},{}", cells[0], cells[2]);
+        caught += usize::from(said(&(lines.join("\n") + "\n")));
+    }
+    assert!(flagged <= n / 20, "{flagged} of {n} clean tables flagged");
+    assert_eq!(caught, n, "{caught} of {n} tenfold counts named");
+}
+
 /// A bad point can pull the whole-sweep fit so far that it hides in the spread it
 /// causes: 90 ps at 0.5 ns, where the demo's sweep is back at 45 ps, halves tau and leaves
 /// every residual near 15 ps, its own (43 ps) within 5 robust deviations. It is named by

@@ -290,6 +290,7 @@ pub fn evaluate(f: &Fitted) -> FitReport {
                 counts: d,
                 lines,
                 t0,
+                fclk,
                 fdata,
                 ..
             },
@@ -419,6 +420,39 @@ pub fn evaluate(f: &Fitted) -> FitReport {
                      drift between rows or a second failure mechanism before trusting the \
                      intervals.",
                     format_sig(fit.p_value.unwrap_or(0.0), 2)
+                ));
+            }
+            let far = far_count_rows(d, fclk.get(), fdata.get(), fit);
+            if !far.is_empty() {
+                let named: Vec<String> = far
+                    .iter()
+                    .enumerate()
+                    .map(|(k, &(i, expected))| {
+                        format!(
+                            "{} {} ({} failure{}, where the fit without it expects {})",
+                            if k == 0 { "Line" } else { "line" },
+                            lines[i],
+                            crate::units::format_log10(d.failures[i].log10(), 6),
+                            if d.failures[i] == 1.0 { "" } else { "s" },
+                            crate::units::format_log10(expected.log10(), 3)
+                        )
+                    })
+                    .collect();
+                r.warnings.push(format!(
+                    "{} stand{} far out of the fit (a standardized deviance residual beyond \
+                     a 1 % chance over the rows{}): check {} before trusting tau and tw.",
+                    named.join(", "),
+                    if far.len() == 1 { "s" } else { "" },
+                    if far.len() == 1 {
+                        ""
+                    } else {
+                        "; each named with the rows fitted again without those before"
+                    },
+                    if far.len() == 1 {
+                        "that row"
+                    } else {
+                        "those rows"
+                    }
                 ));
             }
             r.rows = lines
@@ -681,6 +715,70 @@ fn far_delay(offset: &[f64], delay: &[f64]) -> Option<(f64, f64)> {
     let mid = median(far.clone());
     let scatter = 1.4826 * median(far.iter().map(|d| (d - mid).abs()).collect());
     Some((mid, scatter))
+}
+
+/// The rows of a counts fit that stand out of it, one at a time (at most
+/// [`FAR_POINTS_MOST`]): the row whose deviance residual, standardized by its leverage in
+/// the Poisson log-linear fit (h = mu (1/S0 + (tr - c)^2/S2), S the mu-weighted sums
+/// about their mean c), is largest and beyond the normal quantile at a 1 % chance over
+/// the rows (Bonferroni) is named, and the rows fitted again without it: one mistyped
+/// count pulls the fit and, with it, its neighbours' residuals. McCullagh and Nelder,
+/// "Generalized Linear Models", 2nd ed., Chapman & Hall 1989, section 12.5 (recalled).
+/// Returns each named row's index, with the failures that the fit without it expects
+/// there.
+fn far_count_rows(
+    d: &super::counts::Counts,
+    fclk: f64,
+    fdata: f64,
+    fit: &super::counts::CountsFit,
+) -> Vec<(usize, f64)> {
+    let mut far = Vec::new();
+    let mut keep: Vec<usize> = (0..d.tr.len()).collect();
+    let mut now = (d.clone(), fit.clone());
+    while far.len() < FAR_POINTS_MOST && keep.len() > 3 {
+        let (sub, f) = &now;
+        let mu = &f.expected;
+        let s0: f64 = mu.iter().sum();
+        if s0.is_nan() || s0 <= 0.0 {
+            break;
+        }
+        let c = mu.iter().zip(&sub.tr).map(|(m, t)| m * t).sum::<f64>() / s0;
+        let s2: f64 = mu
+            .iter()
+            .zip(&sub.tr)
+            .map(|(m, t)| m * (t - c) * (t - c))
+            .sum();
+        let limit = crate::numeric::normal::upper_quantile(0.005 / sub.tr.len() as f64);
+        let worst = (0..sub.tr.len())
+            .filter_map(|i| {
+                let spread = if s2 > 0.0 {
+                    (sub.tr[i] - c).powi(2) / s2
+                } else {
+                    0.0
+                };
+                let h = mu[i] * (1.0 / s0 + spread);
+                (h < 1.0).then(|| (i, (f.residuals[i] / (1.0 - h).sqrt()).abs()))
+            })
+            .max_by(|a, b| a.1.total_cmp(&b.1))
+            .filter(|(_, z)| *z > limit);
+        let Some((i, _)) = worst else {
+            break;
+        };
+        let mut rest = sub.clone();
+        for v in [&mut rest.tr, &mut rest.failures, &mut rest.duration] {
+            v.remove(i);
+        }
+        let Ok(again) = super::counts::fit(&rest, fclk, fdata) else {
+            break;
+        };
+        // The failures the fit without the row expects there: mu = w fclk fdata T e^(-tr/tau).
+        let expected = (again.window.ln() - sub.tr[i] / again.tau
+            + (sub.duration[i] * fclk * fdata).ln())
+        .exp();
+        far.push((keep.remove(i), expected));
+        now = (rest, again);
+    }
+    far
 }
 
 /// The most points a sweep's search for far-out points names.

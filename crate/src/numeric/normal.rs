@@ -132,6 +132,20 @@ pub fn ln_q(x: f64) -> f64 {
     ln_erfc(x / SQRT_2) - std::f64::consts::LN_2
 }
 
+/// The standard normal's upper quantile: the `z` with `Q(z) = alpha`, for
+/// `0 < alpha <= 1/2` (down to the smallest double: z = 38.5 at 1e-324).
+///
+/// # Examples
+/// ```
+/// use latchwise::numeric::normal::upper_quantile;
+/// // z(0.025) = 1.959964 (the two-sided 95 % point, a table value of the trade).
+/// assert!((upper_quantile(0.025) - 1.959_963_984_540_054).abs() < 1e-9);
+/// ```
+pub fn upper_quantile(alpha: f64) -> f64 {
+    let target = alpha.ln();
+    super::solve::bisect_last(0.0, 40.0, 1e-13, 200, |z| ln_q(z) >= target)
+}
+
 /// ln P(a < X < b) for a standard normal X, given the midpoint `m = (a+b)/2` and the
 /// natural log of the half-width `h = (b-a)/2`. Accurate for half-widths from 1e-300000
 /// (as `ln_h`) up to the whole line, in the tails as well as at the centre.
