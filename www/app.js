@@ -75,7 +75,10 @@
     var last = {};
     pairs.forEach(function (kv) { last[kv[0]] = kv[1]; });
     inputs().forEach(function (el) {
-      el.value = Object.prototype.hasOwnProperty.call(last, el.name) ? last[el.name] : '';
+      // A choice the case leaves out shows what the core reads then (data-absent), where
+      // the choice has no empty option of its own.
+      el.value = Object.prototype.hasOwnProperty.call(last, el.name) ? last[el.name]
+        : (el.dataset.absent || '');
     });
     // The section of less common inputs opens when the case uses any of them.
     var beyond = document.getElementById('beyond');

@@ -149,3 +149,18 @@ test('a fit joins stored corners in their own delimiter, and a quoted name stays
   assert.deepEqual(problems, []);
   await context.close();
 });
+
+test('a link that leaves out a choice the core has a default for shows that default, and a far-out count is named', async () => {
+  const data = (await import('node:fs')).readFileSync(path.join(root, 'examples/fit-counts.csv'), 'utf8')
+    .replace('\n220ps,50,10s\n', '\n220ps,500,10s\n');
+  const q = new URLSearchParams({ kind: 'counts', data, fclk: '1GHz', fdata: '50MHz' });
+  const { context, page } = await open(env.browser, fileUrl('characterize.html') + '?' + q);
+  // The core reads no window as tw: the choice says so instead of standing blank.
+  assert.equal(await page.$eval('#f-window', (s) => s.value), 'tw');
+  assert.notEqual(await page.$eval('#f-window', (s) => s.selectedIndex), -1);
+  const out = await outputs(page);
+  assert.match(out.tw_s.text, / ps$/);
+  assert.match(await page.textContent('body'),
+    /Line 7 \(500 failures, where the fit without it expects 50\.9\) stands far out of the fit/);
+  await context.close();
+});
