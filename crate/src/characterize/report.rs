@@ -438,21 +438,12 @@ pub fn evaluate(f: &Fitted) -> FitReport {
                         )
                     })
                     .collect();
-                r.warnings.push(format!(
-                    "{} stand{} far out of the fit (a standardized deviance residual beyond \
-                     a 1 % chance over the rows{}): check {} before trusting tau and tw.",
-                    named.join(", "),
-                    if far.len() == 1 { "s" } else { "" },
-                    if far.len() == 1 {
-                        ""
-                    } else {
-                        "; each named with the rows fitted again without those before"
-                    },
-                    if far.len() == 1 {
-                        "that row"
-                    } else {
-                        "those rows"
-                    }
+                r.warnings.push(far_out_warning(
+                    &named,
+                    |_| "a standardized deviance residual beyond a 1 % chance over the rows".into(),
+                    "; each named with the rows fitted again without those before",
+                    ("row", "rows"),
+                    "tau and tw",
                 ));
             }
             r.rows = lines
@@ -573,24 +564,18 @@ pub fn evaluate(f: &Fitted) -> FitReport {
                             format!("{} {}", if k == 0 { "Line" } else { "line" }, lines[i])
                         })
                         .collect();
-                    r.warnings.push(format!(
-                        "{} stand{} far out of the fit (a residual beyond 5 robust standard \
-                         deviations, or a distance from the sweep fitted without {} beyond \
-                         a 1 % chance over the sweep{}): check {} before trusting tau and \
-                         tw.",
-                        named.join(", "),
-                        if far.len() == 1 { "s" } else { "" },
-                        if far.len() == 1 { "it" } else { "each" },
-                        if far.len() == 1 {
-                            ""
-                        } else {
-                            "; each named with the sweep fitted again without those before"
+                    r.warnings.push(far_out_warning(
+                        &named,
+                        |it| {
+                            format!(
+                                "a residual beyond 5 robust standard deviations, or a distance \
+                                 from the sweep fitted without {it} beyond a 1 % chance over \
+                                 the sweep"
+                            )
                         },
-                        if far.len() == 1 {
-                            "that point"
-                        } else {
-                            "those points"
-                        }
+                        "; each named with the sweep fitted again without those before",
+                        ("point", "points"),
+                        "tau and tw",
                     ));
                 }
             }
@@ -646,18 +631,17 @@ pub fn evaluate(f: &Fitted) -> FitReport {
                 .map(|(k, i)| format!("{} {}", if k == 0 { "Line" } else { "line" }, lines[i]))
                 .collect();
             if !far.is_empty() {
-                r.warnings.push(format!(
-                    "{} stand{} far out of the fit (beyond the line fitted without {} by more \
-                     than a 1 % chance over the sweep allows): check {} before trusting tau \
-                     and v0.",
-                    far.join(", "),
-                    if far.len() == 1 { "s" } else { "" },
-                    if far.len() == 1 { "it" } else { "each" },
-                    if far.len() == 1 {
-                        "that point"
-                    } else {
-                        "those points"
-                    }
+                r.warnings.push(far_out_warning(
+                    &far,
+                    |it| {
+                        format!(
+                            "beyond the line fitted without {it} by more than a 1 % chance \
+                             over the sweep allows"
+                        )
+                    },
+                    "",
+                    ("point", "points"),
+                    "tau and v0",
                 ));
             }
             // The law gives a regeneration time only below v0: an input above it (a
@@ -715,6 +699,29 @@ fn far_delay(offset: &[f64], delay: &[f64]) -> Option<(f64, f64)> {
     let mid = median(far.clone());
     let scatter = 1.4826 * median(far.iter().map(|d| (d - mid).abs()).collect());
     Some((mid, scatter))
+}
+
+/// The warning that names rows or points far out of a fit: `named` as they are listed
+/// (the first with a capital), `test` what puts them there (given "it" for one, "each"
+/// for more), `refitted` the note for more than one, `thing` its singular and plural,
+/// and `trusting` what they put in doubt.
+fn far_out_warning(
+    named: &[String],
+    test: impl Fn(&str) -> String,
+    refitted: &str,
+    thing: (&str, &str),
+    trusting: &str,
+) -> String {
+    let one = named.len() == 1;
+    format!(
+        "{} stand{} far out of the fit ({}{}): check {} {} before trusting {trusting}.",
+        named.join(", "),
+        if one { "s" } else { "" },
+        test(if one { "it" } else { "each" }),
+        if one { "" } else { refitted },
+        if one { "that" } else { "those" },
+        if one { thing.0 } else { thing.1 },
+    )
 }
 
 /// The rows of a counts fit that stand out of it, one at a time (at most
