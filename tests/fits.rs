@@ -1104,6 +1104,23 @@ fn a_bad_point_hiding_in_the_spread_it_causes_is_named() {
             "{given:?}: {w}"
         );
     }
+    // The fit's own prediction gives back each point's delay from its residual.
+    let time =
+        |c: &str| latchwise::quantity::parse("delay", c, latchwise::units::Dim::Time).unwrap();
+    let (o, d): (Vec<f64>, Vec<f64>) = table_rows(&bad)
+        .iter()
+        .map(|l| l.split_once(',').unwrap())
+        .map(|(a, b)| (time(a), time(b)))
+        .unzip();
+    let whole = latchwise::characterize::delay::fit_coth(&o, &d, None).unwrap();
+    for (i, r) in whole.residuals.as_ref().unwrap().iter().enumerate() {
+        let back = whole.predict(o[i]).unwrap() + r;
+        assert!(
+            (back - d[i]).abs() <= 1e-24 + 1e-15 * d[i],
+            "{i}: {back:e} {:e}",
+            d[i]
+        );
+    }
     let mut r = Random::new(20_261_204);
     let (mut flagged, mut caught, n) = (0, 0, 200);
     for k in 0..n {

@@ -764,7 +764,7 @@ fn far_count_rows(
                     0.0
                 };
                 let h = mu[i] * (1.0 / s0 + spread);
-                (h < 1.0).then(|| (i, (f.residuals[i] / (1.0 - h).sqrt()).abs()))
+                (h < 1.0 - 1e-9).then(|| (i, (f.residuals[i] / (1.0 - h).sqrt()).abs()))
             })
             .max_by(|a, b| a.1.total_cmp(&b.1))
             .filter(|(_, z)| *z > limit);
