@@ -427,14 +427,14 @@ pub fn evaluate(f: &Fitted) -> FitReport {
                 let named: Vec<String> = far
                     .iter()
                     .enumerate()
-                    .map(|(k, &(i, expected))| {
+                    .map(|(k, &(i, log10_expected))| {
                         format!(
                             "{} {} ({} failure{}, where the fit without it expects {})",
                             if k == 0 { "Line" } else { "line" },
                             lines[i],
                             crate::units::format_log10(d.failures[i].log10(), 6),
                             if d.failures[i] == 1.0 { "" } else { "s" },
-                            crate::units::format_log10(expected.log10(), 3)
+                            crate::units::format_log10(log10_expected, 3)
                         )
                     })
                     .collect();
@@ -731,8 +731,8 @@ fn far_out_warning(
 /// the rows (Bonferroni) is named, and the rows fitted again without it: one mistyped
 /// count pulls the fit and, with it, its neighbours' residuals. McCullagh and Nelder,
 /// "Generalized Linear Models", 2nd ed., Chapman & Hall 1989, section 12.5 (recalled).
-/// Returns each named row's index, with the failures that the fit without it expects
-/// there.
+/// Returns each named row's index, with log10 of the failures that the fit without it
+/// expects there.
 fn far_count_rows(
     d: &super::counts::Counts,
     fclk: f64,
@@ -778,11 +778,11 @@ fn far_count_rows(
         let Ok(again) = super::counts::fit(&rest, fclk, fdata) else {
             break;
         };
-        // The failures the fit without the row expects there: mu = w fclk fdata T e^(-tr/tau).
-        let expected = (again.window.ln() - sub.tr[i] / again.tau
-            + (sub.duration[i] * fclk * fdata).ln())
-        .exp();
-        far.push((keep.remove(i), expected));
+        // The failures the fit without the row expects there (log10): the rate law per
+        // data edge, times the row's data edges.
+        let log10_expected = super::counts::log10_per_edge(&again, fclk, sub.tr[i])
+            + (sub.duration[i] * fdata).log10();
+        far.push((keep.remove(i), log10_expected));
         now = (rest, again);
     }
     far
